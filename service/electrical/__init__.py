@@ -1,0 +1,1 @@
+"""The calculation core: pure functions on numpy arrays, no web framework."""

@@ -1,0 +1,45 @@
+"""Small helpers for working on columns of many circuits at once."""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Hashable, Mapping
+from typing import Any
+
+import numpy as np
+
+
+def as_float(values: Any) -> np.ndarray:
+    """A 1-D float array (a scalar becomes an array of one)."""
+    return np.atleast_1d(np.asarray(values, dtype=float))
+
+
+def as_objects(values: Any, n: int) -> np.ndarray:
+    """A 1-D object array of length ``n``; a scalar (or None) is repeated."""
+    if isinstance(values, (str, bytes)) or values is None or not hasattr(values, "__len__"):
+        out = np.empty(n, dtype=object)
+        out.fill(values)
+        return out
+    out = np.empty(len(values), dtype=object)
+    for i, value in enumerate(values):  # element by element: tuples stay single items
+        out[i] = value
+    return out
+
+
+def map_column(keys: Any, n: int, lookup: Callable[[Hashable], Any], dtype: Any = float) -> np.ndarray:
+    """Apply ``lookup`` once per distinct key and spread the answers over the column."""
+    column = as_objects(keys, n)
+    distinct: dict[Hashable, Any] = {}
+    out = np.empty(len(column), dtype=dtype)
+    for i, key in enumerate(column):
+        if key not in distinct:
+            distinct[key] = lookup(key)
+        out[i] = distinct[key]
+    return out
+
+
+def groups(keys: Any) -> Mapping[Hashable, np.ndarray]:
+    """Indices of each distinct key, in order of first appearance."""
+    found: dict[Hashable, list[int]] = {}
+    for i, key in enumerate(keys):
+        found.setdefault(key, []).append(i)
+    return {key: np.asarray(idx, dtype=np.intp) for key, idx in found.items()}

@@ -1,0 +1,1 @@
+"""Protective devices and their time-current characteristics."""

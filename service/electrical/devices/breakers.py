@@ -1,0 +1,70 @@
+"""Circuit-breakers to BS EN 60898-1 and RCBOs to BS EN 61009-1, types B, C and D.
+
+The characteristic is the envelope of the standard's limits (data/breakers.json): the thermal
+test points 1.45 In and 2.55 In, flat from 2.55 In to the upper instantaneous limit (5, 10 or
+20 In), then a vertical drop to 0.1 s. So for any required time from 0.1 s to the 2.55 In time
+the operating current Ia is the upper instantaneous limit, as BS 7671:2018 Table 41.3 uses it.
+"""
+
+from __future__ import annotations
+
+from functools import lru_cache
+
+from ..datafiles import device_table
+from ..errors import UnknownDevice
+from .base import Device
+from .characteristic import Characteristic
+
+
+def _table() -> dict:
+    return device_table("breakers")
+
+
+def breaker_standards() -> list[str]:
+    return list(_table()["standards"])
+
+
+def breaker_types() -> list[str]:
+    return list(_table()["types"])
+
+
+@lru_cache(maxsize=4096)
+def circuit_breaker(standard: str, type_: str, rating_a: float) -> Device:
+    """The device for a breaker of ``standard`` ('BS EN 60898' or 'BS EN 61009'), type and rating."""
+    table = _table()
+    if standard not in table["standards"]:
+        raise UnknownDevice("standard", f"unknown circuit-breaker standard {standard!r}; use one of {breaker_standards()}")
+    if type_ not in table["types"]:
+        raise UnknownDevice("type", f"circuit-breakers to {standard} are type B, C or D, not {type_!r}")
+    rmin, rmax = table["rating_range_a"]["min"], table["rating_range_a"]["max"]
+    if not (rmin <= rating_a <= rmax):
+        raise UnknownDevice("rating_a", f"{standard} covers ratings from {rmin:g} A to {rmax:g} A, not {rating_a:g} A")
+    multiples = table["types"][type_]
+    t_145, t_255 = table["thermal_points"]
+    long_time = t_145["time_s_up_to_63a"] if rating_a <= 63 else t_145["time_s_above_63a"]
+    mid_time = t_255["time_s_up_to_32a"] if rating_a <= 32 else t_255["time_s_above_32a"]
+    upper = multiples["instantaneous_upper_multiple"] * rating_a
+    inst_time = table["instantaneous_time_s"]
+    points = [
+        (t_145["multiple"] * rating_a, long_time),
+        (t_255["multiple"] * rating_a, mid_time),
+        (upper, mid_time),
+        (upper, inst_time),
+    ]
+    family = "bs-en-60898" if standard == "BS EN 60898" else "bs-en-61009"
+    return Device(
+        device_id=f"{family}-{type_.lower()}",
+        kind="circuit-breaker",
+        standard=standard,
+        type=type_,
+        rating_a=float(rating_a),
+        characteristic=Characteristic.from_points(points),
+        regions=((t_145["multiple"] * rating_a, "thermal"), (upper, "instantaneous")),
+        source=table["source"],
+        confidence=table["confidence"],
+        notes=(
+            f"Trips within {inst_time:g} s at and above {multiples['instantaneous_upper_multiple']:g} In "
+            f"({upper:g} A); the standard's data cannot show a shorter time.",
+        ),
+        residual=bool(table["standards"][standard]["residual"]),
+    )

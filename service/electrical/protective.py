@@ -1,0 +1,147 @@
+"""Protective conductor: k, the adiabatic minimum size and the Table 54.7 alternative.
+
+k comes from the IEC 60364-5-54 Annex A formula (data/protective_k.json); where the case is a
+row of BS 7671 Tables 43.1 or 54.2-54.6 the tabulated value is reported as the one to use, so
+the answer matches the book, with the formula value beside it.
+"""
+
+from __future__ import annotations
+
+from typing import Any
+
+import numpy as np
+
+from .arrays import as_float, as_objects, map_column
+from .datafiles import core_table
+from .errors import InvalidInput, NoRule
+
+ARRANGEMENTS = ("in-cable", "separate", "armour", "sheath", "conduit", "bare")
+BARE_CONDITIONS = ("visible-restricted", "normal", "fire-risk")
+CPC_MATERIALS = ("copper", "aluminium", "steel", "lead")
+ADIABATIC_MIN_S = 0.1
+ADIABATIC_MAX_S = 5.0
+
+
+def _table() -> dict:
+    return core_table("protective_k")
+
+
+def k_formula(material: str, initial_c: Any, final_c: Any) -> np.ndarray:
+    """k = sqrt(Qc (beta + 20) / rho20 x ln(1 + (theta_f - theta_i) / (beta + theta_i))).
+
+    IEC 60364-5-54:2011 Annex A, equation A.1, with the material constants of Table A.54.1.
+    Units: A s^0.5 / mm2.
+    """
+    try:
+        m = _table()["materials"][material]
+    except KeyError:
+        raise InvalidInput("material", f"k needs a material among {sorted(_table()['materials'])}, not {material!r}") from None
+    beta, qc, rho = m["beta_c"], m["qc_j_per_c_mm3"], m["rho20_ohm_mm"]
+    ti, tf = as_float(initial_c), as_float(final_c)
+    return np.sqrt(qc * (beta + 20.0) / rho * np.log(1.0 + (tf - ti) / (beta + ti)))
+
+
+def k_case(material: str, arrangement: str, insulation: str | None, csa_mm2: float, condition: str | None = None) -> dict[str, Any]:
+    """The rule for one protective conductor: temperatures, k by formula and by table, and the table.
+
+    ``arrangement``: ``in-cable`` (a core of a cable, or bunched: Table 54.3, as Table 43.1),
+    ``separate`` (not in a cable and not bunched: Table 54.2), ``armour`` or ``sheath`` (Table 54.4),
+    ``conduit`` (steel conduit or trunking: Table 54.5), ``bare`` (Table 54.6, by ``condition``).
+    """
+    if arrangement not in ARRANGEMENTS:
+        raise InvalidInput("cpc_arrangement", f"cpc_arrangement is one of {list(ARRANGEMENTS)}, not {arrangement!r}")
+    for case in _table()["cases"]:
+        if case["arrangement"] != arrangement:
+            continue
+        if arrangement == "bare":
+            if case["condition"] != condition:
+                continue
+        elif case["insulation"] != insulation:
+            continue
+        large = csa_mm2 > 300 and "final_c_over_300mm2" in case
+        finals = case["final_c_over_300mm2"] if large else case["final_c"]
+        tabulated = case["tabulated_k_over_300mm2"] if large else case["tabulated_k"]
+        if material not in finals:
+            raise NoRule(
+                "cpc_material", f"no rule for a {material} protective conductor as {arrangement}; materials: {sorted(finals)}"
+            )
+        formula = float(k_formula(material, case["initial_c"], finals[material])[0])
+        table_k = tabulated.get(material)
+        return {
+            "initial_c": float(case["initial_c"]),
+            "final_c": float(finals[material]),
+            "k_formula": formula,
+            "k_tabulated": None if table_k is None else float(table_k),
+            "k": formula if table_k is None else float(table_k),
+            "table": case["table"] + (" (over 300 mm2)" if large else ""),
+        }
+    if arrangement == "bare":
+        raise InvalidInput("bare_condition", f"a bare cpc needs bare_condition, one of {list(BARE_CONDITIONS)}")
+    raise NoRule("insulation", f"no rule for a cpc as {arrangement} with {insulation!r} insulation")
+
+
+def k_cases(material: Any, arrangement: Any, insulation: Any, csa_mm2: Any, condition: Any = None) -> dict[str, np.ndarray]:
+    """:func:`k_case` for arrays of protective conductors; one lookup per distinct case."""
+    csa = as_float(csa_mm2)
+    n = len(csa)
+    keys = list(zip(as_objects(material, n), as_objects(arrangement, n), as_objects(insulation, n), (c > 300 for c in csa), as_objects(condition, n)))
+    cases = map_column(keys, n, lambda key: k_case(key[0], key[1], key[2], 301.0 if key[3] else 1.0, key[4]), dtype=object)
+    out = {name: np.array([c[name] for c in cases], dtype=float) for name in ("initial_c", "final_c", "k_formula", "k")}
+    out["k_tabulated"] = np.array([np.nan if c["k_tabulated"] is None else c["k_tabulated"] for c in cases])
+    out["table"] = as_objects([c["table"] for c in cases], n)
+    return out
+
+
+def fault_energy_a2s(current_a: Any, time_s: Any, let_through_a2s: Any = None) -> tuple[np.ndarray, np.ndarray]:
+    """Energy I^2 t (A^2 s) the protective conductor must withstand, and how it was found.
+
+    - 0.1 s <= t <= 5 s: I^2 t (the adiabatic equation's range, BS 7671 543.1.3).
+    - t below 0.1 s (or 'at most 0.1 s'): the device's let-through I^2 t where given; otherwise
+      I^2 x 0.1 s, a stated conservative value (the device clears within 0.1 s at this current).
+    - t above 5 s or no disconnection: NaN (the adiabatic equation does not apply).
+    """
+    i = as_float(current_a)
+    t = np.broadcast_to(as_float(time_s), i.shape)
+    given = np.broadcast_to(as_float(np.nan if let_through_a2s is None else let_through_a2s), i.shape)
+    energy = i * i * t
+    method = np.full(i.shape, "adiabatic", dtype=object)
+    short = t <= ADIABATIC_MIN_S
+    energy = np.where(short & ~np.isnan(given), given, energy)
+    method = np.where(short & ~np.isnan(given), "let-through", method)
+    energy = np.where(short & np.isnan(given), i * i * ADIABATIC_MIN_S, energy)
+    method = np.where(short & np.isnan(given), "conservative-0.1s", method)
+    outside = ~np.isfinite(t) | (t > ADIABATIC_MAX_S)
+    energy = np.where(outside, np.nan, energy)
+    method = np.where(outside, "outside-adiabatic-range", method)
+    return energy, method.astype(object)
+
+
+def min_csa_mm2(energy_a2s: Any, k: Any) -> np.ndarray:
+    """Minimum protective conductor size S = sqrt(I^2 t) / k, mm2 (BS 7671 543.1.3, IEC 60364-5-54 543.1.2)."""
+    return np.sqrt(as_float(energy_a2s)) / as_float(k)
+
+
+def standard_sizes() -> np.ndarray:
+    return np.asarray(core_table("standard_sizes")["csa_mm2"], dtype=float)
+
+
+def next_standard_size_mm2(csa_mm2: Any) -> np.ndarray:
+    """The smallest standard size (IEC 60228) at or above each value; NaN above the largest or for NaN."""
+    sizes = standard_sizes()
+    csa = as_float(csa_mm2)
+    idx = np.searchsorted(sizes, csa * (1 - 1e-12), side="left")
+    out = sizes[np.clip(idx, 0, len(sizes) - 1)]
+    return np.where((idx >= len(sizes)) | np.isnan(csa), np.nan, out)
+
+
+def selection_csa_mm2(line_csa_mm2: Any, k_line: Any = None, k_cpc: Any = None) -> np.ndarray:
+    """Protective conductor size by selection, BS 7671:2018 Table 54.7, rounded up to a standard size.
+
+    S <= 16 mm2: S; 16 < S <= 35: 16; S > 35: S/2; a cpc of another material: times k1/k2
+    (k1 for the line conductor, k2 for the cpc).
+    """
+    s = as_float(line_csa_mm2)
+    base = np.where(s <= 16, s, np.where(s <= 35, 16.0, s / 2.0))
+    if k_line is not None and k_cpc is not None:
+        base = base * as_float(k_line) / as_float(k_cpc)
+    return next_standard_size_mm2(base)
