@@ -229,7 +229,7 @@ def _conductor_columns(circuits: Sequence[Circuit]) -> dict[str, np.ndarray]:
             cpc_r20[j] = cond.resistance_mohm_per_m(cpc_materials[j], c.cpc_csa_mm2, c.conductor_class, field="cpc_csa_mm2")[0]
         else:
             raise InvalidInput(
-                "conductors.cpc_resistance_mohm_per_m",
+                "cpc_resistance_mohm_per_m",
                 f"a {cpc_materials[j]} {c.cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
             )
     line_temp = cond.operating_temperature_c(_column(cs, "insulation"), len(cs), field="insulation")
@@ -251,26 +251,46 @@ def _conductor_columns(circuits: Sequence[Circuit]) -> dict[str, np.ndarray]:
     return out
 
 
+def _prefixed(prefix: str, err: ElectricalError) -> ElectricalError:
+    field = err.field if err.field.startswith(prefix) else f"{prefix}{err.field}"
+    return type(err)(field, err.message)
+
+
+_SUPPLY_FIELDS = ("earthing", "u0_v", "ze_ohm", "c_max", "current_kind", "zs_ohm")
+
+
 def _validate_one(supply: Supply, circuit: Circuit) -> None:
-    """Per-item lookups that can fail, so that one bad circuit never sinks a batch."""
-    dev = resolve(circuit.device.as_mapping()) if circuit.device else None
-    if dev is None:
-        raise InvalidInput("device", "a circuit needs its protective device")
-    if circuit.device.rcd is not None:
-        residual.rcd_characteristic(circuit.device.rcd.residual_current_ma, circuit.device.rcd.delay)
-    if dev.residual and circuit.device.rcd is None:
-        raise InvalidInput("device.rcd", f"an RCBO to {dev.standard} needs its residual part: rcd.residual_current_ma")
+    """Per-item lookups that can fail, so that one bad circuit never sinks a batch.
+
+    Errors name the field from the circuit's point of view: ``device.rating_a``,
+    ``conductors.line_csa_mm2``, ``supply.u0_v``, ``role``.
+    """
+    try:
+        dev = resolve(circuit.device.as_mapping())
+        if circuit.device.rcd is not None:
+            residual.rcd_characteristic(circuit.device.rcd.residual_current_ma, circuit.device.rcd.delay)
+        if dev.residual and circuit.device.rcd is None:
+            raise InvalidInput("rcd", f"an RCBO to {dev.standard} needs its residual part: rcd.residual_current_ma")
+    except ElectricalError as err:
+        raise _prefixed("device.", err) from None
     if circuit.conductors is None and circuit.r1_plus_r2_ohm is None:
         raise InvalidInput("conductors", "give the conductors, or a known r1_plus_r2_ohm")
     if circuit.conductors is not None:
-        _conductor_columns([circuit])
-    disconnection.max_disconnection_time_s(
-        supply.earthing, supply.u0_v, circuit.role, circuit.load, circuit.device.rating_a,
-        supply.current_kind, False, supply.reduced_low_voltage,
-    )
-    faults.prospective_fault_current_ka(supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max)
-    if supply.ze_ohm <= 0 or supply.u0_v <= 0:
-        raise InvalidInput("supply.ze_ohm" if supply.ze_ohm <= 0 else "supply.u0_v", "must be greater than zero")
+        try:
+            _conductor_columns([circuit])
+        except ElectricalError as err:
+            raise _prefixed("conductors.", err) from None
+    for name in ("ze_ohm", "u0_v"):
+        if not getattr(supply, name) > 0:
+            raise InvalidInput(f"supply.{name}", "must be greater than zero")
+    try:
+        disconnection.max_disconnection_time_s(
+            supply.earthing, supply.u0_v, circuit.role, circuit.load, circuit.device.rating_a,
+            supply.current_kind, False, supply.reduced_low_voltage,
+        )
+        faults.prospective_fault_current_ka(supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max)
+    except ElectricalError as err:
+        raise (_prefixed("supply.", err) if err.field in _SUPPLY_FIELDS else err) from None
 
 
 def check_circuit(supply: Supply, circuit: Circuit) -> CircuitResult:

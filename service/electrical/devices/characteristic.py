@@ -40,8 +40,8 @@ class Characteristic:
         current = np.asarray(self.current_a, dtype=float)
         time = np.asarray(self.time_s, dtype=float)
         est = np.zeros(current.shape, dtype=bool) if self.estimated is None else np.asarray(self.estimated, bool)
-        if current.ndim != 1 or current.shape != time.shape or est.shape != current.shape or len(current) < 2:
-            raise InvalidInput("curve_points", "a characteristic needs at least two (current, time) points")
+        if current.ndim != 1 or current.shape != time.shape or est.shape != current.shape or len(current) < 1:
+            raise InvalidInput("curve_points", "a characteristic needs (current, time) points")
         if not (np.all(np.isfinite(current)) and np.all(np.isfinite(time))) or np.any(current <= 0) or np.any(time <= 0):
             raise InvalidInput("curve_points", "currents and times must be finite and greater than zero")
         d_current = np.diff(current)
@@ -75,6 +75,11 @@ class Characteristic:
         """
         x = np.log(np.maximum(as_float(current_a), np.finfo(float).tiny))
         lx, ly, est = self._lx, self._ly, self.estimated
+        if len(lx) == 1:  # one published point: 'at most' that time at and above its current
+            at = x >= lx[0]
+            bound = np.where(at, np.where(est[0], ESTIMATED, AT_MOST), BEYOND_DATA).astype(object)
+            bound = np.where(x == lx[0], np.where(est[0], ESTIMATED, INTERPOLATED), bound).astype(object)
+            return np.where(at, self.time_s[0], np.inf), bound
         last = len(lx) - 1
         i = np.searchsorted(lx, x, side="right") - 1
         below = i < 0
@@ -83,10 +88,10 @@ class Characteristic:
         hi = lo + 1
         span = lx[hi] - lx[lo]
         with np.errstate(divide="ignore", invalid="ignore"):
-            frac = np.where(span > 0, (x - lx[lo]) / np.where(span > 0, span, 1.0), 1.0)
+            frac = np.clip(np.where(span > 0, (x - lx[lo]) / np.where(span > 0, span, 1.0), 1.0), 0.0, 1.0)
         y = ly[lo] + frac * (ly[hi] - ly[lo])
         # exactly on a point: the tabulated value itself, not its round trip through logarithms
-        time = np.where(frac >= 1, self.time_s[hi], np.where(frac <= 0, self.time_s[lo], np.exp(y)))
+        time = np.where((frac >= 1) | (ly[hi] == ly[lo]), self.time_s[hi], np.where(frac <= 0, self.time_s[lo], np.exp(y)))
         seg_est = (est[lo] & (frac < 1)) | (est[hi] & (frac > 0))
         bound = np.where(seg_est, ESTIMATED, INTERPOLATED).astype(object)
         time = np.where(above, self.time_s[-1], time)
@@ -106,6 +111,10 @@ class Characteristic:
         """
         t = np.log(np.maximum(as_float(time_s), np.finfo(float).tiny))
         lx, ly, est = self._lx, self._ly, self.estimated
+        if len(lx) == 1:
+            ok = t >= ly[0]
+            bound = np.where(ok, np.where(est[0], ESTIMATED, np.where(t == ly[0], INTERPOLATED, AT_MOST)), BEYOND_DATA)
+            return np.where(ok, self.current_a[0], np.nan), bound.astype(object)
         last = len(lx) - 1
         # first index whose time is at or below the target (times fall along the curve)
         j = np.searchsorted(-ly, -t, side="left")
@@ -115,10 +124,10 @@ class Characteristic:
         lo, hi = j_safe - 1, j_safe
         span = ly[lo] - ly[hi]
         with np.errstate(divide="ignore", invalid="ignore"):
-            frac = np.where(span > 0, (ly[lo] - t) / np.where(span > 0, span, 1.0), 1.0)
+            frac = np.clip(np.where(span > 0, (ly[lo] - t) / np.where(span > 0, span, 1.0), 1.0), 0.0, 1.0)
         x = lx[lo] + frac * (lx[hi] - lx[lo])
         exact_first = j == 0  # the time equals the first point's time
-        current = np.where(frac >= 1, self.current_a[hi], np.where(frac <= 0, self.current_a[lo], np.exp(x)))
+        current = np.where((frac >= 1) | (lx[hi] == lx[lo]), self.current_a[hi], np.where(frac <= 0, self.current_a[lo], np.exp(x)))
         current = np.where(exact_first | too_long, self.current_a[0], current)
         seg_est = np.where(exact_first | too_long, est[0], (est[lo] & (frac < 1)) | (est[hi] & (frac > 0)))
         bound = np.where(seg_est, ESTIMATED, INTERPOLATED).astype(object)

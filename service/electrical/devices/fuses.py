@@ -111,7 +111,7 @@ def fuse(standard: str, type_: str | None, rating_a: float) -> Device:
         characteristic=Characteristic.from_points(points, estimated),
         regions=((points[0][0], "fuse-curve"), (points[-1][0], "above-data")),
         source=device_table("fuse_operating_currents")["source"],
-        confidence=f"{row['confidence']} (see the table's confidence key)",
+        confidence=row["confidence"],
         notes=tuple(notes),
         default_breaking_capacity_ka=float(family["breaking_capacity_ka_min"]),
         default_breaking_capacity_basis=(

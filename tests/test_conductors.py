@@ -1,0 +1,82 @@
+"""Conductor resistance, temperature multipliers, R1+R2, rings and parallel cables."""
+
+import numpy as np
+import pytest
+
+from service.electrical import conductors as cond
+from service.electrical.errors import InvalidInput, UnknownConductor
+
+
+# R1+R2 per metre at 20 degC (mohm/m). Published rows quoted in shared/reference/conductors.md
+# (confidence A): 2.5/1.5, 16/6, 25/25. The others are derived (D) as the sum of the two IEC 60228
+# Table 2 values, which is how every published row is formed.
+@pytest.mark.parametrize(
+    "line, cpc, expected",
+    [
+        (2.5, 1.5, 19.51),  # published (conductors.md, A)
+        (1.5, 1.0, 30.20),  # derived from IEC 60228 (D)
+        (4, 1.5, 16.71),  # derived from IEC 60228 (D)
+        (6, 2.5, 10.49),  # derived from IEC 60228 (D)
+        (10, 4, 6.44),  # derived from IEC 60228 (D)
+        (16, 6, 4.23),  # published (conductors.md, A)
+        (25, 25, 1.454),  # published (conductors.md, A)
+    ],
+)
+def test_r1_plus_r2_per_metre_matches_published_rows(line, cpc, expected):
+    r = cond.resistance_mohm_per_m("copper", [line, cpc])
+    assert r.sum() == pytest.approx(expected, abs=0.005)
+
+
+def test_iec60228_table_values():
+    # IEC 60228:2004 Table 2 (class 2 copper) and aluminium; shared/reference/conductors.md (A)
+    assert cond.resistance_mohm_per_m("copper", 2.5)[0] == 7.41
+    assert cond.resistance_mohm_per_m("aluminium", 16)[0] == 1.91
+    assert cond.resistance_mohm_per_m("copper", 240, 1)[0] == 0.0775  # class 1 solid differs from 185 mm2 up
+    assert cond.resistance_mohm_per_m("copper", 240, 2)[0] == 0.0754
+
+
+@pytest.mark.parametrize("temp, multiplier", [(70, 1.20), (90, 1.28), (30, 1.04), (20, 1.0)])
+def test_temperature_multipliers(temp, multiplier):
+    # BS 7671 Appendix 3 multipliers 1.20 (70 degC) and the same form at 90 and 30 degC
+    # (shared/reference/conductors.md: 1.20 S, 1.28 and 1.04 D)
+    assert cond.temperature_multiplier(temp)[0] == pytest.approx(multiplier)
+
+
+def test_operating_temperatures():
+    t = cond.operating_temperature_c(["thermoplastic-70", "thermosetting-90", "thermosetting-60"], 3)
+    assert t.tolist() == [70, 90, 60]
+
+
+def test_ring_loop_value_is_a_quarter_of_the_end_to_end_sum():
+    # common practice: a ring's R1+R2 at the mid-point is (r1 + r2) / 4
+    r1 = cond.conductor_resistance_ohm(7.41, 60, 20)
+    r2 = cond.conductor_resistance_ohm(12.1, 60, 20)
+    assert cond.r1_plus_r2_ohm(r1, r2, ring=True)[0] == pytest.approx((0.4446 + 0.726) / 4)
+
+
+def test_parallel_cables_divide_the_resistance():
+    one = cond.conductor_resistance_ohm(0.387, 50, 90, 1)
+    two = cond.conductor_resistance_ohm(0.387, 50, 90, 2)
+    assert two[0] == pytest.approx(one[0] / 2)
+    with pytest.raises(InvalidInput):
+        cond.conductor_resistance_ohm(0.387, 50, 90, 1.5)
+
+
+def test_unknown_size_class_or_material_is_a_typed_error():
+    with pytest.raises(UnknownConductor) as err:
+        cond.resistance_mohm_per_m("copper", 3)
+    assert err.value.field == "csa_mm2"
+    with pytest.raises(UnknownConductor):
+        cond.resistance_mohm_per_m("aluminium", 4)  # no aluminium below 10 mm2 in IEC 60228
+    with pytest.raises(UnknownConductor):
+        cond.resistance_mohm_per_m("silver", 4)
+    with pytest.raises(UnknownConductor):
+        cond.resistance_mohm_per_m("copper", 4, 5)
+    with pytest.raises(UnknownConductor):
+        cond.operating_temperature_c("paper", 1)
+
+
+def test_vector_and_scalar_agree():
+    sizes = [1.5, 2.5, 4, 6, 10]
+    vec = cond.resistance_mohm_per_m("copper", sizes)
+    assert np.array_equal(vec, [cond.resistance_mohm_per_m("copper", s)[0] for s in sizes])
