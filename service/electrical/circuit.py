@@ -206,17 +206,22 @@ class _Rows:
         self.has_cond = np.array([c.conductors is not None for c in circuits], dtype=bool)
 
 
-def _conductor_columns(circuits: Sequence[Circuit]) -> dict[str, np.ndarray]:
-    """R1, R2, k and cpc size for the circuits that describe their conductors (NaN elsewhere)."""
-    n = len(circuits)
+def conductor_columns(items: Sequence[Conductors | None]) -> dict[str, np.ndarray]:
+    """R1, R2 (ohm, at the temperatures the rules assume), k and sizes for each item (NaN where None).
+
+    R = r20 x (1 + 0.004 (theta - 20)) x L / n, a quarter of the end-to-end value on a ring; the line
+    conductor at its insulation's operating temperature, the cpc at the initial temperature of its
+    k case (BS 7671 Tables 54.2-54.6). Raises the core's typed errors naming the conductor field.
+    """
+    n = len(items)
     out = {name: np.full(n, np.nan) for name in ("r1", "r2", "cpc_csa", "line_csa", "k", "k_formula", "k_tabulated", "cpc_temp", "line_temp", "k_line")}
     out["k_table"] = np.full(n, None, dtype=object)
     out["cpc_material"] = np.full(n, None, dtype=object)
     out["line_material"] = np.full(n, None, dtype=object)
-    idx = [i for i, c in enumerate(circuits) if c.conductors is not None]
+    idx = [i for i, c in enumerate(items) if c is not None]
     if not idx:
         return out
-    cs = [circuits[i].conductors for i in idx]
+    cs = [items[i] for i in idx]
     line_r20 = cond.resistance_mohm_per_m(_column(cs, "material"), _column(cs, "line_csa_mm2"), _column(cs, "conductor_class"), field="line_csa_mm2")
     cpc_materials = [c.cpc_material or (c.material if c.cpc_arrangement in ("in-cable", "separate", "bare") else "steel") for c in cs]
     kc = protective.k_cases(cpc_materials, _column(cs, "cpc_arrangement"), _column(cs, "insulation"), _column(cs, "cpc_csa_mm2"), _column(cs, "bare_condition"))
@@ -277,7 +282,7 @@ def _validate_one(supply: Supply, circuit: Circuit) -> None:
         raise InvalidInput("conductors", "give the conductors, or a known r1_plus_r2_ohm")
     if circuit.conductors is not None:
         try:
-            _conductor_columns([circuit])
+            conductor_columns([circuit.conductors])
         except ElectricalError as err:
             raise _prefixed("conductors.", err) from None
     for name in ("ze_ohm", "u0_v"):
@@ -324,7 +329,7 @@ def check_circuits(supply: Supply | Sequence[Supply], circuits: Sequence[Circuit
 def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[CircuitResult]:
     rows = _Rows(supplies, circuits)
     n = rows.n
-    cc = _conductor_columns(circuits)
+    cc = conductor_columns([c.conductors for c in circuits])
     calc_r1r2 = cc["r1"] + cc["r2"]
     r1r2 = np.where(np.isnan(rows.r1r2_given), calc_r1r2, rows.r1r2_given)
 

@@ -1,0 +1,53 @@
+"""GET /docs: the contract as a browsable page, served with no internet.
+
+Swagger UI 5 (which renders OpenAPI 3.1) comes from the swagger-ui-bundle-v2 package; the page and
+its assets are served from this process, never from a CDN.
+"""
+
+from __future__ import annotations
+
+import flask
+from swagger_ui_bundle import swagger_ui_path
+
+blp = flask.Blueprint("docs", __name__)
+
+ASSETS = {"swagger-ui.css", "swagger-ui-bundle.js", "swagger-ui-standalone-preset.js", "favicon-32x32.png", "favicon-16x16.png"}
+
+PAGE = """<!doctype html>
+<html lang="en">
+<head>
+<meta charset="utf-8">
+<title>Faultpath API</title>
+<link rel="stylesheet" href="/docs/assets/swagger-ui.css">
+<link rel="icon" type="image/png" href="/docs/assets/favicon-32x32.png">
+</head>
+<body>
+<div id="contract"></div>
+<script src="/docs/assets/swagger-ui-bundle.js"></script>
+<script src="/docs/assets/docs-start.js"></script>
+</body>
+</html>
+"""
+
+START = """window.addEventListener("load", function () {
+  window.ui = SwaggerUIBundle({url: "/openapi.json", dom_id: "#contract", deepLinking: true});
+});
+"""
+
+CSP = "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data:; connect-src 'self'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'"
+
+
+@blp.route("/docs")
+def page():
+    response = flask.Response(PAGE, mimetype="text/html")
+    response.headers["Content-Security-Policy"] = CSP
+    return response
+
+
+@blp.route("/docs/assets/<path:name>")
+def asset(name: str):
+    if name == "docs-start.js":
+        return flask.Response(START, mimetype="text/javascript")
+    if name not in ASSETS:
+        flask.abort(404)
+    return flask.send_from_directory(str(swagger_ui_path), name, max_age=86400)

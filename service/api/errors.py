@@ -1,0 +1,135 @@
+"""Problem details (RFC 9457) for every 4xx and 5xx answer.
+
+Each problem carries ``errors: [{pointer, message}]`` where a field is at fault (JSON pointers,
+RFC 6901, into the request body). A 500 logs the traceback under an error id and returns only the id.
+"""
+
+from __future__ import annotations
+
+import logging
+import uuid
+from collections.abc import Mapping
+from http import HTTPStatus
+from typing import Any
+
+import flask
+from marshmallow import Schema, fields
+from werkzeug.exceptions import HTTPException
+
+from ..electrical.errors import ElectricalError
+
+PROBLEM_TYPE = "application/problem+json"
+log = logging.getLogger("faultpath")
+
+
+class FieldErrorSchema(Schema):
+    pointer = fields.String(required=True, metadata={"description": "JSON pointer (RFC 6901) into the request body"})
+    message = fields.String(required=True)
+
+
+class ProblemSchema(Schema):
+    """RFC 9457 problem details with the fields at fault."""
+
+    type = fields.String(required=True)
+    title = fields.String(required=True)
+    status = fields.Integer(required=True)
+    detail = fields.String()
+    errors = fields.List(fields.Nested(FieldErrorSchema), required=True)
+    error_id = fields.String(metadata={"description": "Present on 500: quote it to the operator"})
+
+
+def escape(segment: Any) -> str:
+    return str(segment).replace("~", "~0").replace("/", "~1")
+
+
+def pointer(*segments: Any) -> str:
+    return "".join(f"/{escape(s)}" for s in segments if s != "")
+
+
+def field_pointer(prefix: str, dotted: str) -> str:
+    """A core error's dotted field (``device.rating_a``, ``curve_points/1``) as a pointer below ``prefix``."""
+    parts = [p for chunk in dotted.split(".") for p in chunk.split("/") if p]
+    return prefix + "".join(f"/{escape(p)}" for p in parts)
+
+
+def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
+    """marshmallow / webargs nested messages as a flat list of ``{pointer, message}``."""
+    out: list[dict[str, str]] = []
+    if isinstance(messages, Mapping):
+        for key, value in messages.items():
+            if key == "_schema":
+                out.extend(flatten(value, base))
+            else:
+                out.extend(flatten(value, f"{base}/{escape(key)}" if key != "" else base))
+    elif isinstance(messages, (list, tuple)):
+        for item in messages:
+            if isinstance(item, (Mapping, list, tuple)):
+                out.extend(flatten(item, base))
+            else:
+                out.append({"pointer": base, "message": str(item)})
+    else:
+        out.append({"pointer": base, "message": str(messages)})
+    return out
+
+
+def problem_body(status: int, detail: str | None = None, errors: list[dict[str, str]] | None = None, **extra: Any) -> dict[str, Any]:
+    body: dict[str, Any] = {"type": "about:blank", "title": HTTPStatus(status).phrase, "status": status}
+    if detail:
+        body["detail"] = detail
+    body["errors"] = errors or []
+    body.update(extra)
+    return body
+
+
+def problem_response(status: int, detail: str | None = None, errors=None, headers=None, **extra: Any) -> flask.Response:
+    response = flask.current_app.response_class(
+        flask.json.dumps(problem_body(status, detail, errors, **extra)), status=status, mimetype=PROBLEM_TYPE
+    )
+    for key, value in (headers or {}).items():
+        response.headers[key] = value
+    return response
+
+
+def from_core(err: ElectricalError, prefix: str = "") -> dict[str, Any]:
+    """A core error as the ``errors`` entry of a 422 problem."""
+    return {"pointer": field_pointer(prefix, err.field), "message": err.message}
+
+
+class CoreInputError(HTTPException):
+    """Raised by a view when the core rejects an input the schema let through (422)."""
+
+    code = 422
+
+    def __init__(self, errors: list[dict[str, str]]):
+        super().__init__(description="The request is well formed but the rules or the data do not cover it.")
+        self.errors = errors
+
+
+def handle_http_exception(error: HTTPException) -> flask.Response:
+    data = getattr(error, "data", None) or {}
+    messages = data.get("messages") if isinstance(data, Mapping) else None
+    if isinstance(messages, Mapping) and set(messages) <= {"json", "query", "view_args", "path", "headers", "form", "files", "cookies"}:
+        flat = []
+        for location, inner in messages.items():
+            flat.extend(flatten(inner, "" if location == "json" else f"/{location}"))
+        errors = flat
+    elif messages is not None:
+        errors = flatten(messages)
+    else:
+        errors = list(getattr(error, "errors", []) or [])
+    headers = {k: v for k, v in error.get_headers() if k.lower() != "content-type"}
+    headers.update((data.get("headers") or {}) if isinstance(data, Mapping) else {})
+    status = error.code or 500
+    if status >= 500:
+        return internal_error(getattr(error, "original_exception", None) or error)
+    detail = {400: "The request body is not strict JSON.", 422: "The request body did not validate."}.get(status) if errors else None
+    detail = detail or error.description
+    if isinstance(error, CoreInputError):
+        detail = error.description
+    return problem_response(status, detail, errors, headers)
+
+
+def internal_error(exc: BaseException | None) -> flask.Response:
+    error_id = uuid.uuid4().hex
+    log.error("internal error %s", error_id, exc_info=exc if isinstance(exc, BaseException) else None)
+    return problem_response(500, "An internal error occurred; quote the error id to the operator.", [], error_id=error_id)

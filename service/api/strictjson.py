@@ -1,0 +1,78 @@
+"""A strict JSON reader for request bodies.
+
+Python's json module accepts NaN and Infinity, keeps the last of duplicate keys, reads integers of
+thousands of digits and recurses on deep nesting. A request body gets none of that: each is a
+JSONDecodeError, which the parser turns into a 400 problem.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any
+
+from webargs import core
+from webargs.flaskparser import FlaskParser, abort
+
+MAX_INTEGER_DIGITS = 18
+
+
+def _reject(message: str, doc: str = " ") -> json.JSONDecodeError:
+    return json.JSONDecodeError(message, doc or " ", 0)
+
+
+def _constant(name: str) -> Any:
+    raise _reject(f"{name} is not a JSON number")
+
+
+def _integer(text: str) -> int:
+    if len(text.lstrip("-")) > MAX_INTEGER_DIGITS:
+        raise _reject(f"an integer of {len(text)} digits is out of range")
+    return int(text)
+
+
+def _float(text: str) -> float:
+    value = float(text)
+    if not math.isfinite(value):
+        raise _reject(f"the number {text[:40]} is out of range")
+    return value
+
+
+def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
+    out: dict[str, Any] = {}
+    for key, value in pairs:
+        if key in out:
+            raise _reject(f"duplicate key {key[:60]!r}")
+        out[key] = value
+    return out
+
+
+def strict_loads(data: bytes | str) -> Any:
+    """Parse ``data`` as strict JSON (UTF-8); raise JSONDecodeError on anything doubtful."""
+    try:
+        text = data.decode("utf-8") if isinstance(data, bytes) else data
+    except UnicodeDecodeError as exc:
+        raise _reject(f"the body is not UTF-8 ({exc.reason})") from None
+    try:
+        return json.loads(
+            text, parse_constant=_constant, parse_int=_integer, parse_float=_float, object_pairs_hook=_pairs
+        )
+    except json.JSONDecodeError as exc:
+        raise _reject(exc.msg, text[:80]) from None
+    except RecursionError:
+        raise _reject("the body is nested too deeply") from None
+    except ValueError as exc:  # e.g. Python's own limit on integer digits
+        raise _reject(str(exc)) from None
+
+
+class StrictParser(FlaskParser):
+    """webargs' Flask parser reading bodies with :func:`strict_loads`."""
+
+    def _raw_load_json(self, req):
+        if not req.get_data(cache=True):
+            return core.missing
+        return strict_loads(req.get_data(cache=True))
+
+    def _handle_invalid_json_error(self, error, req, *args, **kwargs):
+        message = getattr(error, "msg", str(error))
+        abort(400, messages={"json": {"": [f"Invalid JSON body: {message}"]}})

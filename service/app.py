@@ -1,0 +1,189 @@
+"""The Flask application: configuration, blueprints, limits, errors, security headers.
+
+`create_app(config)` builds one app; every setting comes from the environment (service.settings)
+unless given in ``config``.
+"""
+
+from __future__ import annotations
+
+import hmac
+import logging
+import re
+import uuid
+from typing import Any
+
+import flask
+import flask_smorest
+from werkzeug.routing import BaseConverter
+
+from .api import circuits, device_questions, devices, docs, errors, fault_current, health, metrics, protective_conductor
+from .settings import Settings
+
+API_VERSION = "1.0.0"
+PUBLIC_PATHS = ("/healthz", "/readyz", "/metrics", "/docs", "/openapi.json")
+REQUEST_ID = re.compile(r"^[A-Za-z0-9._:-]{1,128}$")
+BODY_METHODS = ("POST", "PUT", "PATCH")
+ERROR_STATUSES = {"POST": (400, 401, 413, 415, 422, 429, 500), "GET": (401, 429, 500)}
+
+
+class NumberConverter(BaseConverter):
+    """A path segment that is a plain decimal number, e.g. 32 or 0.5."""
+
+    regex = r"\d{1,6}(?:\.\d{1,6})?"
+
+    def to_python(self, value: str) -> float:
+        return float(value)
+
+    def to_url(self, value: Any) -> str:
+        return f"{float(value):g}"
+
+
+class Api(flask_smorest.Api):
+    """flask-smorest's Api answering every error as problem+json."""
+
+    ERROR_SCHEMA = errors.ProblemSchema
+
+    def handle_http_exception(self, error):
+        return errors.handle_http_exception(error)
+
+    def _register_responses(self):
+        from flask_smorest.utils import prepare_response
+        import http
+
+        for status in http.HTTPStatus:
+            response = {"description": status.phrase}
+            if not (100 <= status < 200) and status not in (204, 304):
+                response["schema"] = self.ERROR_SCHEMA
+            prepare_response(response, self.spec, errors.PROBLEM_TYPE)
+            self.spec.components.response(status.name, response, lazy=True)
+        response = {"description": "Default error response", "schema": self.ERROR_SCHEMA}
+        prepare_response(response, self.spec, errors.PROBLEM_TYPE)
+        self.spec.components.response("DEFAULT_ERROR", response, lazy=True)
+
+    def _openapi_json(self):
+        return flask.current_app.response_class(flask.json.dumps(spec_dict(self), indent=2), mimetype="application/json")
+
+
+def spec_dict(api: Api) -> dict[str, Any]:
+    """The OpenAPI document, with the problem+json answers every operation can give."""
+    spec = api.spec.to_dict()
+    problem = {"content": {errors.PROBLEM_TYPE: {"schema": {"$ref": "#/components/schemas/Problem"}}}}
+    from http import HTTPStatus
+
+    for path, operations in spec["paths"].items():
+        for method, operation in operations.items():
+            if method not in ("get", "post"):
+                continue
+            responses = operation.setdefault("responses", {})
+            for status in ERROR_STATUSES[method.upper()]:
+                if path in ("/healthz", "/readyz", "/metrics") and status in (401, 429):
+                    continue
+                responses.setdefault(str(status), {"description": HTTPStatus(status).phrase, **problem})
+            if method == "get" and "{" in path:
+                responses.setdefault("404", {"description": "Not Found", **problem})
+    return spec
+
+
+def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
+    """Build the service. ``config`` overrides the environment (used by tests)."""
+    config = dict(config or {})
+    settings: Settings = config.pop("SETTINGS", None) or Settings.from_env()
+    app = flask.Flask("faultpath")
+    app.config.update(
+        API_TITLE="Faultpath",
+        API_VERSION=API_VERSION,
+        OPENAPI_VERSION="3.1.0",
+        OPENAPI_URL_PREFIX="/",
+        OPENAPI_JSON_PATH="openapi.json",
+        API_SPEC_OPTIONS={
+            "info": {
+                "description": (
+                    "Earth fault loop, disconnection time and protective conductor checks to BS 7671 / IEC 60364. "
+                    "Results support a competent person and do not replace one; the current standard and local codes prevail."
+                ),
+            },
+            "servers": [{"url": "/"}],
+        },
+        MAX_CONTENT_LENGTH=settings.max_body_bytes,
+        FAULTPATH_BATCH_LIMIT=settings.batch_limit,
+        FAULTPATH_SETTINGS=settings,
+        JSON_SORT_KEYS=False,
+    )
+    app.config.update(config)
+    app.json.sort_keys = False
+    if settings.keys_required and not settings.api_keys:
+        raise RuntimeError(
+            f"API keys are required when bound to {settings.bind}: set FAULTPATH_API_KEYS, or FAULTPATH_REQUIRE_KEYS=off"
+        )
+    app.url_map.converters["number"] = NumberConverter
+    api = Api(app)
+    api.register_converter(NumberConverter, lambda converter: {"type": "number", "minimum": 0})
+    for blueprint in (
+        circuits.blp, fault_current.blp, device_questions.disconnection_blp, device_questions.max_zs_blp,
+        protective_conductor.blp, devices.blp, health.blp,
+    ):
+        api.register_blueprint(blueprint)
+    app.register_blueprint(docs.blp)
+    app.extensions["faultpath_api"] = api
+    _install_guards(app, settings)
+    metrics.install(app)
+    app.register_error_handler(errors.CoreInputError, errors.handle_http_exception)
+    app.register_error_handler(Exception, _unexpected)
+    return app
+
+
+def _unexpected(exc: Exception):
+    from werkzeug.exceptions import HTTPException
+
+    if isinstance(exc, HTTPException):
+        return errors.handle_http_exception(exc)
+    return errors.internal_error(exc)
+
+
+def _install_guards(app: flask.Flask, settings: Settings) -> None:
+    keys = tuple(k.encode() for k in settings.api_keys)
+    required = settings.keys_required
+    origins = set(settings.cors_origins)
+
+    @app.before_request
+    def _guard():
+        supplied = flask.request.headers.get("X-Request-ID", "")
+        flask.g.request_id = supplied if REQUEST_ID.match(supplied) else uuid.uuid4().hex
+        if flask.request.method == "OPTIONS" and flask.request.headers.get("Origin") in origins:
+            return flask.Response(status=204)
+        path = flask.request.path
+        if required and not path.startswith(PUBLIC_PATHS):
+            given = flask.request.headers.get("X-API-Key", "").encode()
+            ok = False
+            for key in keys:  # compare with every key, in constant time each
+                ok |= hmac.compare_digest(given, key)
+            if not ok:
+                return errors.problem_response(
+                    401, "A valid API key is required in the X-API-Key header.", [],
+                    {"WWW-Authenticate": 'ApiKey header="X-API-Key"'},
+                )
+        if flask.request.method in BODY_METHODS and flask.request.url_rule is not None:
+            if flask.request.mimetype != "application/json":
+                return errors.problem_response(
+                    415, "Send the body as application/json.",
+                    [{"pointer": "", "message": f"content type {flask.request.mimetype or 'none'} is not application/json"}],
+                )
+        return None
+
+    @app.after_request
+    def _headers(response: flask.Response):
+        response.headers["X-Request-ID"] = flask.g.get("request_id", "")
+        response.headers.setdefault("X-Content-Type-Options", "nosniff")
+        response.headers.setdefault("Cache-Control", "no-store")
+        origin = flask.request.headers.get("Origin")
+        if origin and origin in origins:
+            response.headers["Access-Control-Allow-Origin"] = origin
+            response.headers["Vary"] = "Origin"
+            response.headers["Access-Control-Expose-Headers"] = "X-Request-ID"
+            if flask.request.method == "OPTIONS":
+                response.headers["Access-Control-Allow-Methods"] = "GET, POST, OPTIONS"
+                response.headers["Access-Control-Allow-Headers"] = "Content-Type, X-API-Key, X-Request-ID"
+                response.headers["Access-Control-Max-Age"] = "600"
+        return response
+
+    logging.getLogger("faultpath").setLevel(logging.INFO)

@@ -1,0 +1,70 @@
+"""Every setting of the service, read from the environment, each with its documented default."""
+
+from __future__ import annotations
+
+import ipaddress
+import os
+from dataclasses import dataclass, field
+
+# name: (default, meaning) -- DEVELOPERS.md and the README list these
+SETTINGS = {
+    "FAULTPATH_BIND": ("127.0.0.1", "address to listen on"),
+    "FAULTPATH_PORT": ("8000", "port to listen on"),
+    "FAULTPATH_WORKERS": ("", "gunicorn worker processes; empty: 2 x CPU count + 1, at most 8"),
+    "FAULTPATH_TIMEOUT_S": ("60", "seconds a worker may spend on one request"),
+    "FAULTPATH_MAX_BODY_BYTES": ("16777216", "largest request body (16 MiB); larger gets 413"),
+    "FAULTPATH_BATCH_LIMIT": ("10000", "most circuits in one check-batch request"),
+    "FAULTPATH_API_KEYS": ("", "comma-separated API keys accepted in the X-API-Key header"),
+    "FAULTPATH_REQUIRE_KEYS": ("auto", "auto: keys required unless bound to loopback; on; off"),
+    "FAULTPATH_CORS_ORIGINS": ("", "comma-separated origins allowed to call from a browser"),
+    "FAULTPATH_LOG_LEVEL": ("info", "log level"),
+    "PROMETHEUS_MULTIPROC_DIR": ("", "folder shared by gunicorn workers for metrics; set by `serve`"),
+}
+
+
+def env(name: str) -> str:
+    return os.environ.get(name, SETTINGS[name][0])
+
+
+def is_loopback(address: str) -> bool:
+    if address in ("localhost", ""):
+        return True
+    try:
+        return ipaddress.ip_address(address.strip("[]")).is_loopback
+    except ValueError:
+        return False
+
+
+def _split(value: str) -> tuple[str, ...]:
+    return tuple(v.strip() for v in value.split(",") if v.strip())
+
+
+@dataclass(frozen=True)
+class Settings:
+    bind: str = "127.0.0.1"
+    port: int = 8000
+    max_body_bytes: int = 16 * 1024 * 1024
+    batch_limit: int = 10_000
+    api_keys: tuple[str, ...] = field(default=())
+    require_keys: str = "auto"
+    cors_origins: tuple[str, ...] = field(default=())
+
+    @classmethod
+    def from_env(cls) -> Settings:
+        return cls(
+            bind=env("FAULTPATH_BIND"),
+            port=int(env("FAULTPATH_PORT")),
+            max_body_bytes=int(env("FAULTPATH_MAX_BODY_BYTES")),
+            batch_limit=int(env("FAULTPATH_BATCH_LIMIT")),
+            api_keys=_split(env("FAULTPATH_API_KEYS")),
+            require_keys=env("FAULTPATH_REQUIRE_KEYS").lower(),
+            cors_origins=_split(env("FAULTPATH_CORS_ORIGINS")),
+        )
+
+    @property
+    def keys_required(self) -> bool:
+        if self.require_keys not in ("auto", "on", "off"):
+            raise ValueError("FAULTPATH_REQUIRE_KEYS is auto, on or off")
+        if self.require_keys == "auto":
+            return not is_loopback(self.bind)
+        return self.require_keys == "on"
