@@ -6,6 +6,9 @@ its assets are served from this process, never from a CDN.
 
 from __future__ import annotations
 
+import mimetypes
+from functools import lru_cache
+
 import flask
 from swagger_ui_bundle import swagger_ui_path
 
@@ -50,4 +53,12 @@ def asset(name: str):
         return flask.Response(START, mimetype="text/javascript")
     if name not in ASSETS:
         flask.abort(404)
-    return flask.send_from_directory(str(swagger_ui_path), name, max_age=86400)
+    body, mimetype = _asset(name)
+    return flask.Response(body, mimetype=mimetype, headers={"Cache-Control": "public, max-age=86400"})
+
+
+@lru_cache(maxsize=len(ASSETS))
+def _asset(name: str) -> tuple[bytes, str]:
+    """An asset's bytes, read once per process."""
+    mimetype = mimetypes.guess_type(name)[0] or "application/octet-stream"
+    return (swagger_ui_path / name).read_bytes(), mimetype

@@ -13,8 +13,9 @@ class Number(fields.Float):
     default_error_messages = {"invalid": "Not a number.", "special": "Not a finite number."}
 
     def __init__(self, *, minimum: float, maximum: float, **kwargs):
-        kwargs.setdefault("validate", validate.Range(min=minimum, max=maximum))
-        super().__init__(allow_nan=False, **kwargs)
+        extra = kwargs.pop("validate", None)
+        checks = [validate.Range(min=minimum, max=maximum)] + ([extra] if extra is not None else [])
+        super().__init__(allow_nan=False, validate=checks, **kwargs)
 
     def _deserialize(self, value, attr, data, **kwargs):
         if isinstance(value, bool) or not isinstance(value, (int, float)):
