@@ -79,6 +79,11 @@ def spec_dict(api: Api) -> dict[str, Any]:
                 if path in ("/healthz", "/readyz", "/metrics") and status in (401, 429):
                     continue
                 responses.setdefault(str(status), {"description": HTTPStatus(status).phrase, **problem})
+            if path == "/v1/circuits/check-batch":
+                responses["200"]["content"]["application/x-ndjson"] = {
+                    "schema": {"description": "one JSON object per line: a BatchItem per circuit, in order, then {\"summary\": BatchSummary}",
+                               "type": "string"},
+                }
             if method == "get" and "{" in path:
                 responses.setdefault("404", {"description": "Not Found", **problem})
     return spec

@@ -147,3 +147,16 @@ def test_output_never_holds_nan_or_infinity(client):
     text = r.get_data(as_text=True)
     assert r.status_code == 200 and "NaN" not in text and "Infinity" not in text
     assert r.get_json()["disconnection_time_s"] is None
+
+
+def test_batch_streams_ndjson_in_order(client):
+    bad = dict(EXAMPLE["circuit"], device={"standard": "BS 88-2", "rating_a": 17})
+    body = {"supply": EXAMPLE["supply"], "circuits": [EXAMPLE["circuit"], bad, EXAMPLE["circuit"]]}
+    r = client.post("/v1/circuits/check-batch", json=body, headers={"Accept": "application/x-ndjson"})
+    assert r.status_code == 200 and r.mimetype == "application/x-ndjson"
+    lines = [json.loads(line) for line in r.get_data(as_text=True).splitlines()]
+    assert [line.get("index") for line in lines[:3]] == [0, 1, 2]
+    assert "result" in lines[0] and "problem" in lines[1] and "result" in lines[2]
+    assert lines[3] == {"summary": {"circuits": 3, "pass": 2, "fail": 0, "not-verified": 0, "invalid": 1}}
+    plain = client.post("/v1/circuits/check-batch", json=body).get_json()
+    assert [line for line in lines[:3]] == plain["results"]

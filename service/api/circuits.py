@@ -2,14 +2,12 @@
 
 from __future__ import annotations
 
-import dataclasses
-
 import flask
 
 from ..electrical.circuit import CircuitFailure, check_circuits
 from . import metrics
 from .base import Blueprint
-from .errors import CoreInputError, field_pointer, flatten, problem_body
+from .errors import CoreInputError, field_pointer, flatten, json_bytes, json_response, problem_body
 from .schemas import BatchRequestSchema, BatchResultSchema, CheckRequestSchema, CircuitResultSchema, ItemProblem
 
 blp = Blueprint("circuits", __name__, url_prefix="/v1/circuits", description="Whole-circuit checks: every figure, every check, a verdict")
@@ -36,7 +34,7 @@ def check(body):
     if isinstance(result, CircuitFailure):
         raise CoreInputError(_failure_errors(result, "/circuit"))
     metrics.count_verdicts([result.verdict])
-    return dataclasses.asdict(result)
+    return json_response(result)
 
 
 @blp.route("/check-batch", methods=["POST"])
@@ -46,32 +44,68 @@ def check_batch(body):
     """Check many circuits sharing a supply
 
     One result or one problem per item, in order, each with its index and id; a bad item never
-    sinks the others. The summary counts the verdicts.
+    sinks the others. The summary counts the verdicts. With `Accept: application/x-ndjson` the
+    answer streams one JSON line per item, computed a chunk at a time, and a last line
+    `{"summary": ...}`.
     """
     items = body["circuits"]
     limit = flask.current_app.config["FAULTPATH_BATCH_LIMIT"]
     if len(items) > limit:
         flask.abort(413, description=f"a batch holds at most {limit} circuits")
+    if flask.request.accept_mimetypes.best_match(["application/json", NDJSON]) == NDJSON:
+        return flask.Response(flask.stream_with_context(_ndjson(body["supply"], items)), mimetype=NDJSON)
+    results = []
+    counts = Counts()
+    for start in range(0, len(items), CHUNK):
+        results.extend(_checked(body["supply"], items[start:start + CHUNK], start, counts))
+    return json_response({"results": results, "summary": counts.summary(len(items))})
+
+
+NDJSON = "application/x-ndjson"
+CHUNK = 2000
+
+
+class Counts:
+    """Verdicts counted as the items come."""
+
+    def __init__(self):
+        self.verdicts = {"pass": 0, "fail": 0, "not-verified": 0}
+
+    def add(self, verdicts):
+        for v in verdicts:
+            self.verdicts[v] += 1
+        metrics.count_verdicts(verdicts)
+
+    def summary(self, n):
+        return {"circuits": n, **self.verdicts, "invalid": n - sum(self.verdicts.values())}
+
+
+def _checked(supply, items, offset, counts):
+    """One record per item of a chunk, in order: a result, or a problem naming the fields."""
     valid = [(i, item) for i, item in enumerate(items) if not isinstance(item, ItemProblem)]
-    checked = check_circuits(body["supply"], [item for _, item in valid]) if valid else []
-    results: list[dict] = [None] * len(items)  # type: ignore[list-item]
-    for index, item in enumerate(items):
+    outcomes = iter(check_circuits(supply, [item for _, item in valid]) if valid else [])
+    out = []
+    verdicts = []
+    for local, item in enumerate(items):
+        index = offset + local
         if isinstance(item, ItemProblem):
-            results[index] = {"index": index, "id": item.id,
-                              "problem": problem_body(422, "This circuit did not validate.", flatten(item.messages, f"/circuits/{index}"))}
-    for (index, item), outcome in zip(valid, checked):
+            out.append({"index": index, "id": item.id,
+                        "problem": problem_body(422, "This circuit did not validate.", flatten(item.messages, f"/circuits/{index}"))})
+            continue
+        outcome = next(outcomes)
         if isinstance(outcome, CircuitFailure):
-            results[index] = {"index": index, "id": item.id,
-                              "problem": problem_body(422, "The rules or the data do not cover this circuit.", _failure_errors(outcome, f"/circuits/{index}"))}
+            out.append({"index": index, "id": item.id,
+                        "problem": problem_body(422, "The rules or the data do not cover this circuit.", _failure_errors(outcome, f"/circuits/{index}"))})
         else:
-            results[index] = {"index": index, "id": outcome.id, "result": dataclasses.asdict(outcome)}
-    verdicts = [r["result"]["verdict"] for r in results if "result" in r]
-    metrics.count_verdicts(verdicts)
-    summary = {
-        "circuits": len(items),
-        "passed": verdicts.count("pass"),
-        "failed": verdicts.count("fail"),
-        "not_verified": verdicts.count("not-verified"),
-        "invalid": len(items) - len(verdicts),
-    }
-    return {"results": results, "summary": summary}
+            out.append({"index": index, "id": outcome.id, "result": outcome})
+            verdicts.append(outcome.verdict)
+    counts.add(verdicts)
+    return out
+
+
+def _ndjson(supply, items):
+    """One JSON line per item, in order, computed a chunk at a time; the last line is the summary."""
+    counts = Counts()
+    for start in range(0, len(items), CHUNK):
+        yield b"".join(json_bytes(record) + b"\n" for record in _checked(supply, items[start:start + CHUNK], start, counts))
+    yield json_bytes({"summary": counts.summary(len(items))}) + b"\n"

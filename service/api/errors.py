@@ -13,6 +13,7 @@ from http import HTTPStatus
 from typing import Any
 
 import flask
+import orjson
 from marshmallow import Schema, fields
 from werkzeug.exceptions import HTTPException
 
@@ -79,6 +80,18 @@ def problem_body(status: int, detail: str | None = None, errors: list[dict[str, 
     body["errors"] = errors or []
     body.update(extra)
     return body
+
+
+def json_bytes(payload: Any) -> bytes:
+    """JSON for plain data and the core's result dataclasses (orjson). The core gives None, never NaN
+    or Infinity, for a figure that does not exist; orjson would write null for them in any case."""
+    return orjson.dumps(payload)
+
+
+def json_response(payload: Any, status: int = 200) -> flask.Response:
+    """A JSON answer written straight from the core's results (the response schema documents it;
+    tests and schemathesis check that it conforms)."""
+    return flask.current_app.response_class(json_bytes(payload), status=status, mimetype="application/json")
 
 
 def problem_response(status: int, detail: str | None = None, errors=None, headers=None, **extra: Any) -> flask.Response:

@@ -15,6 +15,7 @@ from ..electrical.circuit import CHECKS, VERDICTS, Circuit, Conductors, DeviceSp
 from ..electrical.devices import breakers, fuses, residual
 from ..electrical.devices.characteristic import BOUNDS
 from .errors import ProblemSchema
+from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
 
 DEVICE_STANDARDS = breakers.breaker_standards() + fuses.fuse_standards()
@@ -144,8 +145,14 @@ class PerItemList(fields.List):
         if not isinstance(value, list):
             raise self.make_error("invalid")
         out = []
+        schema = self.inner.schema
         for index, item in enumerate(value):
             try:
+                out.append(fast_load(schema, item))
+                continue
+            except Refused:
+                pass
+            try:  # marshmallow itself: the same answer, with the documented messages
                 out.append(self.inner.deserialize(item, **kwargs))
             except ValidationError as err:
                 out.append(ItemProblem(index, err.messages, item))

@@ -19,10 +19,7 @@ def as_objects(values: Any, n: int) -> np.ndarray:
         out = np.empty(n, dtype=object)
         out.fill(values)
         return out
-    out = np.empty(len(values), dtype=object)
-    for i, value in enumerate(values):  # element by element: tuples stay single items
-        out[i] = value
-    return out
+    return np.fromiter(values, dtype=object, count=len(values))  # tuples stay single items
 
 
 def map_column(keys: Any, n: int, lookup: Callable[[Hashable], Any], dtype: Any = float) -> np.ndarray:

@@ -18,6 +18,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
+from functools import lru_cache
 from typing import Any
 
 import numpy as np
@@ -34,6 +35,48 @@ from .errors import ElectricalError, InvalidInput
 PASS, FAIL, NOT_VERIFIED = "pass", "fail", "not-verified"
 VERDICTS = (PASS, FAIL, NOT_VERIFIED)
 CHECKS = ("disconnection-time", "max-zs", "protective-conductor", "breaking-capacity", "rcd")
+
+# the words results carry, in one place
+BASES = {
+    "zs-tn": "BS 7671:2018 411.4.4, Zs <= U0 x Cmin / Ia",
+    "zs-tt": "BS 7671:2018 411.5.4, Zs <= U0 x Cmin / Ia",
+    "rcd-tn": "BS 7671:2018 411.4.5, Zs x IΔn <= 50 V",
+    "rcd-tt": "BS 7671:2018 411.5.3, RA x IΔn <= 50 V",
+    "by-rcd": " (fault protection by the RCD)",
+    "adiabatic": "BS 7671:2018 543.1.3, S >= sqrt(I^2 t) / k",
+    "selection": "BS 7671:2018 543.1.4, Table 54.7 (cpc by selection)",
+    "breaking-capacity": "BS 7671:2018 434.5.1, rated breaking capacity >= prospective fault current",
+    "pfc-stated": "stated in the request",
+    "pfc-from-ze": "U0 x cmax / Ze with cmax {c_max:g} (IEC 60909-0 Table 1)",
+}
+NOTES = {
+    "time-estimated": "Time read from an estimated part of the curve (see the device notes).",
+    "no-time-set": "Table 41.1 sets no disconnection time for this case; disconnection may still be required for other reasons.",
+    "below-data": "The fault current is below the device's data: no disconnection is shown.",
+    "at-most-only": "The device's data show operation only within 'at most' this time; the shorter time required cannot be shown from standard data.",
+    "ia-estimated": "Ia read from an estimated part of the curve.",
+    "rcd-protects": "The overcurrent device alone would not meet its limit; the RCD provides fault protection.",
+    "no-ia": "The device's data cannot show operation within the required time, so no maximum Zs follows.",
+    "no-cpc": "The cpc is not described (conductors not given), so its size cannot be checked.",
+    "energy-0.1s": "Energy I^2 x 0.1 s (conservative: the device clears within 0.1 s).",
+    "let-through": "Energy from the device's let-through I^2 t given in the request.",
+    "selection": "The cpc meets Table 54.7 by selection.",
+    "selection-no-adiabatic": "The cpc meets Table 54.7 by selection; the adiabatic check does not apply at this time.",
+    "outside-adiabatic": "The adiabatic equation applies from 0.1 s to 5 s; at this fault the device's time is outside it.",
+    "no-breaking-capacity": "State the device's rated short-circuit capacity (breaking_capacity_ka).",
+    "breaking-capacity-default": "Rated breaking capacity not given: taken as the {basis}.",
+    "ra-not-given": "RA not given: Zs used in its place (larger, so on the safe side).",
+}
+CAUTIONS = {
+    "energy-0.1s": "Below 0.1 s the cpc check uses I^2 x 0.1 s, a conservative stand-in for the device's let-through energy (give let_through_a2s to use the maker's value).",
+    "breaking-capacity-memory": "Breaking capacity taken from a standard minimum that is from memory: confirm it from the maker's data.",
+    "pfc-from-ze": "Prospective fault current calculated from Ze; the line-neutral (or three-phase) value may be higher: state the larger one.",
+    "electrode-unstable": "Earth electrode resistance above 200 ohm may not be stable (note to BS 7671:2018 Table 41.5).",
+    "estimated": "A figure rests on an estimated part of the device's curve; a maker's curve (curve_points) removes the estimate.",
+    "additional-protection": "Socket-outlets rated up to 32 A need additional protection by a 30 mA RCD (BS 7671:2018 411.3.3), unless an exception applies.",
+    "ib-over-in": "The design current exceeds the device rating (Ib <= In, BS 7671:2018 433.1.1).",
+    "r1r2-given": "R1+R2 taken as given: it must be the value at the conductors' operating temperature.",
+}
 
 GENERAL_CAUTIONS = (
     "This result supports a competent person; it does not replace one. A competent person must verify the design.",
@@ -226,17 +269,21 @@ def conductor_columns(items: Sequence[Conductors | None]) -> dict[str, np.ndarra
     cpc_materials = [c.cpc_material or (c.material if c.cpc_arrangement in ("in-cable", "separate", "bare") else "steel") for c in cs]
     kc = protective.k_cases(cpc_materials, _column(cs, "cpc_arrangement"), _column(cs, "insulation"), _column(cs, "cpc_csa_mm2"), _column(cs, "bare_condition"))
     k_line = protective.k_cases(_column(cs, "material"), "in-cable", _column(cs, "insulation"), _column(cs, "line_csa_mm2"))["k"]
-    cpc_r20 = np.empty(len(cs))
-    for j, c in enumerate(cs):
-        if c.cpc_resistance_mohm_per_m is not None:
-            cpc_r20[j] = c.cpc_resistance_mohm_per_m
-        elif cpc_materials[j] in cond.MATERIALS:
-            cpc_r20[j] = cond.resistance_mohm_per_m(cpc_materials[j], c.cpc_csa_mm2, c.conductor_class, field="cpc_csa_mm2")[0]
-        else:
+    given_r = np.array([np.nan if c.cpc_resistance_mohm_per_m is None else c.cpc_resistance_mohm_per_m for c in cs])
+    tabulated = np.isnan(given_r)
+    cpc_r20 = given_r.copy()
+    if tabulated.any():
+        rows = np.flatnonzero(tabulated)
+        lacking = [j for j in rows if cpc_materials[j] not in cond.MATERIALS]
+        if lacking:
+            j = lacking[0]
             raise InvalidInput(
                 "cpc_resistance_mohm_per_m",
-                f"a {cpc_materials[j]} {c.cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
+                f"a {cpc_materials[j]} {cs[j].cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
             )
+        cpc_r20[rows] = cond.resistance_mohm_per_m(
+            [cpc_materials[j] for j in rows], [cs[j].cpc_csa_mm2 for j in rows], [cs[j].conductor_class for j in rows], field="cpc_csa_mm2"
+        )
     line_temp = cond.operating_temperature_c(_column(cs, "insulation"), len(cs), field="insulation")
     length = np.array(_column(cs, "length_m"), dtype=float)
     parallel = np.array(_column(cs, "parallel_cables"), dtype=float)
@@ -268,34 +315,61 @@ def _validate_one(supply: Supply, circuit: Circuit) -> None:
     """Per-item lookups that can fail, so that one bad circuit never sinks a batch.
 
     Errors name the field from the circuit's point of view: ``device.rating_a``,
-    ``conductors.line_csa_mm2``, ``supply.u0_v``, ``role``.
+    ``conductors.line_csa_mm2``, ``supply.u0_v``, ``role``. Each lookup is made once per distinct
+    device, conductor arrangement and rule case, so a schedule of thousands costs a few dozen.
     """
-    try:
-        dev = resolve(circuit.device.as_mapping())
-        if circuit.device.rcd is not None:
-            residual.rcd_characteristic(circuit.device.rcd.residual_current_ma, circuit.device.rcd.delay)
-        if dev.residual and circuit.device.rcd is None:
-            raise InvalidInput("rcd", f"an RCBO to {dev.standard} needs its residual part: rcd.residual_current_ma")
-    except ElectricalError as err:
-        raise _prefixed("device.", err) from None
     if circuit.conductors is None and circuit.r1_plus_r2_ohm is None:
         raise InvalidInput("conductors", "give the conductors, or a known r1_plus_r2_ohm")
-    if circuit.conductors is not None:
-        try:
-            conductor_columns([circuit.conductors])
-        except ElectricalError as err:
-            raise _prefixed("conductors.", err) from None
+    c = circuit.conductors
+    problems = (
+        _device_problem(circuit.device),
+        None if c is None else _conductor_problem(
+            c.material, c.insulation, c.line_csa_mm2, c.cpc_csa_mm2, c.cpc_arrangement, c.conductor_class,
+            c.cpc_material, c.cpc_resistance_mohm_per_m, c.bare_condition, c.parallel_cables,
+        ),
+        _rules_problem(supply, circuit.role, circuit.load, circuit.device.rating_a),
+    )
+    for problem in problems:
+        if problem is not None:
+            raise problem
+
+
+@lru_cache(maxsize=4096)
+def _device_problem(spec: DeviceSpec) -> ElectricalError | None:
+    try:
+        dev = resolve(spec.as_mapping())
+        if spec.rcd is not None:
+            residual.rcd_characteristic(spec.rcd.residual_current_ma, spec.rcd.delay)
+        if dev.residual and spec.rcd is None:
+            raise InvalidInput("rcd", f"an RCBO to {dev.standard} needs its residual part: rcd.residual_current_ma")
+    except ElectricalError as err:
+        return _prefixed("device.", err)
+    return None
+
+
+@lru_cache(maxsize=4096)
+def _conductor_problem(material, insulation, line_csa, cpc_csa, arrangement, cls, cpc_material, cpc_r, bare, parallel) -> ElectricalError | None:
+    probe = Conductors(material, insulation, line_csa, cpc_csa, 1.0, arrangement, False, parallel, cls, cpc_material, cpc_r, bare)
+    try:
+        conductor_columns([probe])
+    except ElectricalError as err:
+        return _prefixed("conductors.", err)
+    return None
+
+
+@lru_cache(maxsize=4096)
+def _rules_problem(supply: Supply, role: str, load: str | None, rating_a: float) -> ElectricalError | None:
     for name in ("ze_ohm", "u0_v"):
         if not getattr(supply, name) > 0:
-            raise InvalidInput(f"supply.{name}", "must be greater than zero")
+            return InvalidInput(f"supply.{name}", "must be greater than zero")
     try:
         disconnection.max_disconnection_time_s(
-            supply.earthing, supply.u0_v, circuit.role, circuit.load, circuit.device.rating_a,
-            supply.current_kind, False, supply.reduced_low_voltage,
+            supply.earthing, supply.u0_v, role, load, rating_a, supply.current_kind, False, supply.reduced_low_voltage,
         )
         faults.prospective_fault_current_ka(supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max)
     except ElectricalError as err:
-        raise (_prefixed("supply.", err) if err.field in _SUPPLY_FIELDS else err) from None
+        return _prefixed("supply.", err) if err.field in _SUPPLY_FIELDS else err
+    return None
 
 
 def check_circuit(supply: Supply, circuit: Circuit) -> CircuitResult:
@@ -378,188 +452,191 @@ def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[C
         rcd_limit[idx] = residual.rcd_max_loop_ohm(key[0])
     ra = np.where(tt, np.where(np.isnan(rows.electrode), zs, rows.electrode + np.nan_to_num(cc["r2"])), zs)
 
-    results: list[CircuitResult] = []
-    for i, circuit in enumerate(circuits):
-        results.append(_one_result(
-            i, circuit, supplies[i], devices[i], rows, cc, r1r2, zs, i_f, i_nom, pfc,
-            t_req_oc, basis_oc, t_req_rcd, basis_rcd, t_oc, b_oc, region, ia, b_ia, max_zs_oc,
-            has_rcd, t_rcd, b_rcd, rcd_limit, ra,
-        ))
-    return results
+    has_cond = rows.has_cond
+    tt = rows.earthing == "TT"
 
+    # disconnection time: the overcurrent device, else the RCD (411.3.2, 411.4.5, 411.5.3)
+    v_oc = _time_verdicts(t_oc, b_oc, t_req_oc)
+    v_rcd = np.where(has_rcd, _time_verdicts(t_rcd, b_rcd, t_req_rcd), None)
+    by_rcd = has_rcd & (v_oc != PASS) & (v_rcd == PASS)
+    t = np.where(by_rcd, t_rcd, t_oc)
+    bound = np.where(by_rcd, b_rcd, b_oc)
+    limit = np.where(by_rcd, t_req_rcd, t_req_oc)
+    t_basis = np.where(by_rcd, basis_rcd, basis_oc)
+    dt_verdict = np.where(by_rcd, PASS, np.where(has_rcd & ((v_oc == NOT_VERIFIED) | (v_rcd == NOT_VERIFIED)), NOT_VERIFIED, v_oc))
+    dt_note = np.select(
+        [bound == ESTIMATED, ~np.isfinite(limit), bound == BEYOND_DATA, dt_verdict == NOT_VERIFIED],
+        [NOTES["time-estimated"], NOTES["no-time-set"], NOTES["below-data"], NOTES["at-most-only"]], None)
 
-def _time_verdict(t: float, bound: str, limit: float) -> str:
-    if not math.isfinite(limit):
-        return NOT_VERIFIED
-    if bound == BEYOND_DATA:
-        return FAIL
-    if t <= limit * (1 + 1e-9):
-        return PASS
-    return NOT_VERIFIED if bound == AT_MOST else FAIL
+    # max Zs: the overcurrent device's U0 Cmin / Ia; with an RCD, 50 V / IΔn where that is not met
+    oc_ok = np.isfinite(max_zs_oc) & (zs <= max_zs_oc)
+    use_rcd = ~oc_ok & has_rcd
+    rcd_value = np.where(tt, ra, zs)
+    mz_value = np.where(use_rcd, rcd_value, zs)
+    mz_limit = np.where(use_rcd, rcd_limit, max_zs_oc)
+    mz_verdict = np.where(oc_ok, PASS, np.where(use_rcd, np.where(rcd_value <= rcd_limit, PASS, FAIL),
+                                               np.where(np.isfinite(max_zs_oc), FAIL, NOT_VERIFIED)))
+    mz_basis = np.where(use_rcd, np.where(tt, BASES["rcd-tt"] + BASES["by-rcd"], BASES["rcd-tn"] + BASES["by-rcd"]),
+                        np.where(tt, BASES["zs-tt"], BASES["zs-tn"]))
+    mz_note = np.select([oc_ok & (b_ia == ESTIMATED), use_rcd, ~oc_ok & ~np.isfinite(max_zs_oc)],
+                        [NOTES["ia-estimated"], NOTES["rcd-protects"], NOTES["no-ia"]], None)
 
+    # protective conductor (543.1.3, or Table 54.7 by selection, 543.1.4)
+    let_through = np.array([np.nan if c.device.let_through_a2s is None else c.device.let_through_a2s for c in circuits])
+    energy, method = protective.fault_energy_a2s(i_f, t, let_through)
+    with np.errstate(invalid="ignore"):
+        s_min = protective.min_csa_mm2(energy, cc["k"])
+    s_min = np.where(has_cond, s_min, np.nan)
+    csa = cc["cpc_csa"]
+    same = cc["cpc_material"] == cc["line_material"]
+    selection = protective.selection_csa_mm2(cc["line_csa"], np.where(same, 1.0, cc["k_line"]), np.where(same, 1.0, cc["k"]))
+    finite_s = np.isfinite(s_min)
+    adi_ok = finite_s & (csa >= s_min * (1 - 1e-9))
+    sel_ok = np.isfinite(selection) & (csa >= selection)
+    pc_verdict = np.where(~has_cond, NOT_VERIFIED, np.where(adi_ok | sel_ok, PASS, np.where(finite_s, FAIL, NOT_VERIFIED)))
+    pc_basis = np.where(has_cond & ~adi_ok & sel_ok, BASES["selection"], BASES["adiabatic"])
+    method_note = np.select([method == "conservative-0.1s", method == "let-through"], [NOTES["energy-0.1s"], NOTES["let-through"]], None)
+    pc_note = np.select([~has_cond, adi_ok, sel_ok & finite_s, sel_ok, ~finite_s],
+                        [NOTES["no-cpc"], method_note, NOTES["selection"], NOTES["selection-no-adiabatic"], NOTES["outside-adiabatic"]], method_note)
+    next_size = protective.next_standard_size_mm2(s_min)
 
-def _one_result(i, circuit, supply, dev, rows, cc, r1r2, zs, i_f, i_nom, pfc, t_req_oc, basis_oc, t_req_rcd, basis_rcd,
-                t_oc, b_oc, region, ia, b_ia, max_zs_oc, has_rcd, t_rcd, b_rcd, rcd_limit, ra) -> CircuitResult:
-    cautions = list(GENERAL_CAUTIONS)
-    checks: list[Check] = []
-    system = "TT" if supply.earthing == "TT" else "TN"
+    # breaking capacity against the prospective fault current at the origin (434.5.1)
+    icn_given = np.array([np.nan if c.device.breaking_capacity_ka is None else c.device.breaking_capacity_ka for c in circuits])
+    icn_default = np.array([np.nan if d.default_breaking_capacity_ka is None else d.default_breaking_capacity_ka for d in devices])
+    from_default = np.isnan(icn_given) & ~np.isnan(icn_default)
+    icn = np.where(np.isnan(icn_given), icn_default, icn_given)
+    bc_verdict = np.where(np.isnan(icn), NOT_VERIFIED, np.where(icn >= pfc, PASS, FAIL))
 
-    # disconnection time: the overcurrent device, else the RCD
-    v_oc = _time_verdict(t_oc[i], b_oc[i], t_req_oc[i])
-    v_rcd = _time_verdict(t_rcd[i], b_rcd[i], t_req_rcd[i]) if has_rcd[i] else None
-    by_rcd = v_oc != PASS and v_rcd == PASS
-    if by_rcd:
-        t, bound, limit, basis, verdict, by = t_rcd[i], b_rcd[i], t_req_rcd[i], basis_rcd[i], PASS, "rcd"
-    else:
-        t, bound, limit, basis, by = t_oc[i], b_oc[i], t_req_oc[i], basis_oc[i], "overcurrent-device"
-        verdict = v_oc if v_rcd is None else (NOT_VERIFIED if NOT_VERIFIED in (v_oc, v_rcd) else v_oc)
-    note = None
-    if not math.isfinite(limit):
-        note = "Table 41.1 sets no disconnection time for this case; disconnection may still be required for other reasons."
-    elif bound == BEYOND_DATA:
-        note = "The fault current is below the device's data: no disconnection is shown."
-    elif verdict == NOT_VERIFIED:
-        note = f"The device's data show operation within {t:g} s at most; a shorter time cannot be shown from standard data."
-    if bound == ESTIMATED:
-        note = "Time read from an estimated part of the curve (see the device notes)."
-    checks.append(Check("disconnection-time", verdict, _num(t), _num(limit), "s", _margin(t, limit), basis, note))
-
-    # max Zs: the overcurrent device's limit; with an RCD, 50 V / IΔn where that limit is not met
-    oc_limit = max_zs_oc[i]
-    oc_clause = "411.5.4" if system == "TT" else "411.4.4"
-    value, zs_limit, zs_note = zs[i], oc_limit, None
-    zs_basis = f"BS 7671:2018 {oc_clause}, Zs <= U0 x Cmin / Ia"
-    if math.isfinite(oc_limit) and zs[i] <= oc_limit:
-        zs_verdict = PASS
-        if b_ia[i] == ESTIMATED:
-            zs_note = "Ia read from an estimated part of the curve."
-    elif has_rcd[i]:
-        value, zs_limit = (ra[i], rcd_limit[i]) if system == "TT" else (zs[i], rcd_limit[i])
-        zs_basis = ("BS 7671:2018 411.5.3, RA x IΔn <= 50 V" if system == "TT" else "BS 7671:2018 411.4.5, Zs x IΔn <= 50 V")
-        zs_basis += " (fault protection by the RCD)"
-        zs_verdict = PASS if value <= zs_limit else FAIL
-        zs_note = "The overcurrent device alone would not meet its limit; the RCD provides fault protection."
-    elif math.isfinite(oc_limit):
-        zs_verdict = FAIL
-    else:
-        zs_verdict = NOT_VERIFIED
-        zs_note = "The device's data cannot show operation within the required time, so no maximum Zs follows."
-    checks.append(Check("max-zs", zs_verdict, _num(value), _num(zs_limit), "ohm", _margin(value, zs_limit), zs_basis, zs_note))
-
-    # protective conductor
-    pc = _protective_check(i, circuit, cc, i_f[i], t, bound, cautions)
-    checks.append(pc.pop("check"))
-
-    # breaking capacity against the prospective fault current at the origin
-    icn = circuit.device.breaking_capacity_ka
-    bc_basis = "BS 7671:2018 434.5.1, rated breaking capacity >= prospective fault current"
-    bc_note = None
-    if icn is None and dev.default_breaking_capacity_ka is not None:
-        icn = dev.default_breaking_capacity_ka
-        bc_note = f"Rated breaking capacity not given: taken as the {dev.default_breaking_capacity_basis}."
-        cautions.append("Breaking capacity taken from a standard minimum that is from memory: confirm it from the maker's data.")
-    if icn is None:
-        checks.append(Check("breaking-capacity", NOT_VERIFIED, _num(pfc[i]), None, "kA", None, bc_basis,
-                            "State the device's rated short-circuit capacity (breaking_capacity_ka)."))
-    else:
-        checks.append(Check("breaking-capacity", PASS if icn >= pfc[i] else FAIL, _num(pfc[i]), float(icn), "kA",
-                            _margin(pfc[i], icn), bc_basis, bc_note))
-    pfc_basis = ("stated in the request" if supply.prospective_fault_current_ka is not None else
-                 f"U0 x cmax / Ze with cmax {supply.c_max or faults.core_table('voltage_factors')['c_max_default']:g} (IEC 60909-0 Table 1)")
-    if supply.prospective_fault_current_ka is None:
-        cautions.append("Prospective fault current calculated from Ze; the line-neutral (or three-phase) value may be higher: state the larger one.")
-
-    # the RCD's own 50 V rule
-    if has_rcd[i]:
-        value = ra[i] if system == "TT" else zs[i]
-        clause = "BS 7671:2018 411.5.3, RA x IΔn <= 50 V" if system == "TT" else "BS 7671:2018 411.4.5, Zs x IΔn <= 50 V"
-        rcd_note = None
-        if system == "TT" and supply.electrode_ohm is None:
-            rcd_note = "RA not given: Zs used in its place (larger, so on the safe side)."
-        checks.append(Check("rcd", PASS if value <= rcd_limit[i] else FAIL, _num(value), _num(rcd_limit[i]), "ohm",
-                            _margin(value, rcd_limit[i]), clause, rcd_note))
-        if system == "TT" and supply.electrode_ohm is not None and supply.electrode_ohm > residual.stable_resistance_limit_ohm():
-            cautions.append("Earth electrode resistance above 200 ohm may not be stable (note to BS 7671:2018 Table 41.5).")
+    # the RCD's 50 V rule
+    rcd_verdict = np.where(rcd_value <= rcd_limit, PASS, FAIL)
+    no_ra = tt & np.isnan(rows.electrode)
 
     # cautions from the data and the rules
-    if ESTIMATED in (bound, b_ia[i]):
-        cautions.append("A figure rests on an estimated part of the device's curve; a maker's curve (curve_points) removes the estimate.")
-    rcd_ma = circuit.device.rcd.residual_current_ma if circuit.device.rcd else None
-    if circuit.role == "final" and circuit.load == "socket-outlets" and circuit.device.rating_a <= 32 and (rcd_ma is None or rcd_ma > residual.additional_protection_max_ma()):
-        cautions.append("Socket-outlets rated up to 32 A need additional protection by a 30 mA RCD (BS 7671:2018 411.3.3), unless an exception applies.")
-    if circuit.design_current_a is not None and circuit.design_current_a > circuit.device.rating_a:
-        cautions.append("The design current exceeds the device rating (Ib <= In, BS 7671:2018 433.1.1).")
-    if not np.isnan(rows.r1r2_given[i]):
-        cautions.append("R1+R2 taken as given: it must be the value at the conductors' operating temperature.")
+    socket_rule = (rows.role == "final") & (rows.load == "socket-outlets") & (rows.rating <= 32)
+    idn = np.array([np.inf if c.device.rcd is None else c.device.rcd.residual_current_ma for c in circuits])
+    design = np.array([np.nan if c.design_current_a is None else c.design_current_a for c in circuits])
+    flags = [
+        (has_cond & (method == "conservative-0.1s"), CAUTIONS["energy-0.1s"]),
+        (from_default, CAUTIONS["breaking-capacity-memory"]),
+        (np.isnan(rows.pfc_stated), CAUTIONS["pfc-from-ze"]),
+        (tt & has_rcd & (rows.electrode > residual.stable_resistance_limit_ohm()), CAUTIONS["electrode-unstable"]),
+        ((bound == ESTIMATED) | (b_ia == ESTIMATED), CAUTIONS["estimated"]),
+        (socket_rule & (idn > residual.additional_protection_max_ma()), CAUTIONS["additional-protection"]),
+        (design > rows.rating, CAUTIONS["ib-over-in"]),
+        (~np.isnan(rows.r1r2_given), CAUTIONS["r1r2-given"]),
+    ]
+    caution_lists = [list(GENERAL_CAUTIONS) for _ in range(n)]
+    for mask, text in flags:
+        for i in np.flatnonzero(mask):
+            caution_lists[i].append(text)
 
+    pfc_basis = [
+        BASES["pfc-stated"] if s.prospective_fault_current_ka is not None else
+        BASES["pfc-from-ze"].format(c_max=s.c_max or faults.c_max_default())
+        for s in supplies
+    ]
+    bc_note = np.where(from_default, None, np.where(np.isnan(icn), NOTES["no-breaking-capacity"], None)).astype(object)
+    for i in np.flatnonzero(from_default):
+        bc_note[i] = NOTES["breaking-capacity-default"].format(basis=devices[i].default_breaking_capacity_basis)
+    summaries: dict[int, dict[str, Any]] = {}
+
+    L = _listed
+    cols = dict(
+        r1r2=L(r1r2), zs=zs.tolist(), i_f=i_f.tolist(), i_nom=i_nom.tolist(), pfc=pfc.tolist(),
+        t=L(t), bound=bound.tolist(), limit=L(limit), t_basis=t_basis.tolist(), dt_verdict=dt_verdict.tolist(),
+        dt_note=dt_note.tolist(), dt_margin=_margins(t, limit),
+        region=np.where(by_rcd, "residual", region).tolist(),
+        by=np.where(bound == BEYOND_DATA, None, np.where(by_rcd, "rcd", "overcurrent-device")).tolist(),
+        ia=L(ia), b_ia=b_ia.tolist(),
+        mz_value=L(mz_value), mz_limit=L(mz_limit), mz_verdict=mz_verdict.tolist(), mz_basis=mz_basis.tolist(),
+        mz_note=mz_note.tolist(), mz_margin=_margins(mz_value, mz_limit),
+        k=L(cc["k"]), k_formula=L(cc["k_formula"]), k_table=cc["k_table"].tolist(), s_min=L(s_min), csa=L(csa),
+        next_size=L(next_size), selection=L(selection), energy=L(energy), method=method.tolist(),
+        pc_verdict=pc_verdict.tolist(), pc_basis=pc_basis.tolist(), pc_note=pc_note.tolist(),
+        pc_margin=_margins(s_min, csa), has_cond=has_cond.tolist(),
+        icn=L(icn), bc_verdict=bc_verdict.tolist(), bc_note=bc_note.tolist(), bc_margin=_margins(pfc, icn),
+        has_rcd=has_rcd.tolist(), rcd_value=L(rcd_value), rcd_limit=L(rcd_limit), rcd_verdict=rcd_verdict.tolist(),
+        rcd_basis=np.where(tt, BASES["rcd-tt"], BASES["rcd-tn"]).tolist(), rcd_margin=_margins(rcd_value, rcd_limit),
+        rcd_note=np.where(no_ra, NOTES["ra-not-given"], None).tolist(),
+    )
+    summaries = {id(d): {"device_id": d.device_id, "label": d.label, "source": d.source, "confidence": d.confidence,
+                         "notes": list(d.notes)} for d in {id(d): d for d in devices}.values()}
+    names = list(cols)
+    rows_of = zip(*(cols[name] for name in names))
+    return [
+        _assemble(circuit, summaries[id(dev)], basis, cautions, dict(zip(names, row)))
+        for circuit, dev, basis, cautions, row in zip(circuits, devices, pfc_basis, caution_lists, rows_of)
+    ]
+
+
+def _listed(values: np.ndarray) -> list[float | None]:
+    """Floats as a list, with None where a value is NaN or infinite (JSON has neither)."""
+    arr = np.asarray(values, dtype=float)
+    out = arr.tolist()
+    for i in np.flatnonzero(~np.isfinite(arr)):
+        out[i] = None
+    return out
+
+
+def _margins(value: np.ndarray, limit: np.ndarray) -> list[float | None]:
+    """(limit - value) / limit x 100, None where either is missing or the limit is zero."""
+    v = np.asarray(value, dtype=float)
+    lim = np.asarray(limit, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        m = np.where(np.isfinite(v) & np.isfinite(lim) & (lim != 0), (lim - v) / lim * 100.0, np.nan)
+    return _listed(m)
+
+
+def _time_verdicts(t: np.ndarray, bound: np.ndarray, limit: np.ndarray) -> np.ndarray:
+    """pass where the time is within the limit; at-most data that miss it cannot be shown either way."""
+    with np.errstate(invalid="ignore"):
+        ok = t <= limit * (1 + 1e-9)
+    verdict = np.where(ok, PASS, np.where(bound == AT_MOST, NOT_VERIFIED, FAIL))
+    verdict = np.where(bound == BEYOND_DATA, FAIL, verdict)
+    return np.where(np.isfinite(limit), verdict, NOT_VERIFIED).astype(object)
+
+
+def _assemble(circuit: Circuit, device: dict[str, Any], pfc_basis: str, cautions: list[str], c: dict[str, Any]) -> CircuitResult:
+    """One circuit's result from its row of the computed columns."""
+    checks = [
+        Check("disconnection-time", c["dt_verdict"], c["t"], c["limit"], "s", c["dt_margin"], c["t_basis"], c["dt_note"]),
+        Check("max-zs", c["mz_verdict"], c["mz_value"], c["mz_limit"], "ohm", c["mz_margin"], c["mz_basis"], c["mz_note"]),
+    ]
+    if c["has_cond"]:
+        pc = {
+            "k": c["k"], "k_formula": c["k_formula"], "k_basis": c["k_table"], "min_csa_mm2": c["s_min"],
+            "csa_mm2": c["csa"], "next_standard_csa_mm2": c["next_size"], "selection_csa_mm2": c["selection"],
+            "energy_a2s": c["energy"], "energy_basis": c["method"], "verdict": c["pc_verdict"], "basis": c["pc_basis"],
+        }
+        checks.append(Check("protective-conductor", c["pc_verdict"], c["csa"], c["s_min"], "mm2", c["pc_margin"], c["pc_basis"], c["pc_note"]))
+    else:
+        pc = {"k": None, "k_formula": None, "k_basis": None, "min_csa_mm2": None, "csa_mm2": None, "next_standard_csa_mm2": None,
+              "selection_csa_mm2": None, "energy_a2s": None, "energy_basis": None, "verdict": NOT_VERIFIED, "basis": c["pc_basis"]}
+        checks.append(Check("protective-conductor", NOT_VERIFIED, None, None, "mm2", None, c["pc_basis"], c["pc_note"]))
+    checks.append(Check("breaking-capacity", c["bc_verdict"], c["pfc"], c["icn"], "kA", c["bc_margin"], BASES["breaking-capacity"], c["bc_note"]))
+    if c["has_rcd"]:
+        checks.append(Check("rcd", c["rcd_verdict"], c["rcd_value"], c["rcd_limit"], "ohm", c["rcd_margin"], c["rcd_basis"], c["rcd_note"]))
     return CircuitResult(
         id=circuit.id,
-        r1_plus_r2_ohm=_num(r1r2[i]),
-        zs_ohm=float(zs[i]),
-        earth_fault_current_a=float(i_f[i]),
-        earth_fault_current_nominal_a=float(i_nom[i]),
-        prospective_fault_current_ka=float(pfc[i]),
+        r1_plus_r2_ohm=c["r1r2"],
+        zs_ohm=c["zs"],
+        earth_fault_current_a=c["i_f"],
+        earth_fault_current_nominal_a=c["i_nom"],
+        prospective_fault_current_ka=c["pfc"],
         prospective_fault_current_basis=pfc_basis,
-        device={"device_id": dev.device_id, "label": dev.label, "source": dev.source, "confidence": dev.confidence, "notes": list(dev.notes)},
-        disconnection_time_s=_num(t),
-        disconnection_time_bound=str(bound),
-        disconnection_region=str(region[i]) if not by_rcd else "residual",
-        disconnected_by=by if bound != BEYOND_DATA else None,
-        max_disconnection_time_s=_num(limit),
-        max_disconnection_basis=str(basis),
-        operating_current_a=_num(ia[i]),
-        operating_current_bound=str(b_ia[i]),
-        max_zs_ohm=_num(checks[1].limit if checks[1].limit is not None else np.nan),
-        zs_margin_percent=checks[1].margin_percent,
+        device=device,
+        disconnection_time_s=c["t"],
+        disconnection_time_bound=c["bound"],
+        disconnection_region=c["region"],
+        disconnected_by=c["by"],
+        max_disconnection_time_s=c["limit"],
+        max_disconnection_basis=c["t_basis"],
+        operating_current_a=c["ia"],
+        operating_current_bound=c["b_ia"],
+        max_zs_ohm=c["mz_limit"],
+        zs_margin_percent=c["mz_margin"],
         protective_conductor=pc,
         checks=checks,
-        verdict=overall_verdict([c.verdict for c in checks]),
-        cautions=list(dict.fromkeys(cautions)),
+        verdict=overall_verdict([check.verdict for check in checks]),
+        cautions=cautions,
     )
-
-
-def _protective_check(i, circuit, cc, fault_a, t, bound, cautions) -> dict[str, Any]:
-    basis = "BS 7671:2018 543.1.3, S >= sqrt(I^2 t) / k"
-    if circuit.conductors is None:
-        check = Check("protective-conductor", NOT_VERIFIED, None, None, "mm2", None, basis,
-                      "The cpc is not described (conductors not given), so its size cannot be checked.")
-        return {"k": None, "k_formula": None, "k_basis": None, "min_csa_mm2": None, "csa_mm2": None, "next_standard_csa_mm2": None,
-                "selection_csa_mm2": None, "energy_a2s": None, "energy_basis": None, "verdict": NOT_VERIFIED, "basis": basis, "check": check}
-    energy, method = protective.fault_energy_a2s(fault_a, t, circuit.device.let_through_a2s)
-    energy, method = float(energy[0]), str(method[0])
-    k = cc["k"][i]
-    s_min = float(protective.min_csa_mm2(energy, k)[0]) if math.isfinite(energy) else math.nan
-    csa = cc["cpc_csa"][i]
-    same_material = cc["cpc_material"][i] == cc["line_material"][i]
-    selection = float(protective.selection_csa_mm2(cc["line_csa"][i], None if same_material else cc["k_line"][i], None if same_material else k)[0])
-    note = None
-    if method == "conservative-0.1s":
-        cautions.append("Below 0.1 s the cpc check uses I^2 x 0.1 s, a conservative stand-in for the device's let-through energy (give let_through_a2s to use the maker's value).")
-        note = "Energy I^2 x 0.1 s (conservative: the device clears within 0.1 s)."
-    elif method == "let-through":
-        note = "Energy from the device's let-through I^2 t given in the request."
-    if math.isfinite(s_min) and csa >= s_min * (1 - 1e-9):
-        verdict = PASS
-    elif math.isfinite(selection) and csa >= selection:
-        verdict, basis = PASS, "BS 7671:2018 543.1.4, Table 54.7 (cpc by selection)"
-        note = "The cpc meets Table 54.7 by selection" + ("" if math.isfinite(s_min) else "; the adiabatic check does not apply at this time.")
-    elif not math.isfinite(s_min):
-        verdict = NOT_VERIFIED
-        note = "The adiabatic equation applies from 0.1 s to 5 s; at this fault the device's time is outside it."
-    else:
-        verdict = FAIL
-    check = Check("protective-conductor", verdict, float(csa), _num(s_min), "mm2", _margin(s_min, csa) if math.isfinite(s_min) else None, basis, note)
-    return {
-        "k": float(k),
-        "k_formula": float(cc["k_formula"][i]),
-        "k_basis": str(cc["k_table"][i]),
-        "min_csa_mm2": _num(s_min),
-        "csa_mm2": float(csa),
-        "next_standard_csa_mm2": _num(protective.next_standard_size_mm2(s_min)[0]) if math.isfinite(s_min) else None,
-        "selection_csa_mm2": _num(selection),
-        "energy_a2s": _num(energy),
-        "energy_basis": method,
-        "verdict": verdict,
-        "basis": basis,
-        "check": check,
-    }

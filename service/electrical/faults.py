@@ -16,6 +16,11 @@ def c_min() -> float:
     return float(core_table("voltage_factors")["c_min"])
 
 
+def c_max_default() -> float:
+    """cmax used when none is given: 1.10 (IEC 60909-0 Table 1, systems with a +10 % tolerance)."""
+    return float(core_table("voltage_factors")["c_max_default"])
+
+
 def c_max_options() -> list[float]:
     return [float(c) for c in core_table("voltage_factors")["c_max_options"]]
 
@@ -51,7 +56,7 @@ def prospective_fault_current_ka(
     stated' in an array); otherwise U0 x cmax / Ze with cmax 1.10 (or 1.05) from IEC 60909-0
     Table 1. BS 7671 434.1 asks for the larger of the line-neutral and line-earth values.
     """
-    factor = float(core_table("voltage_factors")["c_max_default"]) if c_max is None else float(c_max)
+    factor = c_max_default() if c_max is None else float(c_max)
     if factor not in c_max_options():
         raise InvalidInput("c_max", f"cmax is one of {c_max_options()} (IEC 60909-0 Table 1)")
     calculated = factor * as_float(u0_v) / as_float(ze_ohm) / 1000.0
