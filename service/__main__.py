@@ -1,4 +1,4 @@
-"""`python -m service serve | openapi [FILE]` (and, later, `check FILE`)."""
+"""`python -m service serve | openapi [FILE] | check FILE`."""
 
 from __future__ import annotations
 
@@ -43,6 +43,9 @@ def main(argv: list[str] | None = None) -> int:
     p = sub.add_parser("openapi", help="write the OpenAPI contract generated from the code")
     p.add_argument("file", nargs="?", help="where to write it (default: standard output)")
     p.set_defaults(func=openapi)
+    from .cli import add_parser
+
+    add_parser(sub)
     args = parser.parse_args(argv)
     return args.func(args)
 

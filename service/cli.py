@@ -1,0 +1,261 @@
+"""`python -m service check FILE`: check a whole schedule from a JSON or CSV file.
+
+JSON: the body of POST /v1/circuits/check-batch (``{"supply": {...}, "circuits": [...]}``).
+CSV: one row a circuit, each with its own supply, in the columns of :data:`CSV_COLUMNS`.
+Input goes through the same schemas as the HTTP API, so a bad row gets the same messages.
+
+Exit status: 0 when every circuit passes (not-verified too, unless ``--strict``), 1 when any fails,
+3 when some rows could not be checked (and none failed), 2 for a file that cannot be read.
+"""
+
+from __future__ import annotations
+
+import argparse
+import csv
+import io
+import json
+import sys
+import time
+from pathlib import Path
+from typing import Any, TextIO
+
+from marshmallow import ValidationError
+
+from .api.errors import field_pointer, flatten, json_bytes
+from .api.fastload import Refused, fast_load
+from .api.schemas import CircuitSchema, SupplySchema
+from .electrical.circuit import CircuitFailure, check_circuits
+
+# column -> (where it goes, field, kind); documented in the README
+CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
+    "id": ("circuit", "id", "text"),
+    "earthing": ("supply", "earthing", "text"),
+    "u0_v": ("supply", "u0_v", "number"),
+    "ze_ohm": ("supply", "ze_ohm", "number"),
+    "prospective_fault_current_ka": ("supply", "prospective_fault_current_ka", "number"),
+    "electrode_ohm": ("supply", "electrode_ohm", "number"),
+    "bonding_complete": ("supply", "bonding_complete", "flag"),
+    "role": ("circuit", "role", "text"),
+    "load": ("circuit", "load", "text"),
+    "design_current_a": ("circuit", "design_current_a", "number"),
+    "device_standard": ("device", "standard", "text"),
+    "device_type": ("device", "type", "text"),
+    "rating_a": ("device", "rating_a", "number"),
+    "breaking_capacity_ka": ("device", "breaking_capacity_ka", "number"),
+    "rcd_residual_current_ma": ("rcd", "residual_current_ma", "number"),
+    "rcd_delay": ("rcd", "delay", "text"),
+    "material": ("conductors", "material", "text"),
+    "insulation": ("conductors", "insulation", "text"),
+    "line_csa_mm2": ("conductors", "line_csa_mm2", "number"),
+    "cpc_csa_mm2": ("conductors", "cpc_csa_mm2", "number"),
+    "length_m": ("conductors", "length_m", "number"),
+    "cpc_arrangement": ("conductors", "cpc_arrangement", "text"),
+    "ring": ("conductors", "ring", "flag"),
+    "parallel_cables": ("conductors", "parallel_cables", "integer"),
+    "r1_plus_r2_ohm": ("circuit", "r1_plus_r2_ohm", "number"),
+}
+RESULT_COLUMNS = (
+    "index", "id", "verdict", "r1_plus_r2_ohm", "zs_ohm", "max_zs_ohm", "zs_margin_percent", "earth_fault_current_a",
+    "disconnection_time_s", "disconnection_time_bound", "max_disconnection_time_s", "min_cpc_csa_mm2", "cpc_csa_mm2",
+    "failed_checks", "not_verified_checks", "problem",
+)
+CHUNK = 2000
+
+
+class Row:
+    """One circuit read from the file: its supply and circuit, or the problem that stopped it."""
+
+    def __init__(self, index: int, ident: str | None, base: str, supply=None, circuit=None, problem: list[dict[str, str]] | None = None):
+        self.index, self.id, self.base = index, ident, base
+        self.supply, self.circuit, self.problem = supply, circuit, problem
+
+
+def _load(schema, raw, base: str):
+    try:
+        return fast_load(schema, raw), None
+    except Refused:
+        pass
+    try:
+        return schema.load(raw), None
+    except ValidationError as err:
+        return None, flatten(err.messages, base)
+
+
+def _cell(value: str, kind: str) -> Any:
+    """A CSV cell as JSON would carry it; a cell that does not parse stays text, so the schema says why."""
+    text = value.strip()
+    if kind == "text":
+        return text
+    if kind == "flag":
+        return {"true": True, "yes": True, "1": True, "false": False, "no": False, "0": False}.get(text.lower(), text)
+    try:
+        number = int(text) if kind == "integer" else float(text)
+    except ValueError:
+        return text
+    return number if number == number and abs(number) != float("inf") else text
+
+
+_POINTER_OF = {
+    "supply": "/supply", "circuit": "/circuit", "device": "/circuit/device",
+    "rcd": "/circuit/device/rcd", "conductors": "/circuit/conductors",
+}
+_COLUMN_OF = {f"{_POINTER_OF[where]}/{name}": column for column, (where, name, _) in CSV_COLUMNS.items()}
+
+
+def _as_column(pointer: str, index: int) -> str:
+    """A schema pointer (/circuit/conductors/length_m) as the CSV row and column (/3/length_m)."""
+    column = _COLUMN_OF.get(pointer)
+    if column is None:  # a whole object, e.g. /circuit/conductors: name its first column
+        column = next((c for p, c in _COLUMN_OF.items() if p.startswith(pointer + "/")), pointer.rsplit("/", 1)[-1] or "")
+    return f"/{index}/{column}"
+
+
+def read_csv(stream: TextIO) -> list[Row]:
+    reader = csv.DictReader(stream)
+    unknown = [c for c in (reader.fieldnames or []) if c not in CSV_COLUMNS]
+    if unknown:
+        raise SystemExit(f"unknown CSV columns {unknown}; the columns are {list(CSV_COLUMNS)}")
+    rows: list[Row] = []
+    for index, record in enumerate(reader):
+        parts: dict[str, dict[str, Any]] = {where: {} for where in _POINTER_OF}
+        for column, value in record.items():
+            if column is None or value is None or value.strip() == "":
+                continue
+            where, name, kind = CSV_COLUMNS[column]
+            parts[where][name] = _cell(value, kind)
+        circuit = dict(parts["circuit"], device=dict(parts["device"]))
+        if parts["rcd"]:
+            circuit["device"]["rcd"] = parts["rcd"]
+        if parts["conductors"]:
+            circuit["conductors"] = parts["conductors"]
+        row = _validated(index, parts["supply"], circuit, "", "/supply", "/circuit")
+        if row.problem:
+            row.problem = [{"pointer": _as_column(e["pointer"], index), "message": e["message"]} for e in row.problem]
+        row.base = f"/{index}"
+        rows.append(row)
+    return rows
+
+
+def _validated(index: int, supply_raw: Any, circuit_raw: Any, base: str, supply_pointer: str, circuit_pointer: str) -> Row:
+    ident = circuit_raw.get("id") if isinstance(circuit_raw, dict) and isinstance(circuit_raw.get("id"), str) else None
+    supply, supply_problems = _load(SupplySchema(), supply_raw, supply_pointer)
+    circuit, circuit_problems = _load(CircuitSchema(), circuit_raw, circuit_pointer)
+    problems = (supply_problems or []) + (circuit_problems or [])
+    if problems:
+        return Row(index, ident, base, problem=problems)
+    return Row(index, ident, base, supply, circuit)
+
+
+def read_json(stream: TextIO) -> list[Row]:
+    from .api.strictjson import strict_loads
+
+    body = strict_loads(stream.read())
+    if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
+        raise SystemExit('a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes')
+    return [_validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}") for i, item in enumerate(body["circuits"])]
+
+
+class Progress:
+    """A bar on standard error when it is a terminal; silent otherwise."""
+
+    def __init__(self, total: int, stream: TextIO):
+        self.total, self.stream, self.shown = total, stream, stream.isatty() and total >= CHUNK
+        self.started = time.monotonic()
+
+    def update(self, done: int) -> None:
+        if not self.shown:
+            return
+        width = 30
+        filled = int(width * done / max(self.total, 1))
+        rate = done / max(time.monotonic() - self.started, 1e-9)
+        self.stream.write(f"\r[{'#' * filled}{'.' * (width - filled)}] {done}/{self.total} circuits, {rate:,.0f}/s")
+        self.stream.flush()
+        if done >= self.total:
+            self.stream.write("\n")
+
+
+def run(rows: list[Row], progress: Progress) -> list[dict[str, Any]]:
+    records: list[dict[str, Any]] = [None] * len(rows)  # type: ignore[list-item]
+    for row in rows:
+        if row.problem is not None:
+            records[row.index] = {"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.problem}}
+    ready = [row for row in rows if row.problem is None]
+    for start in range(0, len(ready), CHUNK):
+        chunk = ready[start:start + CHUNK]
+        for row, outcome in zip(chunk, check_circuits([r.supply for r in chunk], [r.circuit for r in chunk])):
+            if isinstance(outcome, CircuitFailure):
+                records[row.index] = {"index": row.index, "id": row.id,
+                                      "problem": {"status": 422, "errors": [{"pointer": field_pointer(row.base, outcome.field), "message": outcome.message}]}}
+            else:
+                records[row.index] = {"index": row.index, "id": row.id, "result": outcome}
+        progress.update(min(len(rows), start + len(chunk) + (len(rows) - len(ready))))
+    progress.update(len(rows))
+    return records
+
+
+def summary(records: list[dict[str, Any]]) -> dict[str, int]:
+    verdicts = [r["result"].verdict for r in records if "result" in r]
+    return {"circuits": len(records), "pass": verdicts.count("pass"), "fail": verdicts.count("fail"),
+            "not-verified": verdicts.count("not-verified"), "invalid": len(records) - len(verdicts)}
+
+
+def write_csv(records: list[dict[str, Any]], stream: TextIO) -> None:
+    writer = csv.DictWriter(stream, fieldnames=RESULT_COLUMNS, lineterminator="\n")
+    writer.writeheader()
+    for record in records:
+        row: dict[str, Any] = {"index": record["index"], "id": record["id"]}
+        if "problem" in record:
+            row["verdict"] = "invalid"
+            row["problem"] = "; ".join(f"{e['pointer']}: {e['message']}" for e in record["problem"]["errors"])
+        else:
+            r = record["result"]
+            row.update(verdict=r.verdict, r1_plus_r2_ohm=r.r1_plus_r2_ohm, zs_ohm=r.zs_ohm, max_zs_ohm=r.max_zs_ohm,
+                       zs_margin_percent=r.zs_margin_percent, earth_fault_current_a=r.earth_fault_current_a,
+                       disconnection_time_s=r.disconnection_time_s, disconnection_time_bound=r.disconnection_time_bound,
+                       max_disconnection_time_s=r.max_disconnection_time_s,
+                       min_cpc_csa_mm2=r.protective_conductor["min_csa_mm2"], cpc_csa_mm2=r.protective_conductor["csa_mm2"],
+                       failed_checks=" ".join(c.check for c in r.checks if c.verdict == "fail"),
+                       not_verified_checks=" ".join(c.check for c in r.checks if c.verdict == "not-verified"))
+        writer.writerow({k: ("" if v is None else v) for k, v in row.items()})
+
+
+def main(args: argparse.Namespace) -> int:
+    path = Path(args.file)
+    kind = args.input_format or ("csv" if path.suffix.lower() == ".csv" else "json")
+    try:
+        with path.open(encoding="utf-8", newline="") as stream:
+            rows = read_csv(stream) if kind == "csv" else read_json(stream)
+    except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
+        print(f"cannot read {path}: {err}", file=sys.stderr)
+        return 2
+    records = run(rows, Progress(len(rows), sys.stderr))
+    counts = summary(records)
+    out_format = args.format or ("csv" if args.output and args.output.lower().endswith(".csv") else "json")
+    if out_format == "csv":
+        buffer = io.StringIO()
+        write_csv(records, buffer)
+        data = buffer.getvalue().encode("utf-8")
+    else:
+        data = json_bytes({"results": records, "summary": counts}) + b"\n"
+    if args.output:
+        Path(args.output).write_bytes(data)
+    else:
+        sys.stdout.buffer.write(data)
+    print(" ".join(f"{k}={v}" for k, v in counts.items()), file=sys.stderr)
+    if counts["fail"]:
+        return 1
+    if counts["invalid"]:
+        return 3
+    if args.strict and counts["not-verified"]:
+        return 1
+    return 0
+
+
+def add_parser(sub) -> None:
+    p = sub.add_parser("check", help="check a schedule of circuits from a JSON or CSV file")
+    p.add_argument("file", help="a .json schedule (the check-batch body) or a .csv with one row a circuit")
+    p.add_argument("--input-format", choices=["json", "csv"], help="default: from the file's extension")
+    p.add_argument("--format", choices=["json", "csv"], help="output format (default: json, or csv for a .csv output)")
+    p.add_argument("-o", "--output", help="write the results here (default: standard output)")
+    p.add_argument("--strict", action="store_true", help="exit 1 also when a circuit is not-verified")
+    p.set_defaults(func=main)
