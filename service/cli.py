@@ -60,6 +60,8 @@ RESULT_COLUMNS = (
     "failed_checks", "not_verified_checks", "problem",
 )
 CHUNK = 2000
+SUPPLY_SCHEMA = SupplySchema()
+CIRCUIT_SCHEMA = CircuitSchema()
 
 
 class Row:
@@ -136,10 +138,11 @@ def read_csv(stream: TextIO) -> list[Row]:
     return rows
 
 
-def _validated(index: int, supply_raw: Any, circuit_raw: Any, base: str, supply_pointer: str, circuit_pointer: str) -> Row:
+def _validated(index: int, supply_raw: Any, circuit_raw: Any, base: str, supply_pointer: str, circuit_pointer: str,
+               supply_loaded: tuple | None = None) -> Row:
     ident = circuit_raw.get("id") if isinstance(circuit_raw, dict) and isinstance(circuit_raw.get("id"), str) else None
-    supply, supply_problems = _load(SupplySchema(), supply_raw, supply_pointer)
-    circuit, circuit_problems = _load(CircuitSchema(), circuit_raw, circuit_pointer)
+    supply, supply_problems = supply_loaded or _load(SUPPLY_SCHEMA, supply_raw, supply_pointer)
+    circuit, circuit_problems = _load(CIRCUIT_SCHEMA, circuit_raw, circuit_pointer)
     problems = (supply_problems or []) + (circuit_problems or [])
     if problems:
         return Row(index, ident, base, problem=problems)
@@ -152,7 +155,9 @@ def read_json(stream: TextIO) -> list[Row]:
     body = strict_loads(stream.read())
     if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
         raise SystemExit('a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes')
-    return [_validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}") for i, item in enumerate(body["circuits"])]
+    supply = _load(SUPPLY_SCHEMA, body["supply"], "/supply")  # one supply for the whole schedule
+    return [_validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
+            for i, item in enumerate(body["circuits"])]
 
 
 class Progress:

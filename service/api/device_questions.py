@@ -16,7 +16,7 @@ from ..electrical.limits import max_zs_ohm, measured_limit_ohm
 from .base import Blueprint
 from .errors import CoreInputError, from_core
 from .fields import Number, choice
-from .schemas import DeviceSchema, DeviceSummarySchema, nullable_number
+from .schemas import FastSchema, DeviceSchema, DeviceSummarySchema, nullable_number
 
 disconnection_blp = Blueprint("disconnection_time", __name__, url_prefix="/v1/disconnection-time", description="Disconnection time of a device at a current")
 max_zs_blp = Blueprint("max_zs", __name__, url_prefix="/v1/max-zs", description="Maximum Zs for a device and a required time")
@@ -38,7 +38,7 @@ def summary(dev: Device) -> dict:
     return {"device_id": dev.device_id, "label": dev.label, "source": dev.source, "confidence": dev.confidence, "notes": list(dev.notes)}
 
 
-class DisconnectionRequestSchema(Schema):
+class DisconnectionRequestSchema(FastSchema):
     device = fields.Nested(DeviceSchema, required=True)
     current_a = Number(minimum=0.001, maximum=1e7, required=True, metadata={"description": "the fault current"})
 
@@ -69,7 +69,7 @@ def disconnection_time(body):
             "rcd_time_s": rcd_t, "rcd_bound": rcd_bound, "device": summary(dev)}
 
 
-class MaxZsRequestSchema(Schema):
+class MaxZsRequestSchema(FastSchema):
     device = fields.Nested(DeviceSchema, required=True)
     time_s = Number(minimum=0.01, maximum=100, required=True, metadata={"description": "the required disconnection time"})
     u0_v = Number(minimum=50, maximum=1000, required=True)

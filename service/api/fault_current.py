@@ -10,12 +10,12 @@ from ..electrical.errors import ElectricalError
 from .base import Blueprint
 from .errors import CoreInputError, from_core
 from .fields import Number
-from .schemas import ConductorsSchema, SupplySchema, nullable_number
+from .schemas import FastSchema, ConductorsSchema, SupplySchema, nullable_number
 
 blp = Blueprint("fault_current", __name__, url_prefix="/v1/fault-current", description="Earth fault current")
 
 
-class FaultCurrentRequestSchema(Schema):
+class FaultCurrentRequestSchema(FastSchema):
     u0_v = Number(minimum=50, maximum=1000)
     zs_ohm = Number(minimum=0.001, maximum=2000)
     supply = fields.Nested(SupplySchema)

@@ -13,12 +13,12 @@ from .base import Blueprint
 from .device_questions import _num, device_of
 from .errors import CoreInputError, from_core
 from .fields import Number, choice
-from .schemas import DeviceSchema, nullable_number
+from .schemas import FastSchema, DeviceSchema, nullable_number
 
 blp = Blueprint("protective_conductor", __name__, url_prefix="/v1/protective-conductor", description="Protective conductor size by the adiabatic equation")
 
 
-class ProtectiveRequestSchema(Schema):
+class ProtectiveRequestSchema(FastSchema):
     fault_current_a = Number(minimum=0.001, maximum=1e6, required=True)
     time_s = Number(minimum=0.001, maximum=100, metadata={"description": "disconnection time; or give the device"})
     device = fields.Nested(DeviceSchema, metadata={"description": "read the time off this device at fault_current_a"})

@@ -29,6 +29,19 @@ def nullable_number(description: str = "", **kwargs) -> fields.Float:
 # ---------------------------------------------------------------- requests
 
 
+class FastSchema(Schema):
+    """A request schema loaded by the compiled fast path first (service.api.fastload), marshmallow
+    itself only when the fast path refuses: the same result, and marshmallow's messages on errors."""
+
+    def load(self, data, *, many=None, partial=None, unknown=None):
+        if not many and not partial and unknown is None:
+            try:
+                return fast_load(self, data)
+            except Refused:
+                pass
+        return super().load(data, many=many, partial=partial, unknown=unknown)
+
+
 class CurvePointSchema(Schema):
     current_a = Number(minimum=0.001, maximum=1e6, required=True)
     time_s = Number(minimum=0.0001, maximum=1e5, required=True, metadata={"description": "maximum operating time"})
@@ -124,7 +137,7 @@ class CircuitSchema(Schema):
         return Circuit(**data)
 
 
-class CheckRequestSchema(Schema):
+class CheckRequestSchema(FastSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuit = fields.Nested(CircuitSchema, required=True)
 
@@ -159,7 +172,7 @@ class PerItemList(fields.List):
         return out
 
 
-class BatchRequestSchema(Schema):
+class BatchRequestSchema(FastSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuits = PerItemList(
         fields.Nested(CircuitSchema), required=True, validate=validate.Length(min=1),

@@ -249,15 +249,47 @@ class _Rows:
         self.has_cond = np.array([c.conductors is not None for c in circuits], dtype=bool)
 
 
+_CONSTANT_FIELDS = ("line_r20", "cpc_r20", "line_temp", "cpc_temp", "k", "k_formula", "k_tabulated", "k_line")
+
+
+@lru_cache(maxsize=4096)
+def conductor_constants(material: str, insulation: str, line_csa_mm2: float, cpc_csa_mm2: float, cpc_arrangement: str,
+                        conductor_class: int, cpc_material: str | None, cpc_resistance_mohm_per_m: float | None,
+                        bare_condition: str | None) -> tuple:
+    """What a conductor arrangement contributes whatever its length: resistances at 20 degC (mohm/m),
+    the temperatures the rules assume, k for the cpc and for the line conductor, and the k table.
+
+    The line conductor is taken at its insulation's operating temperature; the cpc at the initial
+    temperature of its k case (BS 7671 Tables 54.2-54.6), which is the same for a core of the cable.
+    Raises the core's typed errors naming the conductor field. One lookup per distinct arrangement.
+    """
+    cpc_mat = cpc_material or (material if cpc_arrangement in ("in-cable", "separate", "bare") else "steel")
+    line_r20 = cond.resistance_mohm_per_m(material, line_csa_mm2, conductor_class, field="line_csa_mm2")[0]
+    case = protective.k_case(cpc_mat, cpc_arrangement, insulation, cpc_csa_mm2, bare_condition)
+    k_line = protective.k_case(material, "in-cable", insulation, line_csa_mm2)["k"]
+    if cpc_resistance_mohm_per_m is not None:
+        cpc_r20 = float(cpc_resistance_mohm_per_m)
+    elif cpc_mat in cond.MATERIALS:
+        cpc_r20 = cond.resistance_mohm_per_m(cpc_mat, cpc_csa_mm2, conductor_class, field="cpc_csa_mm2")[0]
+    else:
+        raise InvalidInput(
+            "cpc_resistance_mohm_per_m",
+            f"a {cpc_mat} {cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
+        )
+    line_temp = cond.operating_temperature_c(insulation, 1, field="insulation")[0]
+    tabulated = np.nan if case["k_tabulated"] is None else case["k_tabulated"]
+    numbers = (line_r20, cpc_r20, line_temp, case["initial_c"], case["k"], case["k_formula"], tabulated, k_line)
+    return tuple(float(v) for v in numbers) + (case["table"], cpc_mat)
+
+
 def conductor_columns(items: Sequence[Conductors | None]) -> dict[str, np.ndarray]:
     """R1, R2 (ohm, at the temperatures the rules assume), k and sizes for each item (NaN where None).
 
-    R = r20 x (1 + 0.004 (theta - 20)) x L / n, a quarter of the end-to-end value on a ring; the line
-    conductor at its insulation's operating temperature, the cpc at the initial temperature of its
-    k case (BS 7671 Tables 54.2-54.6). Raises the core's typed errors naming the conductor field.
+    R = r20 x (1 + 0.004 (theta - 20)) x L / n, a quarter of the end-to-end value on a ring
+    (:func:`conductor_constants` gives r20 and the temperatures).
     """
     n = len(items)
-    out = {name: np.full(n, np.nan) for name in ("r1", "r2", "cpc_csa", "line_csa", "k", "k_formula", "k_tabulated", "cpc_temp", "line_temp", "k_line")}
+    out = {name: np.full(n, np.nan) for name in ("r1", "r2", "cpc_csa", "line_csa") + _CONSTANT_FIELDS}
     out["k_table"] = np.full(n, None, dtype=object)
     out["cpc_material"] = np.full(n, None, dtype=object)
     out["line_material"] = np.full(n, None, dtype=object)
@@ -265,41 +297,25 @@ def conductor_columns(items: Sequence[Conductors | None]) -> dict[str, np.ndarra
     if not idx:
         return out
     cs = [items[i] for i in idx]
-    line_r20 = cond.resistance_mohm_per_m(_column(cs, "material"), _column(cs, "line_csa_mm2"), _column(cs, "conductor_class"), field="line_csa_mm2")
-    cpc_materials = [c.cpc_material or (c.material if c.cpc_arrangement in ("in-cable", "separate", "bare") else "steel") for c in cs]
-    kc = protective.k_cases(cpc_materials, _column(cs, "cpc_arrangement"), _column(cs, "insulation"), _column(cs, "cpc_csa_mm2"), _column(cs, "bare_condition"))
-    k_line = protective.k_cases(_column(cs, "material"), "in-cable", _column(cs, "insulation"), _column(cs, "line_csa_mm2"))["k"]
-    given_r = np.array([np.nan if c.cpc_resistance_mohm_per_m is None else c.cpc_resistance_mohm_per_m for c in cs])
-    tabulated = np.isnan(given_r)
-    cpc_r20 = given_r.copy()
-    if tabulated.any():
-        rows = np.flatnonzero(tabulated)
-        lacking = [j for j in rows if cpc_materials[j] not in cond.MATERIALS]
-        if lacking:
-            j = lacking[0]
-            raise InvalidInput(
-                "cpc_resistance_mohm_per_m",
-                f"a {cpc_materials[j]} {cs[j].cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
-            )
-        cpc_r20[rows] = cond.resistance_mohm_per_m(
-            [cpc_materials[j] for j in rows], [cs[j].cpc_csa_mm2 for j in rows], [cs[j].conductor_class for j in rows], field="cpc_csa_mm2"
-        )
-    line_temp = cond.operating_temperature_c(_column(cs, "insulation"), len(cs), field="insulation")
-    length = np.array(_column(cs, "length_m"), dtype=float)
-    parallel = np.array(_column(cs, "parallel_cables"), dtype=float)
-    ring = cond.ring_factor(np.array(_column(cs, "ring"), dtype=bool), length.shape)
-    r1 = cond.conductor_resistance_ohm(line_r20, length, line_temp, parallel) * ring
-    r2 = cond.conductor_resistance_ohm(cpc_r20, length, kc["initial_c"], parallel) * ring
+    constants = [
+        conductor_constants(c.material, c.insulation, c.line_csa_mm2, c.cpc_csa_mm2, c.cpc_arrangement, c.conductor_class,
+                            c.cpc_material, c.cpc_resistance_mohm_per_m, c.bare_condition)
+        for c in cs
+    ]
     sel = np.asarray(idx)
-    for name, values in (
-        ("r1", r1), ("r2", r2), ("cpc_csa", _column(cs, "cpc_csa_mm2")), ("line_csa", _column(cs, "line_csa_mm2")),
-        ("k", kc["k"]), ("k_formula", kc["k_formula"]), ("k_tabulated", kc["k_tabulated"]), ("cpc_temp", kc["initial_c"]),
-        ("line_temp", line_temp), ("k_line", k_line),
-    ):
-        out[name][sel] = np.asarray(values, dtype=float)
-    out["k_table"][sel] = kc["table"]
-    out["cpc_material"][sel] = cpc_materials
-    out["line_material"][sel] = _column(cs, "material")
+    numeric = np.array([k[:len(_CONSTANT_FIELDS)] for k in constants], dtype=float)
+    for j, name in enumerate(_CONSTANT_FIELDS):
+        out[name][sel] = numeric[:, j]
+    length = np.array([c.length_m for c in cs], dtype=float)
+    parallel = np.array([c.parallel_cables for c in cs], dtype=float)
+    ring = cond.ring_factor(np.array([c.ring for c in cs], dtype=bool), length.shape)
+    out["r1"][sel] = cond.conductor_resistance_ohm(numeric[:, 0], length, numeric[:, 2], parallel) * ring
+    out["r2"][sel] = cond.conductor_resistance_ohm(numeric[:, 1], length, numeric[:, 3], parallel) * ring
+    out["cpc_csa"][sel] = [c.cpc_csa_mm2 for c in cs]
+    out["line_csa"][sel] = [c.line_csa_mm2 for c in cs]
+    out["k_table"][sel] = np.fromiter((k[-2] for k in constants), dtype=object, count=len(cs))
+    out["cpc_material"][sel] = np.fromiter((k[-1] for k in constants), dtype=object, count=len(cs))
+    out["line_material"][sel] = np.fromiter((c.material for c in cs), dtype=object, count=len(cs))
     return out
 
 
@@ -323,10 +339,7 @@ def _validate_one(supply: Supply, circuit: Circuit) -> None:
     c = circuit.conductors
     problems = (
         _device_problem(circuit.device),
-        None if c is None else _conductor_problem(
-            c.material, c.insulation, c.line_csa_mm2, c.cpc_csa_mm2, c.cpc_arrangement, c.conductor_class,
-            c.cpc_material, c.cpc_resistance_mohm_per_m, c.bare_condition, c.parallel_cables,
-        ),
+        None if c is None else _conductor_problem(c),
         _rules_problem(supply, circuit.role, circuit.load, circuit.device.rating_a),
     )
     for problem in problems:
@@ -347,11 +360,12 @@ def _device_problem(spec: DeviceSpec) -> ElectricalError | None:
     return None
 
 
-@lru_cache(maxsize=4096)
-def _conductor_problem(material, insulation, line_csa, cpc_csa, arrangement, cls, cpc_material, cpc_r, bare, parallel) -> ElectricalError | None:
-    probe = Conductors(material, insulation, line_csa, cpc_csa, 1.0, arrangement, False, parallel, cls, cpc_material, cpc_r, bare)
+def _conductor_problem(c: Conductors) -> ElectricalError | None:
+    if not (c.parallel_cables >= 1 and float(c.parallel_cables).is_integer()):
+        return InvalidInput("conductors.parallel_cables", "the number of cables in parallel is a whole number of at least 1")
     try:
-        conductor_columns([probe])
+        conductor_constants(c.material, c.insulation, c.line_csa_mm2, c.cpc_csa_mm2, c.cpc_arrangement, c.conductor_class,
+                            c.cpc_material, c.cpc_resistance_mohm_per_m, c.bare_condition)
     except ElectricalError as err:
         return _prefixed("conductors.", err)
     return None
@@ -540,23 +554,24 @@ def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[C
         bc_note[i] = NOTES["breaking-capacity-default"].format(basis=devices[i].default_breaking_capacity_basis)
     summaries: dict[int, dict[str, Any]] = {}
 
-    L = _listed
+    numbers = _listed_many(
+        r1r2=r1r2, zs=zs, i_f=i_f, i_nom=i_nom, pfc=pfc, t=t, limit=limit, ia=ia, mz_value=mz_value, mz_limit=mz_limit,
+        k=cc["k"], k_formula=cc["k_formula"], s_min=s_min, csa=csa, next_size=next_size, selection=selection, energy=energy,
+        icn=icn, rcd_value=rcd_value, rcd_limit=rcd_limit,
+        dt_margin=_margin_array(t, limit), mz_margin=_margin_array(mz_value, mz_limit), pc_margin=_margin_array(s_min, csa),
+        bc_margin=_margin_array(pfc, icn), rcd_margin=_margin_array(rcd_value, rcd_limit),
+    )
     cols = dict(
-        r1r2=L(r1r2), zs=zs.tolist(), i_f=i_f.tolist(), i_nom=i_nom.tolist(), pfc=pfc.tolist(),
-        t=L(t), bound=bound.tolist(), limit=L(limit), t_basis=t_basis.tolist(), dt_verdict=dt_verdict.tolist(),
-        dt_note=dt_note.tolist(), dt_margin=_margins(t, limit),
+        numbers,
+        bound=bound.tolist(), t_basis=t_basis.tolist(), dt_verdict=dt_verdict.tolist(), dt_note=dt_note.tolist(),
         region=np.where(by_rcd, "residual", region).tolist(),
         by=np.where(bound == BEYOND_DATA, None, np.where(by_rcd, "rcd", "overcurrent-device")).tolist(),
-        ia=L(ia), b_ia=b_ia.tolist(),
-        mz_value=L(mz_value), mz_limit=L(mz_limit), mz_verdict=mz_verdict.tolist(), mz_basis=mz_basis.tolist(),
-        mz_note=mz_note.tolist(), mz_margin=_margins(mz_value, mz_limit),
-        k=L(cc["k"]), k_formula=L(cc["k_formula"]), k_table=cc["k_table"].tolist(), s_min=L(s_min), csa=L(csa),
-        next_size=L(next_size), selection=L(selection), energy=L(energy), method=method.tolist(),
-        pc_verdict=pc_verdict.tolist(), pc_basis=pc_basis.tolist(), pc_note=pc_note.tolist(),
-        pc_margin=_margins(s_min, csa), has_cond=has_cond.tolist(),
-        icn=L(icn), bc_verdict=bc_verdict.tolist(), bc_note=bc_note.tolist(), bc_margin=_margins(pfc, icn),
-        has_rcd=has_rcd.tolist(), rcd_value=L(rcd_value), rcd_limit=L(rcd_limit), rcd_verdict=rcd_verdict.tolist(),
-        rcd_basis=np.where(tt, BASES["rcd-tt"], BASES["rcd-tn"]).tolist(), rcd_margin=_margins(rcd_value, rcd_limit),
+        b_ia=b_ia.tolist(), mz_verdict=mz_verdict.tolist(), mz_basis=mz_basis.tolist(), mz_note=mz_note.tolist(),
+        k_table=cc["k_table"].tolist(), method=method.tolist(),
+        pc_verdict=pc_verdict.tolist(), pc_basis=pc_basis.tolist(), pc_note=pc_note.tolist(), has_cond=has_cond.tolist(),
+        bc_verdict=bc_verdict.tolist(), bc_note=bc_note.tolist(),
+        has_rcd=has_rcd.tolist(), rcd_verdict=rcd_verdict.tolist(),
+        rcd_basis=np.where(tt, BASES["rcd-tt"], BASES["rcd-tn"]).tolist(),
         rcd_note=np.where(no_ra, NOTES["ra-not-given"], None).tolist(),
     )
     summaries = {id(d): {"device_id": d.device_id, "label": d.label, "source": d.source, "confidence": d.confidence,
@@ -569,22 +584,25 @@ def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[C
     ]
 
 
-def _listed(values: np.ndarray) -> list[float | None]:
-    """Floats as a list, with None where a value is NaN or infinite (JSON has neither)."""
-    arr = np.asarray(values, dtype=float)
-    out = arr.tolist()
-    for i in np.flatnonzero(~np.isfinite(arr)):
-        out[i] = None
-    return out
+def _listed_many(**columns: np.ndarray) -> dict[str, list[float | None]]:
+    """Float columns as lists, with None where a value is NaN or infinite (JSON has neither).
+
+    All columns go through numpy together: one conversion for the lot, whatever the count of circuits.
+    """
+    names = list(columns)
+    stacked = np.vstack([np.asarray(columns[name], dtype=float) for name in names])
+    lists = stacked.tolist()
+    for r, c in zip(*np.nonzero(~np.isfinite(stacked))):
+        lists[r][c] = None
+    return dict(zip(names, lists))
 
 
-def _margins(value: np.ndarray, limit: np.ndarray) -> list[float | None]:
-    """(limit - value) / limit x 100, None where either is missing or the limit is zero."""
+def _margin_array(value: np.ndarray, limit: np.ndarray) -> np.ndarray:
+    """(limit - value) / limit x 100; NaN where either is missing or the limit is zero."""
     v = np.asarray(value, dtype=float)
     lim = np.asarray(limit, dtype=float)
     with np.errstate(divide="ignore", invalid="ignore"):
-        m = np.where(np.isfinite(v) & np.isfinite(lim) & (lim != 0), (lim - v) / lim * 100.0, np.nan)
-    return _listed(m)
+        return np.where(np.isfinite(v) & np.isfinite(lim) & (lim != 0), (lim - v) / lim * 100.0, np.nan)
 
 
 def _time_verdicts(t: np.ndarray, bound: np.ndarray, limit: np.ndarray) -> np.ndarray:

@@ -1,0 +1,361 @@
+"""Faultpath benchmarks: one command prints a table of figures and ratios measured in the same run.
+
+    python bench/run.py            (from the project venv: .venv/bin/python bench/run.py)
+    python bench/run.py --quick    (shorter load runs, for a smoke test)
+
+Every server runs on 127.0.0.1 under gunicorn with deploy/gunicorn.conf.py, on a fresh port, and is
+stopped at the end. Load comes from wrk (Debian package) when installed, else from a bounded Python
+load generator. Scale-out uses nginx (Debian package) when installed and says so when it is not.
+Ratios compare figures taken in this run on this machine; the machines here are noisy (+-15 %).
+"""
+
+from __future__ import annotations
+
+import argparse
+import http.client
+import json
+import os
+import platform
+import re
+import shutil
+import signal
+import socket
+import statistics
+import subprocess
+import sys
+import tempfile
+import threading
+import time
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(ROOT))
+
+from bench.payload import SUPPLY, batch, circuits  # noqa: E402
+
+PY = sys.executable
+CONF = ROOT / "deploy" / "gunicorn.conf.py"
+ROWS: list[tuple[str, str, str, str, str]] = []
+
+
+def row(name: str, value: str, baseline: str = "", ratio: str = "", target: str = "") -> None:
+    ROWS.append((name, value, baseline, ratio, target))
+    print(f"  {name}: {value}" + (f" | {baseline}" if baseline else "") + (f" | {ratio}" if ratio else ""), flush=True)
+
+
+def free_port() -> int:
+    with socket.socket() as s:
+        s.bind(("127.0.0.1", 0))
+        return s.getsockname()[1]
+
+
+class Server:
+    """gunicorn on 127.0.0.1 with the project's config, started with a pidfile and stopped by pid."""
+
+    def __init__(self, app: str = "service.wsgi:app", workers: int = 2, env: dict | None = None):
+        self.port = free_port()
+        self.tmp = tempfile.mkdtemp(prefix="faultpath-bench-")
+        self.pidfile = os.path.join(self.tmp, "gunicorn.pid")
+        environ = dict(os.environ, FAULTPATH_PORT=str(self.port), FAULTPATH_WORKERS=str(workers),
+                       PROMETHEUS_MULTIPROC_DIR=os.path.join(self.tmp, "metrics"), FAULTPATH_LOG_LEVEL="warning",
+                       PYTHONPATH=str(ROOT), **(env or {}))
+        self.proc = subprocess.Popen(
+            [PY, "-m", "gunicorn", "-c", str(CONF), "-p", self.pidfile, "--access-logfile", os.devnull, app],
+            cwd=ROOT, env=environ, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+        )
+        self.wait_ready("/healthz" if "wsgi" in app else "/ping")
+
+    def wait_ready(self, path: str) -> None:
+        deadline = time.monotonic() + 30
+        while time.monotonic() < deadline:
+            try:
+                conn = http.client.HTTPConnection("127.0.0.1", self.port, timeout=1)
+                conn.request("GET", path)
+                if conn.getresponse().status == 200:
+                    return
+            except OSError:
+                time.sleep(0.1)
+        raise RuntimeError("server did not start")
+
+    def worker_pids(self) -> list[int]:
+        master = self.proc.pid
+        pids = []
+        for entry in os.listdir("/proc"):
+            if entry.isdigit():
+                try:
+                    stat = Path(f"/proc/{entry}/stat").read_text()
+                except OSError:
+                    continue
+                if int(stat.rsplit(")", 1)[1].split()[1]) == master:
+                    pids.append(int(entry))
+        return pids
+
+    def stop(self) -> None:
+        if self.proc.poll() is None:
+            self.proc.send_signal(signal.SIGTERM)
+            try:
+                self.proc.wait(timeout=30)
+            except subprocess.TimeoutExpired:
+                self.proc.kill()
+        shutil.rmtree(self.tmp, ignore_errors=True)
+
+
+def peak_rss_mb(pid: int) -> float:
+    for line in Path(f"/proc/{pid}/status").read_text().splitlines():
+        if line.startswith("VmHWM:"):
+            return int(line.split()[1]) / 1024
+    return float("nan")
+
+
+def post(port: int, path: str, body: bytes, accept: str = "application/json") -> tuple[int, bytes]:
+    conn = http.client.HTTPConnection("127.0.0.1", port, timeout=120)
+    conn.request("POST", path, body=body, headers={"Content-Type": "application/json", "Accept": accept})
+    response = conn.getresponse()
+    data = response.read()
+    conn.close()
+    return response.status, data
+
+
+def median_time(fn, runs: int = 5) -> float:
+    times = []
+    for _ in range(runs):
+        start = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - start)
+    return statistics.median(times)
+
+
+# ---------------------------------------------------------------- 1. engine
+
+
+def bench_engine() -> None:
+    from service.api.schemas import CircuitSchema, SupplySchema
+    from service.electrical.circuit import check_circuit, check_circuits
+
+    supply = SupplySchema().load(SUPPLY)
+    items = [CircuitSchema().load(c) for c in circuits(2000)]
+    check_circuits(supply, items[:10])
+    array_s = median_time(lambda: check_circuits(supply, items), 5)
+    loop_s = median_time(lambda: [check_circuit(supply, c) for c in items], 3)
+    n = len(items)
+    row("engine: circuits per second, array path (2 000 circuits)", f"{n / array_s:,.0f}/s",
+        f"scalar loop {n / loop_s:,.0f}/s", f"{loop_s / array_s:.1f}x", ">= 30x")
+
+
+# ---------------------------------------------------------------- 2. batch over HTTP, 4. memory
+
+
+def bench_batch(server: Server) -> None:
+    payload = batch(10_000)
+    body = json.dumps(payload).encode()
+    status, data = post(server.port, "/v1/circuits/check-batch", body)
+    assert status == 200, data[:300]
+    floor = median_time(lambda: json.dumps(json.loads(body)), 5)
+    served = median_time(lambda: post(server.port, "/v1/circuits/check-batch", body), 5)
+    row(f"batch of 10 000 circuits over HTTP ({len(body) / 1e6:.1f} MB in, {len(data) / 1e6:.1f} MB out)",
+        f"{served * 1000:,.0f} ms", f"json.loads + json.dumps {floor * 1000:,.0f} ms", f"{served / floor:.1f}x", "<= 3x")
+    streamed = median_time(lambda: post(server.port, "/v1/circuits/check-batch", body, "application/x-ndjson"), 3)
+    row("same batch streamed as NDJSON", f"{streamed * 1000:,.0f} ms", "", f"{streamed / floor:.1f}x", "")
+    peak = max(peak_rss_mb(pid) for pid in server.worker_pids())
+    row("peak worker memory after 10 000-circuit batches", f"{peak:,.0f} MB", "", "", "<= 250 MB")
+
+
+# ---------------------------------------------------------------- 3. single check under load
+
+
+def wrk_run(port: int, path: str, body: bytes, seconds: int, connections: int) -> tuple[float, float, float]:
+    script = tempfile.NamedTemporaryFile("w", suffix=".lua", delete=False)
+    script.write('wrk.method = "POST"\nwrk.headers["Content-Type"] = "application/json"\nwrk.body = ' + json.dumps(body.decode()) + "\n")
+    script.close()
+    out = subprocess.run(["wrk", "-t2", f"-c{connections}", f"-d{seconds}s", "--latency", "-s", script.name,
+                          f"http://127.0.0.1:{port}{path}"], capture_output=True, text=True, timeout=seconds + 30).stdout
+    os.unlink(script.name)
+    rps = float(re.search(r"Requests/sec:\s+([\d.]+)", out).group(1))
+
+    def pct(p: str) -> float:
+        m = re.search(rf"^\s+{p}%\s+([\d.]+)(us|ms|s)\s*$", out, re.M)
+        value, unit = float(m.group(1)), m.group(2)
+        return value * {"us": 0.001, "ms": 1.0, "s": 1000.0}[unit]
+
+    errors = re.search(r"Non-2xx or 3xx responses: (\d+)", out)
+    if errors:
+        raise RuntimeError(f"{errors.group(1)} non-2xx answers under load")
+    return rps, pct("50"), pct("99")
+
+
+def python_load(port: int, path: str, body: bytes, seconds: int, connections: int) -> tuple[float, float, float]:
+    latencies: list[float] = []
+    lock = threading.Lock()
+    stop_at = time.monotonic() + seconds
+
+    def worker():
+        mine = []
+        while time.monotonic() < stop_at:
+            start = time.perf_counter()
+            status, _ = post(port, path, body)
+            if status != 200:
+                raise RuntimeError(f"answer {status} under load")
+            mine.append((time.perf_counter() - start) * 1000)
+        with lock:
+            latencies.extend(mine)
+
+    threads = [threading.Thread(target=worker) for _ in range(connections)]
+    for t in threads:
+        t.start()
+    for t in threads:
+        t.join()
+    latencies.sort()
+    return len(latencies) / seconds, latencies[len(latencies) // 2], latencies[int(len(latencies) * 0.99)]
+
+
+def load(port: int, path: str, body: bytes, seconds: int, connections: int = 16):
+    if shutil.which("wrk"):
+        return wrk_run(port, path, body, seconds, connections)
+    return python_load(port, path, body, seconds, min(connections, 8))
+
+
+def bench_single(server: Server, bare: Server, seconds: int) -> None:
+    body = (ROOT / "schemas" / "examples" / "circuits-check.json").read_bytes()
+    load(server.port, "/v1/circuits/check", body, 2)
+    rps, p50, p99 = load(server.port, "/v1/circuits/check", body, seconds)
+    b_rps, b_p50, b_p99 = load(bare.port, "/echo", body, seconds)
+    tool = "wrk" if shutil.which("wrk") else "Python load generator"
+    row(f"single circuit check under load ({tool}, 16 connections, {seconds} s)",
+        f"{rps:,.0f} req/s, p50 {p50:.1f} ms, p99 {p99:.1f} ms",
+        f"bare Flask JSON {b_rps:,.0f} req/s, p50 {b_p50:.1f} ms, p99 {b_p99:.1f} ms", f"{rps / b_rps:.2f}x", ">= 0.7x")
+
+
+# ---------------------------------------------------------------- 4. worker start
+
+
+def bench_start() -> None:
+    code = "import time; t=time.perf_counter(); from service.app import create_app; create_app(); print(time.perf_counter()-t)"
+    times = [float(subprocess.run([PY, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True).stdout) for _ in range(3)]
+    row("worker start: import and create_app", f"{statistics.median(times) * 1000:,.0f} ms", "", "", "<= 1 s")
+
+
+# ---------------------------------------------------------------- 5. growth
+
+
+def bench_growth() -> None:
+    from service.api.errors import json_bytes
+    from service import cli
+
+    per = []
+    for n in (100, 1_000, 10_000, 100_000):
+        text = json.dumps(batch(n))
+
+        def once():
+            import io
+
+            records = cli.run(cli.read_json(io.StringIO(text)), cli.Progress(n, open(os.devnull, "w")))
+            json_bytes({"results": records, "summary": cli.summary(records)})
+
+        seconds = median_time(once, 3 if n <= 10_000 else 1)
+        per.append(seconds / n * 1e6)
+        row(f"growth: {n:,} circuits through the CLI path (read, check, write)", f"{seconds * 1000:,.0f} ms",
+            "", f"{seconds / n * 1e6:.1f} us per circuit", "flat")
+    row("growth: per-circuit cost, 100 000 against 1 000", "", "", f"{per[3] / per[1]:.2f}x", "about 1x")
+
+
+# ---------------------------------------------------------------- scale-out
+
+
+NGINX_CONF = """
+worker_processes 1;
+pid {tmp}/nginx.pid;
+error_log {tmp}/error.log warn;
+events {{ worker_connections 1024; }}
+http {{
+  access_log off;
+  client_body_temp_path {tmp}/body;
+  proxy_temp_path {tmp}/proxy;
+  fastcgi_temp_path {tmp}/fastcgi;
+  uwsgi_temp_path {tmp}/uwsgi;
+  scgi_temp_path {tmp}/scgi;
+  client_max_body_size 16m;
+  upstream faultpath {{ {servers} }}
+  server {{
+    listen 127.0.0.1:{port};
+    location / {{
+      proxy_pass http://faultpath;
+      proxy_next_upstream error timeout http_502 http_503 non_idempotent;
+      proxy_next_upstream_tries 2;
+      proxy_connect_timeout 1s;
+    }}
+  }}
+}}
+"""
+
+
+class Nginx:
+    def __init__(self, backend_ports: list[int]):
+        self.tmp = tempfile.mkdtemp(prefix="faultpath-nginx-")
+        self.port = free_port()
+        servers = " ".join(f"server 127.0.0.1:{p} max_fails=1 fail_timeout=2s;" for p in backend_ports)
+        conf = os.path.join(self.tmp, "nginx.conf")
+        Path(conf).write_text(NGINX_CONF.format(tmp=self.tmp, servers=servers, port=self.port))
+        subprocess.run(["nginx", "-c", conf, "-p", self.tmp], check=True, capture_output=True)
+        time.sleep(0.3)
+
+    def stop(self) -> None:
+        pid_file = Path(self.tmp) / "nginx.pid"
+        if pid_file.exists():
+            os.kill(int(pid_file.read_text()), signal.SIGTERM)
+            time.sleep(0.3)
+        shutil.rmtree(self.tmp, ignore_errors=True)
+
+
+def bench_scale_out(seconds: int) -> None:
+    if not shutil.which("nginx"):
+        row("scale-out: two instances behind nginx", "skipped: nginx is not installed (apt-get install nginx-light)")
+        return
+    body = (ROOT / "schemas" / "examples" / "circuits-check.json").read_bytes()
+    a, b = Server(workers=2), Server(workers=2)
+    try:
+        one = Nginx([a.port])
+        try:
+            rps1, p50_1, p99_1 = load(one.port, "/v1/circuits/check", body, seconds)
+        finally:
+            one.stop()
+        two = Nginx([a.port, b.port])
+        try:
+            rps2, p50_2, p99_2 = load(two.port, "/v1/circuits/check", body, seconds)
+        finally:
+            two.stop()
+    finally:
+        a.stop()
+        b.stop()
+    row(f"scale-out: two instances behind nginx ({os.cpu_count()} cores shared by all)",
+        f"{rps2:,.0f} req/s, p99 {p99_2:.1f} ms", f"one instance {rps1:,.0f} req/s, p99 {p99_1:.1f} ms", f"{rps2 / rps1:.2f}x", "")
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
+    parser.add_argument("--quick", action="store_true", help="3 s load runs instead of 10 s")
+    args = parser.parse_args()
+    seconds = 3 if args.quick else 10
+    print(f"Faultpath bench on {platform.node()}: {os.cpu_count()} cores, {platform.processor() or platform.machine()}, "
+          f"Python {platform.python_version()}", flush=True)
+    bench_engine()
+    bench_start()
+    server = Server(workers=2)
+    bare = Server(app="bench.bare_app:app", workers=2)
+    try:
+        bench_batch(server)
+        bench_single(server, bare, seconds)
+    finally:
+        server.stop()
+        bare.stop()
+    bench_scale_out(seconds)
+    bench_growth()
+    width = [max(len(r[i]) for r in ROWS + [("figure", "value", "baseline (same run)", "ratio", "target")]) for i in range(5)]
+    print()
+    header = ("figure", "value", "baseline (same run)", "ratio", "target")
+    for r in [header, tuple("-" * w for w in width)] + ROWS:
+        print(" | ".join(cell.ljust(w) for cell, w in zip(r, width)))
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
