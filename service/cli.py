@@ -179,34 +179,54 @@ class Progress:
             self.stream.write("\n")
 
 
-def run(rows: list[Row], progress: Progress) -> list[dict[str, Any]]:
-    records: list[dict[str, Any]] = [None] * len(rows)  # type: ignore[list-item]
-    for row in rows:
-        if row.problem is not None:
-            records[row.index] = {"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.problem}}
-    ready = [row for row in rows if row.problem is None]
-    for start in range(0, len(ready), CHUNK):
-        chunk = ready[start:start + CHUNK]
-        for row, outcome in zip(chunk, check_circuits([r.supply for r in chunk], [r.circuit for r in chunk])):
+def run_chunks(rows: list[Row], progress: Progress):
+    """The records of the rows, in order, a chunk at a time (so a large file never sits whole in memory)."""
+    for start in range(0, len(rows), CHUNK):
+        chunk = rows[start:start + CHUNK]
+        ready = [row for row in chunk if row.problem is None]
+        outcomes = iter(check_circuits([r.supply for r in ready], [r.circuit for r in ready]) if ready else [])
+        records = []
+        for row in chunk:
+            if row.problem is not None:
+                records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.problem}})
+                continue
+            outcome = next(outcomes)
             if isinstance(outcome, CircuitFailure):
-                records[row.index] = {"index": row.index, "id": row.id,
-                                      "problem": {"status": 422, "errors": [{"pointer": field_pointer(row.base, outcome.field), "message": outcome.message}]}}
+                error = {"pointer": field_pointer(row.base, outcome.field), "message": outcome.message}
+                records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": [error]}})
             else:
-                records[row.index] = {"index": row.index, "id": row.id, "result": outcome}
-        progress.update(min(len(rows), start + len(chunk) + (len(rows) - len(ready))))
-    progress.update(len(rows))
-    return records
+                records.append({"index": row.index, "id": row.id, "result": outcome})
+        progress.update(start + len(chunk))
+        yield records
+
+
+def run(rows: list[Row], progress: Progress) -> list[dict[str, Any]]:
+    return [record for chunk in run_chunks(rows, progress) for record in chunk]
+
+
+class Tally:
+    def __init__(self):
+        self.counts = {"circuits": 0, "pass": 0, "fail": 0, "not-verified": 0, "invalid": 0}
+
+    def add(self, records) -> None:
+        for r in records:
+            self.counts["circuits"] += 1
+            self.counts[r["result"].verdict if "result" in r else "invalid"] += 1
 
 
 def summary(records: list[dict[str, Any]]) -> dict[str, int]:
-    verdicts = [r["result"].verdict for r in records if "result" in r]
-    return {"circuits": len(records), "pass": verdicts.count("pass"), "fail": verdicts.count("fail"),
-            "not-verified": verdicts.count("not-verified"), "invalid": len(records) - len(verdicts)}
+    tally = Tally()
+    tally.add(records)
+    return tally.counts
 
 
-def write_csv(records: list[dict[str, Any]], stream: TextIO) -> None:
+def csv_writer(stream: TextIO) -> csv.DictWriter:
     writer = csv.DictWriter(stream, fieldnames=RESULT_COLUMNS, lineterminator="\n")
     writer.writeheader()
+    return writer
+
+
+def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> None:
     for record in records:
         row: dict[str, Any] = {"index": record["index"], "id": record["id"]}
         if "problem" in record:
@@ -233,19 +253,33 @@ def main(args: argparse.Namespace) -> int:
     except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
         print(f"cannot read {path}: {err}", file=sys.stderr)
         return 2
-    records = run(rows, Progress(len(rows), sys.stderr))
-    counts = summary(records)
     out_format = args.format or ("csv" if args.output and args.output.lower().endswith(".csv") else "json")
-    if out_format == "csv":
-        buffer = io.StringIO()
-        write_csv(records, buffer)
-        data = buffer.getvalue().encode("utf-8")
-    else:
-        data = json_bytes({"results": records, "summary": counts}) + b"\n"
-    if args.output:
-        Path(args.output).write_bytes(data)
-    else:
-        sys.stdout.buffer.write(data)
+    tally = Tally()
+    sink = open(args.output, "wb") if args.output else sys.stdout.buffer
+    try:
+        chunks = run_chunks(rows, Progress(len(rows), sys.stderr))
+        if out_format == "csv":
+            text = io.TextIOWrapper(sink, encoding="utf-8", newline="", write_through=True)
+            writer = csv_writer(text)
+            for records in chunks:
+                tally.add(records)
+                write_csv_rows(writer, records)
+            text.detach()
+        else:
+            sink.write(b'{"results":[')
+            first = True
+            for records in chunks:
+                tally.add(records)
+                if records:
+                    sink.write((b"" if first else b",") + b",".join(json_bytes(r) for r in records))
+                    first = False
+            sink.write(b'],"summary":' + json_bytes(tally.counts) + b"}\n")
+    finally:
+        if args.output:
+            sink.close()
+        else:
+            sink.flush()
+    counts = tally.counts
     print(" ".join(f"{k}={v}" for k, v in counts.items()), file=sys.stderr)
     if counts["fail"]:
         return 1
