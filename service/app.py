@@ -16,7 +16,7 @@ import flask
 import flask_smorest
 from werkzeug.routing import BaseConverter
 
-from .api import circuits, device_questions, devices, docs, errors, fault_current, health, metrics, protective_conductor
+from .api import circuits, device_questions, devices, docs, errors, fault_current, health, metrics, protective_conductor, sizing, test_results
 from .settings import Settings
 
 API_VERSION = "1.0.0"
@@ -125,7 +125,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     api.register_converter(NumberConverter, lambda converter: {"type": "number", "minimum": 0})
     for blueprint in (
         circuits.blp, fault_current.blp, device_questions.disconnection_blp, device_questions.max_zs_blp,
-        protective_conductor.blp, devices.blp, health.blp,
+        protective_conductor.blp, sizing.blp, test_results.blp, devices.blp, health.blp,
     ):
         api.register_blueprint(blueprint)
     app.register_blueprint(docs.blp)

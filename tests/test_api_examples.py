@@ -21,7 +21,8 @@ def send(client, path, name):
 
 def test_every_example_is_sent_by_a_test():
     sent = {"circuits-check.json", "circuits-check-batch.json", "fault-current.json", "fault-current-conductors.json",
-            "disconnection-time.json", "max-zs.json", "protective-conductor.json"}
+            "disconnection-time.json", "max-zs.json", "protective-conductor.json",
+            "circuits-size.json", "circuits-max-length.json", "test-results-verify.json"}  # the last three: tests/test_sizing.py
     assert {p.name for p in EXAMPLES.glob("*.json")} == sent
 
 

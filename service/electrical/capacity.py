@@ -1,0 +1,178 @@
+"""Current-carrying capacity, correction factors and voltage drop.
+
+Tables: data/capacity_*.json (BS 7671:2018 Tables 4D5, 4E1A, 4E4A/4E4B), data/correction_factors.json,
+data/voltage_drop_limits.json. Each capacity cell carries its confidence; a result that rests on a
+cell marked from memory says so.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from functools import lru_cache
+from typing import Any
+
+from . import conductors as cond
+from .datafiles import core_table
+from .errors import InvalidInput, UnknownConductor
+
+CABLES = {
+    "flat-twin-earth-70c": "capacity_flat_twin_earth_70c",
+    "multicore-armoured-90c": "capacity_multicore_armoured_90c",
+    "single-core-90c": "capacity_single_core_90c",
+}
+GROUPINGS = ("bunched", "single-layer-touching", "under-wooden-ceiling", "perforated-tray", "ladder-or-cleats")
+USES = ("lighting", "other")
+SUPPLY_KINDS = ("public", "private")
+
+
+def cable_table(cable: str) -> dict[str, Any]:
+    if cable not in CABLES:
+        raise InvalidInput("cable", f"cable is one of {list(CABLES)}, not {cable!r}")
+    return core_table(CABLES[cable])
+
+
+def methods(cable: str) -> list[str]:
+    return list(cable_table(cable)["methods"])
+
+
+@dataclass(frozen=True)
+class TabulatedCapacity:
+    csa_mm2: float
+    it_a: float
+    confidence: str
+
+
+def capacities(cable: str, method: str, phases: int) -> list[TabulatedCapacity]:
+    """Every size with a tabulated capacity It (A) for the method and phases, smallest first.
+
+    BS 7671:2018 Table 4D5 / 4E1A / 4E4A; ``phases`` 1 (two loaded conductors) or 3 (three).
+    """
+    table = cable_table(cable)
+    if method not in table["capacity_a"]:
+        raise InvalidInput("installation_method", f"{cable} has methods {list(table['capacity_a'])}, not {method!r}")
+    column = table["capacity_a"][method].get(str(phases))
+    if column is None:
+        raise InvalidInput("phases", f"{cable} is tabulated for phases {sorted(table['capacity_a'][method])}, not {phases}")
+    confidence = table["capacity_confidence"][method][str(phases)]
+    return [TabulatedCapacity(float(csa), float(it), str(conf)) for csa, it, conf in zip(table["csa_mm2"], column, confidence) if it is not None]
+
+
+def ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
+    """Ca for an air ambient temperature (BS 7671 Table 4B1).
+
+    Above 30 degC: sqrt((theta_p - theta_a) / (theta_p - 30)), theta_p the insulation's maximum operating
+    temperature (reproduces Table 4B1 within 0.01). At and below 25 degC the tabulated 25 degC value;
+    between 25 and 30 degC 1.00 (conservative).
+    """
+    table = core_table("correction_factors")["ambient"]
+    theta_p = float(cond.operating_temperature_c(insulation, 1)[0])
+    if ambient_c >= theta_p:
+        raise InvalidInput("ambient_c", f"the ambient must be below the conductor's {theta_p:g} degC")
+    if ambient_c > 30:
+        return math.sqrt((theta_p - ambient_c) / (theta_p - 30)), "BS 7671 Table 4B1 (formula above 30 degC)"
+    if ambient_c <= 25:
+        return float(table["below_reference"][insulation]["25"]), "BS 7671 Table 4B1, 25 degC value (used at and below 25 degC)"
+    return 1.0, "BS 7671 Table 4B1: 1.00 taken between 25 and 30 degC (conservative)"
+
+
+def ground_factor(insulation: str, ground_c: float) -> tuple[float, str]:
+    """Ca for a ground temperature (BS 7671 Table 4B2, from memory): the next warmer tabulated value."""
+    table = core_table("correction_factors")["ground"]
+    key = "thermoplastic-70" if insulation.startswith("thermoplastic") else "thermosetting-90"
+    temps = sorted(int(t) for t in table["factors"][key])
+    warmer = next((t for t in temps if t >= ground_c), None)
+    if warmer is None:
+        raise InvalidInput("ground_c", f"ground temperatures up to {temps[-1]} degC are tabulated")
+    return float(table["factors"][key][str(warmer)]), f"BS 7671 Table 4B2 at {warmer} degC (from memory)"
+
+
+def soil_factor(resistivity_k_m_per_w: float, in_duct: bool) -> tuple[float, str]:
+    """Factor for soil thermal resistivity (BS 7671 Table 4B3, from memory): the next higher tabulated value."""
+    table = core_table("correction_factors")["soil_resistivity"]["in-duct" if in_duct else "direct"]
+    values = sorted(float(v) for v in table)
+    higher = next((v for v in values if v >= resistivity_k_m_per_w), None)
+    if higher is None:
+        raise InvalidInput("soil_resistivity_k_m_per_w", f"resistivities up to {values[-1]:g} K m/W are tabulated")
+    return float(table[f"{higher:g}"]), f"BS 7671 Table 4B3 at {higher:g} K m/W (from memory)"
+
+
+def grouping_factor(arrangement: str, circuits: int) -> tuple[float, str]:
+    """Cg for ``circuits`` circuits grouped in ``arrangement`` (BS 7671 Table 4C1)."""
+    table = core_table("correction_factors")["grouping"]
+    if arrangement not in GROUPINGS:
+        raise InvalidInput("grouping", f"grouping is one of {list(GROUPINGS)}, not {arrangement!r}")
+    row = table[arrangement]
+    if circuits <= len(row["factors"]):
+        value = row["factors"][circuits - 1]
+    else:
+        more = sorted((int(k), v) for k, v in row["more"].items())
+        value = next((v for k, v in more if k >= circuits), more[-1][1] if more else row["factors"][-1])
+    return float(value), f"BS 7671 Table 4C1, {arrangement}, {circuits} circuits ({row['confidence']})"
+
+
+def thermal_insulation_factor(length_mm: float) -> tuple[float, str]:
+    """Ci for a cable totally surrounded by thermal insulation over ``length_mm`` (BS 7671 Table 52.2)."""
+    if length_mm <= 0:
+        return 1.0, "no thermal insulation"
+    table = core_table("correction_factors")["thermal_insulation"]
+    for length, factor, conf in zip(table["lengths_mm"], table["factors"], table["confidence"]):
+        if length_mm <= length:
+            return float(factor), f"BS 7671 Table 52.2 at {length} mm (confidence {conf})"
+    return float(table["factors"][-1]), "BS 7671 Table 52.2, 500 mm and more (confidence A)"
+
+
+def device_factor(standard: str | None) -> tuple[float, str]:
+    """Cc for the protective device: 0.725 for a BS 3036 semi-enclosed fuse, else 1.0."""
+    table = core_table("correction_factors")["protective_device"]
+    if standard == "BS 3036":
+        return float(table["BS 3036"]), "BS 7671 433.1.101: BS 3036 fuse, Cc = 0.725"
+    return 1.0, "no device factor"
+
+
+def voltage_drop_mv_per_a_m(cable: str, csa_mm2: float, phases: int, reactance_mohm_per_m: float | None = None) -> tuple[float, str]:
+    """Voltage drop per ampere per metre (mV/A/m) at the conductor's operating temperature.
+
+    From the tabulated value where the table has one (BS 7671 Tables 4D5, 4E4B: z, or sqrt(r^2 + x^2));
+    otherwise 2 (single-phase) or sqrt(3) (three-phase) x R20 x (1 + 0.004 (theta - 20)), with a stated
+    reactance added as sqrt(r^2 + x^2).
+    """
+    table = cable_table(cable)
+    sizes = [float(s) for s in table["csa_mm2"]]
+    if float(csa_mm2) not in sizes:
+        raise UnknownConductor("line_csa_mm2", f"{cable} is tabulated for {sizes}")
+    i = sizes.index(float(csa_mm2))
+    vd = (table.get("voltage_drop_mv_per_a_m") or {}).get(str(phases))
+    if vd is not None:
+        z = vd.get("z", [None] * len(sizes))[i]
+        if z is not None:
+            return float(z), f"{table['source']}: tabulated {z:g} mV/A/m"
+        r, x = vd.get("r", [None] * len(sizes))[i], vd.get("x", [None] * len(sizes))[i]
+        if r is not None and x is not None:
+            return math.hypot(r, x), f"{table['source']}: sqrt(r^2 + x^2) from r {r:g} and x {x:g} mV/A/m"
+    factor = 2.0 if phases == 1 else math.sqrt(3.0)
+    r20 = float(cond.resistance_mohm_per_m("copper", csa_mm2)[0])
+    r = factor * r20 * float(cond.temperature_multiplier(table["conductor_operating_c"])[0])
+    x = 0.0 if reactance_mohm_per_m is None else factor * reactance_mohm_per_m
+    basis = f"computed: {factor:.3g} x R20 {r20:g} mohm/m x {float(cond.temperature_multiplier(table['conductor_operating_c'])[0]):.2f}"
+    if reactance_mohm_per_m is not None:
+        basis += f", with reactance {reactance_mohm_per_m:g} mohm/m"
+    return math.hypot(r, x), basis
+
+
+@lru_cache(maxsize=8)
+def voltage_drop_limit_percent(supply_kind: str, use: str) -> tuple[float, str]:
+    """The voltage drop limit (percent): 3 % lighting, 5 % other uses for a public supply (BS 7671 Appendix 4, 6.4)."""
+    table = core_table("voltage_drop_limits")
+    if supply_kind not in SUPPLY_KINDS or use not in USES:
+        raise InvalidInput("use", f"use is one of {list(USES)} and supply_kind one of {list(SUPPLY_KINDS)}")
+    value = float(table["limits_percent"][supply_kind][use])
+    conf = "A" if supply_kind == "public" else "M, from memory"
+    return value, f"{table['source']}: {supply_kind} supply, {use}, {value:g} % ({conf})"
+
+
+def design_current_a(power_kw: float, power_factor: float, phases: int, u0_v: float) -> float:
+    """Ib from a load: P / (U0 pf) single-phase, P / (3 U0 pf) = P / (sqrt(3) U pf) three-phase (common practice)."""
+    if not 0 < power_factor <= 1:
+        raise InvalidInput("power_factor", "the power factor is above 0 and at most 1")
+    return power_kw * 1000.0 / ((1 if phases == 1 else 3) * u0_v * power_factor)
