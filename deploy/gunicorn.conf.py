@@ -36,6 +36,13 @@ def on_starting(server):
                 os.remove(os.path.join(folder, name))
 
 
+def post_worker_init(worker):
+    # matplotlib is imported once per worker before it takes traffic, so the first picture is quick
+    from service.picture import warm
+
+    warm()
+
+
 def child_exit(server, worker):
     if os.environ.get("PROMETHEUS_MULTIPROC_DIR"):
         from prometheus_client import multiprocess

@@ -84,6 +84,8 @@ def spec_dict(api: Api) -> dict[str, Any]:
                     "schema": {"description": "one JSON object per line: a BatchItem per circuit, in order, then {\"summary\": BatchSummary}",
                                "type": "string"},
                 }
+            if path.endswith("/characteristic"):
+                responses["200"]["content"]["image/svg+xml"] = {"schema": {"type": "string", "description": "the curve as a picture"}}
             if method == "get" and "{" in path:
                 responses.setdefault("404", {"description": "Not Found", **problem})
     return spec

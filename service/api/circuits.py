@@ -5,7 +5,10 @@ from __future__ import annotations
 import flask
 
 from ..electrical.circuit import CircuitFailure, check_circuits
+from ..electrical.devices.catalogue import resolve
+from ..picture import characteristic_svg
 from . import metrics
+from .devices import svg_response
 from .base import Blueprint
 from .errors import CoreInputError, field_pointer, flatten, json_bytes, json_response, problem_body
 from .schemas import BatchRequestSchema, BatchResultSchema, CheckRequestSchema, CircuitResultSchema, ItemProblem
@@ -35,6 +38,25 @@ def check(body):
         raise CoreInputError(_failure_errors(result, "/circuit"))
     metrics.count_verdicts([result.verdict])
     return json_response(result)
+
+
+@blp.route("/picture", methods=["POST"])
+@blp.arguments(CheckRequestSchema)
+@blp.doc(responses={"200": {"description": "The time-current picture of the checked circuit",
+                            "content": {"image/svg+xml": {"schema": {"type": "string"}}}}})
+def picture(body):
+    """The time-current picture of one checked circuit (SVG)
+
+    The device's curve, the earth fault current, the permitted time and the operating point, with the
+    verdict in the title; the body is the same as for circuits/check.
+    """
+    result = check_circuits(body["supply"], [body["circuit"]])[0]
+    if isinstance(result, CircuitFailure):
+        raise CoreInputError(_failure_errors(result, "/circuit"))
+    device = resolve(body["circuit"].device.as_mapping())
+    svg = characteristic_svg(device, result.earth_fault_current_a, result.disconnection_time_s,
+                             result.max_disconnection_time_s, result.verdict, result.disconnection_time_bound)
+    return svg_response(svg, cache_seconds=0)
 
 
 @blp.route("/check-batch", methods=["POST"])

@@ -2,13 +2,28 @@
 
 from __future__ import annotations
 
+import hashlib
+
 import flask
 from marshmallow import Schema, fields
 
 from ..electrical.devices.catalogue import catalogue, device_by_id
 from ..electrical.errors import ElectricalError
 from .base import Blueprint
+from ..picture import characteristic_svg
 from .device_questions import summary
+
+SVG = "image/svg+xml"
+
+
+def svg_response(body: bytes, cache_seconds: int) -> flask.Response:
+    """An SVG answer with a content type, cache headers and an ETag of its bytes."""
+    response = flask.Response(body, mimetype=SVG)
+    response.headers["Cache-Control"] = f"public, max-age={cache_seconds}" if cache_seconds else "no-store"
+    response.headers["ETag"] = '"' + hashlib.sha256(body).hexdigest()[:32] + '"'
+    response.headers["Vary"] = "Accept"
+    response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'"
+    return response
 
 blp = Blueprint("devices", __name__, url_prefix="/v1/devices", description="The built-in protective devices and their curves")
 
@@ -72,11 +87,13 @@ def list_devices():
 @blp.response(200, CharacteristicSchema)
 @blp.alt_response(404, description="No such device or rating")
 def characteristic(device_id, rating_a):
-    """The time-current points of one device at one rating"""
+    """The time-current points of one device at one rating; as a picture with `Accept: image/svg+xml`"""
     try:
         dev = device_by_id(device_id, rating_a)
     except ElectricalError as err:
         flask.abort(404, description=err.message)
+    if flask.request.accept_mimetypes.best_match(["application/json", SVG]) == SVG:
+        return svg_response(characteristic_svg(dev), cache_seconds=86400)
     return {
         "device": summary(dev),
         "rating_a": dev.rating_a,
