@@ -16,11 +16,11 @@ import flask
 import flask_smorest
 from werkzeug.routing import BaseConverter
 
-from .api import circuits, device_questions, devices, docs, errors, fault_current, health, metrics, protective_conductor, sizing, test_results
+from .api import circuits, device_questions, devices, docs, errors, fault_current, health, metrics, protective_conductor, sizing, test_results, web
 from .settings import Settings
 
 API_VERSION = "1.0.0"
-PUBLIC_PATHS = ("/healthz", "/readyz", "/metrics", "/docs", "/openapi.json")
+PUBLIC_PATHS = ("/healthz", "/readyz", "/metrics", "/docs", "/openapi.json", "/example/")
 REQUEST_ID = re.compile(r"^[A-Za-z0-9._:-]{1,128}$")
 BODY_METHODS = ("POST", "PUT", "PATCH")
 ERROR_STATUSES = {"POST": (400, 401, 413, 415, 422, 429, 500), "GET": (401, 429, 500)}
@@ -131,6 +131,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     ):
         api.register_blueprint(blueprint)
     app.register_blueprint(docs.blp)
+    app.register_blueprint(web.blp)
     app.extensions["faultpath_api"] = api
     _install_guards(app, settings)
     metrics.install(app)

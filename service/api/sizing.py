@@ -99,6 +99,8 @@ class VoltageDropSchema(Schema):
 class SelectedSchema(Schema):
     line_csa_mm2 = fields.Float(required=True)
     cpc_csa_mm2 = fields.Float(required=True)
+    material = fields.String(required=True)
+    insulation = fields.String(required=True)
     capacity = fields.Nested(CapacitySchema, required=True)
     voltage_drop = fields.Nested(VoltageDropSchema, required=True)
     check = fields.Nested(CircuitResultSchema, required=True)

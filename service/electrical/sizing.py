@@ -205,7 +205,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: Dev
         name, value, limit, unit = _first_problem(outcome, iz, in_a, vd)
         if name is None:
             selected = {
-                "line_csa_mm2": size.csa_mm2, "cpc_csa_mm2": cpc,
+                "line_csa_mm2": size.csa_mm2, "cpc_csa_mm2": cpc, "material": "copper", "insulation": insulation,
                 "capacity": Capacity(size.it_a, iz, factors, size.confidence),
                 "voltage_drop": vd, "check": outcome,
             }
