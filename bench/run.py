@@ -58,6 +58,7 @@ class Server:
         self.pidfile = os.path.join(self.tmp, "gunicorn.pid")
         environ = dict(os.environ, FAULTPATH_PORT=str(self.port), FAULTPATH_WORKERS=str(workers),
                        PROMETHEUS_MULTIPROC_DIR=os.path.join(self.tmp, "metrics"), FAULTPATH_LOG_LEVEL="warning",
+                       FAULTPATH_RATE_LIMIT="",
                        PYTHONPATH=str(ROOT), **(env or {}))
         self.proc = subprocess.Popen(
             [PY, "-m", "gunicorn", "-c", str(CONF), "-p", self.pidfile, "--access-logfile", os.devnull, app],

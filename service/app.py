@@ -6,6 +6,7 @@ unless given in ``config``.
 
 from __future__ import annotations
 
+import hashlib
 import hmac
 import logging
 import re
@@ -95,7 +96,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     """Build the service. ``config`` overrides the environment (used by tests)."""
     config = dict(config or {})
     settings: Settings = config.pop("SETTINGS", None) or Settings.from_env()
-    app = flask.Flask("faultpath")
+    app = flask.Flask("faultpath", static_folder=None)
     app.config.update(
         API_TITLE="Faultpath",
         API_VERSION=API_VERSION,
@@ -134,10 +135,38 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     app.register_blueprint(web.blp)
     app.extensions["faultpath_api"] = api
     _install_guards(app, settings)
+    _install_rate_limit(app, settings)
     metrics.install(app)
     app.register_error_handler(errors.CoreInputError, errors.handle_http_exception)
     app.register_error_handler(Exception, _unexpected)
     return app
+
+
+def _install_rate_limit(app: flask.Flask, settings: Settings) -> None:
+    """A limit per API key, or per client address without one (429 problem+json with Retry-After).
+
+    With memory:// storage each worker and each replica counts alone; several replicas need a shared
+    store (FAULTPATH_RATE_LIMIT_STORAGE=redis://...) or the limit set at the ingress.
+    """
+    if settings.proxies:
+        from werkzeug.middleware.proxy_fix import ProxyFix
+
+        app.wsgi_app = ProxyFix(app.wsgi_app, x_for=settings.proxies, x_proto=settings.proxies)
+    if not settings.rate_limit:
+        return
+    from flask_limiter import Limiter
+
+    def client_key() -> str:
+        key = flask.request.headers.get("X-API-Key")
+        if key:
+            return "key:" + hashlib.sha256(key.encode()).hexdigest()[:24]
+        return "addr:" + (flask.request.remote_addr or "unknown")
+
+    limiter = Limiter(
+        client_key, app=app, default_limits=[settings.rate_limit], storage_uri=settings.rate_limit_storage,
+        headers_enabled=True, default_limits_exempt_when=lambda: flask.request.path.startswith(PUBLIC_PATHS),
+    )
+    app.extensions["faultpath_limiter"] = limiter
 
 
 def _unexpected(exc: Exception):
@@ -157,8 +186,11 @@ def _install_guards(app: flask.Flask, settings: Settings) -> None:
     def _guard():
         supplied = flask.request.headers.get("X-Request-ID", "")
         flask.g.request_id = supplied if REQUEST_ID.match(supplied) else uuid.uuid4().hex
-        if flask.request.method == "OPTIONS" and flask.request.headers.get("Origin") in origins:
-            return flask.Response(status=204)
+        if flask.request.method == "OPTIONS":  # preflight or a question about methods: no body, ever
+            response = flask.Response(status=204)
+            if flask.request.url_rule is not None:
+                response.headers["Allow"] = ", ".join(sorted(flask.request.url_rule.methods - {"HEAD"}))
+            return response
         path = flask.request.path
         if required and not path.startswith(PUBLIC_PATHS):
             given = flask.request.headers.get("X-API-Key", "").encode()

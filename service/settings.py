@@ -17,6 +17,9 @@ SETTINGS = {
     "FAULTPATH_API_KEYS": ("", "comma-separated API keys accepted in the X-API-Key header"),
     "FAULTPATH_REQUIRE_KEYS": ("auto", "auto: keys required unless bound to loopback; on; off"),
     "FAULTPATH_CORS_ORIGINS": ("", "comma-separated origins allowed to call from a browser"),
+    "FAULTPATH_RATE_LIMIT": ("1200/minute", "requests allowed per API key (or client address without a key); empty: no limit"),
+    "FAULTPATH_RATE_LIMIT_STORAGE": ("memory://", "where the counts live: memory:// counts per worker; redis://host:6379 shares them across workers and replicas"),
+    "FAULTPATH_PROXIES": ("0", "how many proxies (load balancer, ingress) stand in front and set X-Forwarded-For"),
     "FAULTPATH_LOG_LEVEL": ("info", "log level"),
     "PROMETHEUS_MULTIPROC_DIR": ("", "folder shared by gunicorn workers for metrics; set by `serve`"),
 }
@@ -48,6 +51,9 @@ class Settings:
     api_keys: tuple[str, ...] = field(default=())
     require_keys: str = "auto"
     cors_origins: tuple[str, ...] = field(default=())
+    rate_limit: str = ""
+    rate_limit_storage: str = "memory://"
+    proxies: int = 0
 
     @classmethod
     def from_env(cls) -> Settings:
@@ -59,6 +65,9 @@ class Settings:
             api_keys=_split(env("FAULTPATH_API_KEYS")),
             require_keys=env("FAULTPATH_REQUIRE_KEYS").lower(),
             cors_origins=_split(env("FAULTPATH_CORS_ORIGINS")),
+            rate_limit=env("FAULTPATH_RATE_LIMIT"),
+            rate_limit_storage=env("FAULTPATH_RATE_LIMIT_STORAGE"),
+            proxies=int(env("FAULTPATH_PROXIES")),
         )
 
     @property

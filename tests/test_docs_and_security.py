@@ -79,3 +79,29 @@ def test_request_id_is_echoed_or_made(client):
     assert r.headers["X-Request-ID"] == "job-42.a"
     made = client.post("/v1/fault-current", json=EXAMPLE, headers={"X-Request-ID": "bad id with spaces"}).headers["X-Request-ID"]
     assert re.fullmatch(r"[0-9a-f]{32}", made)
+
+
+def test_rate_limit_per_key_gives_429_with_retry_after():
+    client = create_app({"SETTINGS": Settings(rate_limit="3/minute")}).test_client()
+    statuses = [client.post("/v1/fault-current", json=EXAMPLE).status_code for _ in range(4)]
+    assert statuses == [200, 200, 200, 429]
+    r = client.post("/v1/fault-current", json=EXAMPLE)
+    assert r.mimetype == "application/problem+json" and int(r.headers["Retry-After"]) > 0
+    assert "3 per 1 minute" in r.get_json()["detail"]
+    # another key has its own allowance; probes are never limited
+    assert client.post("/v1/fault-current", json=EXAMPLE, headers={"X-API-Key": "other"}).status_code == 200
+    assert client.get("/healthz").status_code == 200
+
+
+def test_only_json_svg_and_the_two_pages_are_served(app):
+    html_routes = {"/docs", "/example/quote-form/", "/example/quote-form/<name>"}
+    for rule in app.url_map.iter_rules():
+        if rule.endpoint == "static":
+            continue
+        if rule.rule in html_routes or rule.rule.startswith("/docs/assets"):
+            continue
+        assert rule.rule.startswith(("/v1/", "/healthz", "/readyz", "/metrics", "/openapi.json", "/example/quote-form")), rule.rule
+
+
+def test_no_server_version_banner(client):
+    assert "Server" not in client.get("/healthz").headers or "/" not in client.get("/healthz").headers["Server"]

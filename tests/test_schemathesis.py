@@ -10,8 +10,10 @@ import os
 import schemathesis
 from hypothesis import HealthCheck, settings
 from schemathesis.checks import not_a_server_error
+from schemathesis.generation.modes import GenerationMode
 from schemathesis.specs.openapi.checks import (
-    content_type_conformance, response_headers_conformance, response_schema_conformance, status_code_conformance,
+    content_type_conformance, negative_data_rejection, response_headers_conformance, response_schema_conformance,
+    status_code_conformance,
 )
 
 from service.app import create_app
@@ -27,3 +29,30 @@ EXAMPLES = int(os.environ.get("FAULTPATH_SCHEMATHESIS_EXAMPLES", "25"))
 @settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=list(HealthCheck))
 def test_every_operation_conforms(case):
     case.call_and_validate(checks=CHECKS)
+
+
+# Invalid input (negative generation): never a server error, always a 4xx, answers as documented.
+# The API is stateless (pure computations, no resources to link), so there are no stateful links to follow.
+NEGATIVE = schemathesis.openapi.from_wsgi("/openapi.json", APP)
+NEGATIVE.config.generation.update(modes=[GenerationMode.NEGATIVE])
+NEGATIVE_CHECKS = [not_a_server_error, negative_data_rejection, status_code_conformance, content_type_conformance, response_schema_conformance]
+
+
+PER_ITEM = ("/v1/circuits/check-batch", "/v1/test-results/verify")
+
+
+@NEGATIVE.parametrize()
+@settings(max_examples=EXAMPLES, deadline=None, suppress_health_check=list(HealthCheck))
+def test_every_operation_rejects_invalid_input(case):
+    if case.path not in PER_ITEM:
+        case.call_and_validate(checks=NEGATIVE_CHECKS)
+        return
+    # By contract a batch answers a bad item with a problem in its place (200), so the whole-request
+    # rejection check does not apply; instead every item must come back, in order, as a result or a problem.
+    response = case.call_and_validate(checks=[c for c in NEGATIVE_CHECKS if c is not negative_data_rejection])
+    body = case.body if isinstance(case.body, dict) else {}
+    content_type = (response.headers.get("content-type") or [""])[0]
+    if response.status_code == 200 and content_type.startswith("application/json") and isinstance(body.get("circuits"), list):
+        results = response.json()["results"]
+        assert [r["index"] for r in results] == list(range(len(body["circuits"])))
+        assert all(("result" in r) != ("problem" in r) for r in results)

@@ -139,6 +139,8 @@ def handle_http_exception(error: HTTPException) -> flask.Response:
     detail = detail or error.description
     if isinstance(error, CoreInputError):
         detail = error.description
+    if status == 429:
+        detail = f"Too many requests: the limit is {error.description}. Retry after the seconds in Retry-After."
     return problem_response(status, detail, errors, headers)
 
 
