@@ -12,118 +12,27 @@ Ratios compare figures taken in this run on this machine; the machines here are 
 from __future__ import annotations
 
 import argparse
-import http.client
 import json
 import os
 import platform
-import re
 import shutil
-import signal
-import socket
 import statistics
 import subprocess
 import sys
-import tempfile
-import threading
-import time
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
+from bench.harness import PY, Nginx, Server, load, median_time, peak_rss_mb, post  # noqa: E402
 from bench.payload import SUPPLY, batch, circuits  # noqa: E402
 
-PY = sys.executable
-CONF = ROOT / "deploy" / "gunicorn.conf.py"
 ROWS: list[tuple[str, str, str, str, str]] = []
 
 
 def row(name: str, value: str, baseline: str = "", ratio: str = "", target: str = "") -> None:
     ROWS.append((name, value, baseline, ratio, target))
     print(f"  {name}: {value}" + (f" | {baseline}" if baseline else "") + (f" | {ratio}" if ratio else ""), flush=True)
-
-
-def free_port() -> int:
-    with socket.socket() as s:
-        s.bind(("127.0.0.1", 0))
-        return s.getsockname()[1]
-
-
-class Server:
-    """gunicorn on 127.0.0.1 with the project's config, started with a pidfile and stopped by pid."""
-
-    def __init__(self, app: str = "service.wsgi:app", workers: int = 2, env: dict | None = None):
-        self.port = free_port()
-        self.tmp = tempfile.mkdtemp(prefix="faultpath-bench-")
-        self.pidfile = os.path.join(self.tmp, "gunicorn.pid")
-        environ = dict(os.environ, FAULTPATH_PORT=str(self.port), FAULTPATH_WORKERS=str(workers),
-                       PROMETHEUS_MULTIPROC_DIR=os.path.join(self.tmp, "metrics"), FAULTPATH_LOG_LEVEL="warning",
-                       FAULTPATH_RATE_LIMIT="",
-                       PYTHONPATH=str(ROOT), **(env or {}))
-        self.proc = subprocess.Popen(
-            [PY, "-m", "gunicorn", "-c", str(CONF), "-p", self.pidfile, "--access-logfile", os.devnull, app],
-            cwd=ROOT, env=environ, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
-        )
-        self.wait_ready("/healthz" if "wsgi" in app else "/ping")
-
-    def wait_ready(self, path: str) -> None:
-        deadline = time.monotonic() + 30
-        while time.monotonic() < deadline:
-            try:
-                conn = http.client.HTTPConnection("127.0.0.1", self.port, timeout=1)
-                conn.request("GET", path)
-                if conn.getresponse().status == 200:
-                    return
-            except OSError:
-                time.sleep(0.1)
-        raise RuntimeError("server did not start")
-
-    def worker_pids(self) -> list[int]:
-        master = self.proc.pid
-        pids = []
-        for entry in os.listdir("/proc"):
-            if entry.isdigit():
-                try:
-                    stat = Path(f"/proc/{entry}/stat").read_text()
-                except OSError:
-                    continue
-                if int(stat.rsplit(")", 1)[1].split()[1]) == master:
-                    pids.append(int(entry))
-        return pids
-
-    def stop(self) -> None:
-        if self.proc.poll() is None:
-            self.proc.send_signal(signal.SIGTERM)
-            try:
-                self.proc.wait(timeout=30)
-            except subprocess.TimeoutExpired:
-                self.proc.kill()
-        shutil.rmtree(self.tmp, ignore_errors=True)
-
-
-def peak_rss_mb(pid: int) -> float:
-    for line in Path(f"/proc/{pid}/status").read_text().splitlines():
-        if line.startswith("VmHWM:"):
-            return int(line.split()[1]) / 1024
-    return float("nan")
-
-
-def post(port: int, path: str, body: bytes, accept: str = "application/json") -> tuple[int, bytes]:
-    conn = http.client.HTTPConnection("127.0.0.1", port, timeout=120)
-    conn.request("POST", path, body=body, headers={"Content-Type": "application/json", "Accept": accept})
-    response = conn.getresponse()
-    data = response.read()
-    conn.close()
-    return response.status, data
-
-
-def median_time(fn, runs: int = 5) -> float:
-    times = []
-    for _ in range(runs):
-        start = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - start)
-    return statistics.median(times)
 
 
 # ---------------------------------------------------------------- 1. engine
@@ -162,57 +71,6 @@ def bench_batch(server: Server) -> None:
 
 
 # ---------------------------------------------------------------- 3. single check under load
-
-
-def wrk_run(port: int, path: str, body: bytes, seconds: int, connections: int) -> tuple[float, float, float]:
-    script = tempfile.NamedTemporaryFile("w", suffix=".lua", delete=False)
-    script.write('wrk.method = "POST"\nwrk.headers["Content-Type"] = "application/json"\nwrk.body = ' + json.dumps(body.decode()) + "\n")
-    script.close()
-    out = subprocess.run(["wrk", "-t2", f"-c{connections}", f"-d{seconds}s", "--latency", "-s", script.name,
-                          f"http://127.0.0.1:{port}{path}"], capture_output=True, text=True, timeout=seconds + 30).stdout
-    os.unlink(script.name)
-    rps = float(re.search(r"Requests/sec:\s+([\d.]+)", out).group(1))
-
-    def pct(p: str) -> float:
-        m = re.search(rf"^\s+{p}%\s+([\d.]+)(us|ms|s)\s*$", out, re.M)
-        value, unit = float(m.group(1)), m.group(2)
-        return value * {"us": 0.001, "ms": 1.0, "s": 1000.0}[unit]
-
-    errors = re.search(r"Non-2xx or 3xx responses: (\d+)", out)
-    if errors:
-        raise RuntimeError(f"{errors.group(1)} non-2xx answers under load")
-    return rps, pct("50"), pct("99")
-
-
-def python_load(port: int, path: str, body: bytes, seconds: int, connections: int) -> tuple[float, float, float]:
-    latencies: list[float] = []
-    lock = threading.Lock()
-    stop_at = time.monotonic() + seconds
-
-    def worker():
-        mine = []
-        while time.monotonic() < stop_at:
-            start = time.perf_counter()
-            status, _ = post(port, path, body)
-            if status != 200:
-                raise RuntimeError(f"answer {status} under load")
-            mine.append((time.perf_counter() - start) * 1000)
-        with lock:
-            latencies.extend(mine)
-
-    threads = [threading.Thread(target=worker) for _ in range(connections)]
-    for t in threads:
-        t.start()
-    for t in threads:
-        t.join()
-    latencies.sort()
-    return len(latencies) / seconds, latencies[len(latencies) // 2], latencies[int(len(latencies) * 0.99)]
-
-
-def load(port: int, path: str, body: bytes, seconds: int, connections: int = 16):
-    if shutil.which("wrk"):
-        return wrk_run(port, path, body, seconds, connections)
-    return python_load(port, path, body, seconds, min(connections, 8))
 
 
 def bench_single(server: Server, bare: Server, seconds: int) -> None:
@@ -261,51 +119,6 @@ def bench_growth() -> None:
 
 
 # ---------------------------------------------------------------- scale-out
-
-
-NGINX_CONF = """
-worker_processes 1;
-pid {tmp}/nginx.pid;
-error_log {tmp}/error.log warn;
-events {{ worker_connections 1024; }}
-http {{
-  access_log off;
-  client_body_temp_path {tmp}/body;
-  proxy_temp_path {tmp}/proxy;
-  fastcgi_temp_path {tmp}/fastcgi;
-  uwsgi_temp_path {tmp}/uwsgi;
-  scgi_temp_path {tmp}/scgi;
-  client_max_body_size 16m;
-  upstream faultpath {{ {servers} }}
-  server {{
-    listen 127.0.0.1:{port};
-    location / {{
-      proxy_pass http://faultpath;
-      proxy_next_upstream error timeout http_502 http_503 non_idempotent;
-      proxy_next_upstream_tries 2;
-      proxy_connect_timeout 1s;
-    }}
-  }}
-}}
-"""
-
-
-class Nginx:
-    def __init__(self, backend_ports: list[int]):
-        self.tmp = tempfile.mkdtemp(prefix="faultpath-nginx-")
-        self.port = free_port()
-        servers = " ".join(f"server 127.0.0.1:{p} max_fails=1 fail_timeout=2s;" for p in backend_ports)
-        conf = os.path.join(self.tmp, "nginx.conf")
-        Path(conf).write_text(NGINX_CONF.format(tmp=self.tmp, servers=servers, port=self.port))
-        subprocess.run(["nginx", "-c", conf, "-p", self.tmp], check=True, capture_output=True)
-        time.sleep(0.3)
-
-    def stop(self) -> None:
-        pid_file = Path(self.tmp) / "nginx.pid"
-        if pid_file.exists():
-            os.kill(int(pid_file.read_text()), signal.SIGTERM)
-            time.sleep(0.3)
-        shutil.rmtree(self.tmp, ignore_errors=True)
 
 
 def bench_scale_out(seconds: int) -> None:

@@ -12,6 +12,7 @@ SETTINGS = {
     "FAULTPATH_PORT": ("8000", "port to listen on"),
     "FAULTPATH_WORKERS": ("", "gunicorn worker processes; empty: 2 x CPU count + 1, at most 8"),
     "FAULTPATH_TIMEOUT_S": ("60", "seconds a worker may spend on one request"),
+    "FAULTPATH_MAX_REQUESTS": ("20000", "a worker is replaced after this many requests (with jitter); 0: never"),
     "FAULTPATH_MAX_BODY_BYTES": ("16777216", "largest request body (16 MiB); larger gets 413"),
     "FAULTPATH_BATCH_LIMIT": ("10000", "most circuits in one check-batch request"),
     "FAULTPATH_API_KEYS": ("", "comma-separated API keys accepted in the X-API-Key header"),
