@@ -69,6 +69,15 @@ def test_grouping_insulation_and_device_factors():
     assert cap.device_factor("BS 3036")[0] == 0.725 and cap.device_factor("BS 88-2")[0] == 1.0
 
 
+def test_factor_cautions_name_only_unsourced_values():
+    device = DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
+    demand = Demand(length_m=10, design_current_a=10, load="fixed-equipment")
+    sourced = size_circuit(STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=3), device)
+    assert not any("correction factor" in c for c in sourced.cautions)
+    recalled = size_circuit(STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=12), device)
+    assert any("correction factor" in c for c in recalled.cautions)  # Table 4C1, 12 circuits: from memory
+
+
 def test_voltage_drop_values():
     # BS 7671 Table 4E4B 2.5 mm2 single-phase 19 mV/A/m (A); computed drop for single-core: 2 x 7.41 x 1.28 = 18.97
     assert cap.voltage_drop_mv_per_a_m("multicore-armoured-90c", 2.5, 1)[0] == 19

@@ -72,7 +72,8 @@ def ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
     if ambient_c > 30:
         return math.sqrt((theta_p - ambient_c) / (theta_p - 30)), "BS 7671 Table 4B1 (formula above 30 degC)"
     if ambient_c <= 25:
-        return float(table["below_reference"][insulation]["25"]), "BS 7671 Table 4B1, 25 degC value (used at and below 25 degC)"
+        confidence = "S" if insulation in ("thermoplastic-70", "thermosetting-90") else "M, from memory"
+        return float(table["below_reference"][insulation]["25"]), f"BS 7671 Table 4B1, 25 degC value, used at and below 25 degC (confidence {confidence})"
     return 1.0, "BS 7671 Table 4B1: 1.00 taken between 25 and 30 degC (conservative)"
 
 
@@ -103,12 +104,14 @@ def grouping_factor(arrangement: str, circuits: int) -> tuple[float, str]:
     if arrangement not in GROUPINGS:
         raise InvalidInput("grouping", f"grouping is one of {list(GROUPINGS)}, not {arrangement!r}")
     row = table[arrangement]
+    sourced = {"bunched": set(range(1, 10)) | {20}, "single-layer-touching": set(range(1, 10))}.get(arrangement, set())
     if circuits <= len(row["factors"]):
         value = row["factors"][circuits - 1]
     else:
         more = sorted((int(k), v) for k, v in row["more"].items())
         value = next((v for k, v in more if k >= circuits), more[-1][1] if more else row["factors"][-1])
-    return float(value), f"BS 7671 Table 4C1, {arrangement}, {circuits} circuits ({row['confidence']})"
+    confidence = "A/S" if circuits in sourced else "M, from memory"
+    return float(value), f"BS 7671 Table 4C1, {arrangement}, {circuits} circuits (confidence {confidence})"
 
 
 def thermal_insulation_factor(length_mm: float) -> tuple[float, str]:
@@ -118,6 +121,7 @@ def thermal_insulation_factor(length_mm: float) -> tuple[float, str]:
     table = core_table("correction_factors")["thermal_insulation"]
     for length, factor, conf in zip(table["lengths_mm"], table["factors"], table["confidence"]):
         if length_mm <= length:
+            conf = "M, from memory" if conf == "M" else conf
             return float(factor), f"BS 7671 Table 52.2 at {length} mm (confidence {conf})"
     return float(table["factors"][-1]), "BS 7671 Table 52.2, 500 mm and more (confidence A)"
 

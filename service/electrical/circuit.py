@@ -15,7 +15,6 @@ Checks and the clauses they rest on (BS 7671:2018):
 
 from __future__ import annotations
 
-import math
 from collections.abc import Sequence
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -207,17 +206,6 @@ def overall_verdict(verdicts: Sequence[str]) -> str:
     if NOT_VERIFIED in verdicts:
         return NOT_VERIFIED
     return PASS
-
-
-def _num(value: Any) -> float | None:
-    v = float(value)
-    return v if math.isfinite(v) else None
-
-
-def _margin(value: float, limit: float) -> float | None:
-    if not (math.isfinite(value) and math.isfinite(limit)) or limit == 0:
-        return None
-    return (limit - value) / limit * 100.0
 
 
 def _opt(values: Sequence[Any]) -> np.ndarray:

@@ -65,11 +65,6 @@ def resistance_mohm_per_m(material: Any, csa_mm2: Any, conductor_class: Any = 2,
     return map_column(keys, n, lookup)
 
 
-def standard_sizes_mm2(material: str = "copper", conductor_class: int = 2) -> list[float]:
-    """The sizes IEC 60228 lists for a material and class, smallest first."""
-    return sorted(k[2] for k in _RESISTANCE if k[0] == material and k[1] == conductor_class)
-
-
 def temperature_multiplier(temperature_c: Any) -> np.ndarray:
     """Resistance at ``temperature_c`` relative to 20 degC: 1 + alpha (theta - 20), alpha 0.004 /degC.
 

@@ -211,7 +211,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: Dev
             }
             if "M" in size.confidence:
                 cautions.append(f"The capacity of {size.csa_mm2:g} mm2 by method {inst.installation_method} is from memory (unverified): confirm it in BS 7671 before relying on it.")
-            if any("from memory" in f["basis"] or "(M)" in f["basis"] or "M)" in f["basis"] for f in factors.values()):
+            if any("from memory" in f["basis"] for f in factors.values()):
                 cautions.append("A correction factor used is from memory (unverified): see the factors' bases.")
             break
         tried.append(SizeTried(size.csa_mm2, cpc, FAIL if name else PASS, name, value, limit, unit))
