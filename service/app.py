@@ -6,15 +6,19 @@ unless given in ``config``.
 
 from __future__ import annotations
 
+import copy
 import hashlib
 import hmac
 import logging
 import re
 import uuid
+from http import HTTPStatus
 from typing import Any
 
 import flask
 import flask_smorest
+from flask_smorest.utils import prepare_response
+from werkzeug.exceptions import HTTPException
 from werkzeug.routing import BaseConverter
 
 from .api import circuits, device_questions, devices, docs, errors, fault_current, health, metrics, protective_conductor, sizing, test_results, web
@@ -48,10 +52,7 @@ class Api(flask_smorest.Api):
         return errors.handle_http_exception(error)
 
     def _register_responses(self):
-        from flask_smorest.utils import prepare_response
-        import http
-
-        for status in http.HTTPStatus:
+        for status in HTTPStatus:
             response = {"description": status.phrase}
             if not (100 <= status < 200) and status not in (204, 304):
                 response["schema"] = self.ERROR_SCHEMA
@@ -67,10 +68,8 @@ class Api(flask_smorest.Api):
 
 def spec_dict(api: Api) -> dict[str, Any]:
     """The OpenAPI document, with the problem+json answers every operation can give."""
-    spec = api.spec.to_dict()
+    spec = copy.deepcopy(api.spec.to_dict())  # apispec hands out its own path objects: never edit them
     problem = {"content": {errors.PROBLEM_TYPE: {"schema": {"$ref": "#/components/schemas/Problem"}}}}
-    from http import HTTPStatus
-
     for path, operations in spec["paths"].items():
         for method, operation in operations.items():
             if method not in ("get", "post"):
@@ -170,8 +169,6 @@ def _install_rate_limit(app: flask.Flask, settings: Settings) -> None:
 
 
 def _unexpected(exc: Exception):
-    from werkzeug.exceptions import HTTPException
-
     if isinstance(exc, HTTPException):
         return errors.handle_http_exception(exc)
     return errors.internal_error(exc)
