@@ -24,6 +24,7 @@ from marshmallow import ValidationError
 from .api.errors import field_pointer, flatten, json_bytes
 from .api.fastload import Refused, fast_load
 from .api.schemas import CircuitSchema, SupplySchema
+from .electrical.arrays import paused_gc
 from .electrical.circuit import CircuitFailure, check_circuits
 
 # column -> (where it goes, field, kind); documented in the README
@@ -118,6 +119,12 @@ def read_csv(stream: TextIO) -> list[Row]:
     if unknown:
         raise SystemExit(f"unknown CSV columns {unknown}; the columns are {list(CSV_COLUMNS)}")
     rows: list[Row] = []
+    with paused_gc():
+        _read_rows(reader, rows)
+    return rows
+
+
+def _read_rows(reader: csv.DictReader, rows: list[Row]) -> None:
     for index, record in enumerate(reader):
         parts: dict[str, dict[str, Any]] = {where: {} for where in _POINTER_OF}
         for column, value in record.items():
@@ -135,7 +142,6 @@ def read_csv(stream: TextIO) -> list[Row]:
             row.problem = [{"pointer": _as_column(e["pointer"], index), "message": e["message"]} for e in row.problem]
         row.base = f"/{index}"
         rows.append(row)
-    return rows
 
 
 def _validated(index: int, supply_raw: Any, circuit_raw: Any, base: str, supply_pointer: str, circuit_pointer: str,
@@ -156,8 +162,9 @@ def read_json(stream: TextIO) -> list[Row]:
     if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
         raise SystemExit('a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes')
     supply = _load(SUPPLY_SCHEMA, body["supply"], "/supply")  # one supply for the whole schedule
-    return [_validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
-            for i, item in enumerate(body["circuits"])]
+    with paused_gc():
+        return [_validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
+                for i, item in enumerate(body["circuits"])]
 
 
 class Progress:
@@ -182,22 +189,28 @@ class Progress:
 def run_chunks(rows: list[Row], progress: Progress):
     """The records of the rows, in order, a chunk at a time (so a large file never sits whole in memory)."""
     for start in range(0, len(rows), CHUNK):
-        chunk = rows[start:start + CHUNK]
-        ready = [row for row in chunk if row.problem is None]
-        outcomes = iter(check_circuits([r.supply for r in ready], [r.circuit for r in ready]) if ready else [])
-        records = []
-        for row in chunk:
-            if row.problem is not None:
-                records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.problem}})
-                continue
-            outcome = next(outcomes)
-            if isinstance(outcome, CircuitFailure):
-                error = {"pointer": field_pointer(row.base, outcome.field), "message": outcome.message}
-                records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": [error]}})
-            else:
-                records.append({"index": row.index, "id": row.id, "result": outcome})
-        progress.update(start + len(chunk))
+        with paused_gc():
+            records = _chunk(rows[start:start + CHUNK])
+        progress.update(start + len(records))
         yield records
+
+
+def _chunk(chunk: list[Row]) -> list[dict[str, Any]]:
+    """One record per row of a chunk, in order: a result, or the problem that stopped it."""
+    ready = [row for row in chunk if row.problem is None]
+    outcomes = iter(check_circuits([r.supply for r in ready], [r.circuit for r in ready]) if ready else [])
+    records = []
+    for row in chunk:
+        if row.problem is not None:
+            records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.problem}})
+            continue
+        outcome = next(outcomes)
+        if isinstance(outcome, CircuitFailure):
+            error = {"pointer": field_pointer(row.base, outcome.field), "message": outcome.message}
+            records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": [error]}})
+        else:
+            records.append({"index": row.index, "id": row.id, "result": outcome})
+    return records
 
 
 def run(rows: list[Row], progress: Progress) -> list[dict[str, Any]]:

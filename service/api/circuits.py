@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import flask
 
+from ..electrical.arrays import paused_gc
 from ..electrical.circuit import CircuitFailure, check_circuits
 from ..electrical.devices.catalogue import resolve
 from ..picture import characteristic_svg
@@ -78,9 +79,10 @@ def check_batch(body):
         return flask.Response(flask.stream_with_context(_ndjson(body["supply"], items)), mimetype=NDJSON)
     results = []
     counts = Counts()
-    for start in range(0, len(items), CHUNK):
-        results.extend(_checked(body["supply"], items[start:start + CHUNK], start, counts))
-    return json_response({"results": results, "summary": counts.summary(len(items))})
+    with paused_gc():
+        for start in range(0, len(items), CHUNK):
+            results.extend(_checked(body["supply"], items[start:start + CHUNK], start, counts))
+        return json_response({"results": results, "summary": counts.summary(len(items))})
 
 
 NDJSON = "application/x-ndjson"

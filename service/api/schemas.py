@@ -15,6 +15,7 @@ from ..electrical.circuit import CHECKS, VERDICTS, Circuit, Conductors, DeviceSp
 from ..electrical.devices import breakers, fuses, residual
 from ..electrical.devices.characteristic import BOUNDS
 from .errors import ProblemSchema
+from ..electrical.arrays import paused_gc
 from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
 
@@ -34,12 +35,13 @@ class FastSchema(Schema):
     itself only when the fast path refuses: the same result, and marshmallow's messages on errors."""
 
     def load(self, data, *, many=None, partial=None, unknown=None):
-        if not many and not partial and unknown is None:
-            try:
-                return fast_load(self, data)
-            except Refused:
-                pass
-        return super().load(data, many=many, partial=partial, unknown=unknown)
+        with paused_gc():  # a batch's thousands of items would wake the collector again and again
+            if not many and not partial and unknown is None:
+                try:
+                    return fast_load(self, data)
+                except Refused:
+                    pass
+            return super().load(data, many=many, partial=partial, unknown=unknown)
 
 
 class CurvePointSchema(Schema):
