@@ -93,6 +93,20 @@ def bench_start() -> None:
     row("worker start: import and create_app", f"{statistics.median(times) * 1000:,.0f} ms", "", "", "<= 1 s")
 
 
+# ---------------------------------------------------------------- the picture
+
+
+def bench_picture() -> None:
+    from service.app import create_app
+    from service.settings import Settings
+
+    client = create_app({"SETTINGS": Settings()}).test_client()
+    body = json.loads((ROOT / "schemas" / "examples" / "circuits-check.json").read_text())
+    client.post("/v1/circuits/picture", json=body)  # the worker's first picture imports matplotlib
+    seconds = median_time(lambda: client.post("/v1/circuits/picture", json=body), 5)
+    row("time-current picture of a checked circuit (SVG, warm worker)", f"{seconds * 1000:,.0f} ms", "", "", "<= 300 ms")
+
+
 # ---------------------------------------------------------------- 5. growth
 
 
@@ -154,6 +168,7 @@ def main() -> int:
           f"Python {platform.python_version()}", flush=True)
     bench_engine()
     bench_start()
+    bench_picture()
     server = Server(workers=2)
     bare = Server(app="bench.bare_app:app", workers=2)
     try:

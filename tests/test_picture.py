@@ -1,7 +1,6 @@
 """The time-current picture: its elements exist, and the same request gives the same bytes."""
 
 import json
-import time
 import xml.etree.ElementTree as ET
 from pathlib import Path
 
@@ -38,14 +37,6 @@ def test_circuit_picture_marks_the_operating_point_and_is_deterministic(client):
     assert {"fault-current", "permitted-time", "operating-point", "operating-point-label"} <= found
     text = first.get_data(as_text=True)
     assert "BS EN 60898 B 32 A: pass" in text and "431 A, at most 0.1 s" in text
-
-
-def test_picture_renders_quickly_once_warm(client):
-    client.post("/v1/circuits/picture", json=EXAMPLE)
-    start = time.perf_counter()
-    client.post("/v1/circuits/picture", json=EXAMPLE)
-    # a figure for the closing note, not a timed assertion: bench/run.py measures speed
-    print(f"picture rendered in {(time.perf_counter() - start) * 1000:.0f} ms")
 
 
 def test_picture_refuses_bad_input_as_problem_json(client):
