@@ -65,6 +65,10 @@ SUPPLY_SCHEMA = SupplySchema()
 CIRCUIT_SCHEMA = CircuitSchema()
 
 
+class ScheduleError(ValueError):
+    """A file that is not a schedule at all (exit status 2)."""
+
+
 class Row:
     """One circuit read from the file: its supply and circuit, or the problem that stopped it."""
 
@@ -117,7 +121,7 @@ def read_csv(stream: TextIO) -> list[Row]:
     reader = csv.DictReader(stream)
     unknown = [c for c in (reader.fieldnames or []) if c not in CSV_COLUMNS]
     if unknown:
-        raise SystemExit(f"unknown CSV columns {unknown}; the columns are {list(CSV_COLUMNS)}")
+        raise ScheduleError(f"unknown CSV columns {unknown}; the columns are {list(CSV_COLUMNS)}")
     rows: list[Row] = []
     with paused_gc():
         _read_rows(reader, rows)
@@ -160,7 +164,7 @@ def read_json(stream: TextIO) -> list[Row]:
 
     body = strict_loads(stream.read())
     if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
-        raise SystemExit('a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes')
+        raise ScheduleError('a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes')
     supply = _load(SUPPLY_SCHEMA, body["supply"], "/supply")  # one supply for the whole schedule
     with paused_gc():
         return [_validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
@@ -213,10 +217,6 @@ def _chunk(chunk: list[Row]) -> list[dict[str, Any]]:
     return records
 
 
-def run(rows: list[Row], progress: Progress) -> list[dict[str, Any]]:
-    return [record for chunk in run_chunks(rows, progress) for record in chunk]
-
-
 class Tally:
     def __init__(self):
         self.counts = {"circuits": 0, "pass": 0, "fail": 0, "not-verified": 0, "invalid": 0}
@@ -225,12 +225,6 @@ class Tally:
         for r in records:
             self.counts["circuits"] += 1
             self.counts[r["result"].verdict if "result" in r else "invalid"] += 1
-
-
-def summary(records: list[dict[str, Any]]) -> dict[str, int]:
-    tally = Tally()
-    tally.add(records)
-    return tally.counts
 
 
 def csv_writer(stream: TextIO) -> csv.DictWriter:
@@ -263,7 +257,7 @@ def main(args: argparse.Namespace) -> int:
     try:
         with path.open(encoding="utf-8", newline="") as stream:
             rows = read_csv(stream) if kind == "csv" else read_json(stream)
-    except (OSError, UnicodeDecodeError, json.JSONDecodeError) as err:
+    except (OSError, UnicodeDecodeError, json.JSONDecodeError, ScheduleError) as err:
         print(f"cannot read {path}: {err}", file=sys.stderr)
         return 2
     out_format = args.format or ("csv" if args.output and args.output.lower().endswith(".csv") else "json")

@@ -48,10 +48,16 @@ def test_operating_temperatures():
 
 
 def test_ring_loop_value_is_a_quarter_of_the_end_to_end_sum():
-    # common practice: a ring's R1+R2 at the mid-point is (r1 + r2) / 4
-    r1 = cond.conductor_resistance_ohm(7.41, 60, 20)
-    r2 = cond.conductor_resistance_ohm(12.1, 60, 20)
-    assert cond.r1_plus_r2_ohm(r1, r2, ring=True)[0] == pytest.approx((0.4446 + 0.726) / 4)
+    # common practice: a ring's R1+R2 at the mid-point is (r1 + r2) / 4, r1 and r2 end to end;
+    # 2.5/1.5 mm2 round a 60 m ring at 70 degC: (7.41 + 12.1) x 1.20 x 60 / 1000 / 4 = 0.35118 ohm
+    from service.electrical.circuit import Conductors, conductor_columns
+
+    cols = conductor_columns([Conductors("copper", "thermoplastic-70", 2.5, 1.5, 60, ring=True),
+                              Conductors("copper", "thermoplastic-70", 2.5, 1.5, 60)])
+    loop = cols["r1"] + cols["r2"]
+    assert loop[0] == pytest.approx(19.51 * 1.2 * 60 / 1000 / 4)
+    assert loop[1] == pytest.approx(4 * loop[0])
+    assert cols["r2"][0] == pytest.approx(12.1 * 1.2 * 60 / 1000 / 4)
 
 
 def test_parallel_cables_divide_the_resistance():
@@ -60,6 +66,8 @@ def test_parallel_cables_divide_the_resistance():
     assert two[0] == pytest.approx(one[0] / 2)
     with pytest.raises(InvalidInput):
         cond.conductor_resistance_ohm(0.387, 50, 90, 1.5)
+    with pytest.raises(InvalidInput):
+        cond.check_parallel_cables(0)
 
 
 def test_unknown_size_class_or_material_is_a_typed_error():

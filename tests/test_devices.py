@@ -46,6 +46,7 @@ def test_breaker_envelope_from_bs_en_60898_limits():
 
 
 def test_any_breaker_rating_within_the_standard_range():
+    # BS EN 60898-1 Table 7: type C trips within 0.1 s at 10 In, so Ia = 130 A for 13 A at 0.4 s
     assert resolve({"standard": "BS EN 60898", "type": "C", "rating_a": 13}).current_for(0.4)[0][0] == 130
     with pytest.raises(UnknownDevice):
         resolve({"standard": "BS EN 60898", "type": "C", "rating_a": 200})
@@ -67,7 +68,7 @@ def test_bs3036_below_0_4_s_is_not_shown():
     dev = resolve({"standard": "BS 3036", "rating_a": 30})
     ia, bound = dev.current_for([0.1, 0.2, 0.4])
     assert np.isnan(ia[0]) and np.isnan(ia[1]) and bound[0] == "beyond-data"
-    assert ia[2] == 211.0
+    assert ia[2] == 211.0  # BS 7671:2008+A1 Table 41.2 via shared/reference/fuse-operating-currents.csv: 230 V / 1.09 ohm
 
 
 def test_gg_estimates_are_labelled():
@@ -121,7 +122,7 @@ def test_every_estimate_lies_on_the_safe_side_of_the_published_points(dev):
         if len(published) == 2:
             slope = math.log(published[0.4] / published[5.0]) / math.log(0.4 / 5.0)
             line = published[0.4] * (time_s / 0.4) ** slope
-            assert ia[0] >= line * (1 - 1e-9) or bound[0] == "interpolated"
+            assert ia[0] >= line * (1 - 1e-9)
         if bound[0] == "estimated":
             assert time_s < 5.0
 

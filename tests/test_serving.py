@@ -74,4 +74,5 @@ def test_graceful_shutdown(server):
     assert proc.wait(timeout=40) == 0
     output = proc.stdout.read().decode(errors="replace")
     lines = [json.loads(l) for l in output.splitlines() if l.startswith("{")]
+    assert lines, "the access log wrote no JSON line (the fixture's /readyz request should be there)"
     assert all({"time", "request_id", "method", "path", "status", "duration_ms"} <= set(l) for l in lines)

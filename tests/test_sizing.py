@@ -14,7 +14,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from service.electrical import capacity as cap
-from service.electrical.circuit import Circuit, Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.circuit import Circuit, Conductors, DeviceSpec, Rcd, Supply, check_circuit
 from service.electrical.sizing import Demand, Installation, _ruling, max_length, size_circuit
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -139,7 +139,18 @@ def test_the_size_passes_and_the_next_smaller_fails(ib, length, device, cable, z
     assert all(c.verdict == "pass" for c in r.selected["check"].checks if c.check != "breaking-capacity")
     assert r.selected["capacity"].iz_a >= r.device["rating_a"]
     if r.tried:
-        assert r.tried[-1].ruled_out_by is not None and r.tried[-1].line_csa_mm2 < r.selected["line_csa_mm2"]
+        # the next smaller size, checked again on its own: one of capacity, voltage drop or a fault check fails
+        smaller = r.tried[-1]
+        assert smaller.line_csa_mm2 < r.selected["line_csa_mm2"]
+        it = {c.csa_mm2: c.it_a for c in cap.capacities(*cable, 1)}[smaller.line_csa_mm2]
+        iz = it * r.selected["capacity"].iz_a / r.selected["capacity"].it_a
+        drop = cap.voltage_drop_mv_per_a_m(cable[0], smaller.line_csa_mm2, 1)[0] * ib * length / 1000 / 230 * 100
+        again = check_circuit(supply, Circuit(
+            device=dataclasses.replace(device, rating_a=r.device["rating_a"]),
+            conductors=Conductors("copper", cap.cable_table(cable[0])["insulation"], smaller.line_csa_mm2, smaller.cpc_csa_mm2, length),
+            role="final", load="fixed-equipment"))
+        fault_fails = any(c.verdict != "pass" for c in again.checks if c.check != "breaking-capacity")
+        assert r.device["rating_a"] > iz or drop > 5 or fault_fails
 
 
 @given(st.sampled_from([2.5, 4, 6, 10, 16]), st.sampled_from(DEVICES), st.floats(0.05, 0.8), st.sampled_from([16, 20, 32]))

@@ -2,11 +2,10 @@
 
 from __future__ import annotations
 
-import math
-
 from marshmallow import Schema, fields, validate
 
 from ..electrical import conductors as cond
+from ..electrical.arrays import finite_or_none as _num
 from ..electrical.devices import residual
 from ..electrical.devices.base import Device
 from ..electrical.devices.catalogue import resolve
@@ -20,11 +19,6 @@ from .schemas import FastSchema, DeviceSchema, DeviceSummarySchema, nullable_num
 
 disconnection_blp = Blueprint("disconnection_time", __name__, url_prefix="/v1/disconnection-time", description="Disconnection time of a device at a current")
 max_zs_blp = Blueprint("max_zs", __name__, url_prefix="/v1/max-zs", description="Maximum Zs for a device and a required time")
-
-
-def _num(value) -> float | None:
-    value = float(value)
-    return value if math.isfinite(value) else None
 
 
 def device_of(spec) -> Device:

@@ -4,13 +4,15 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
 from marshmallow import Schema, ValidationError, fields, validate, validates_schema
 
 from ..electrical import conductors as cond
 from ..electrical import protective
 from ..electrical.errors import ElectricalError
 from .base import Blueprint
-from .device_questions import _num, device_of
+from ..electrical.arrays import finite_or_none as _num
+from .device_questions import device_of
 from .errors import CoreInputError, from_core
 from .fields import Number, choice
 from .schemas import FastSchema, DeviceSchema, nullable_number
@@ -93,12 +95,7 @@ def protective_conductor(body):
             selection = protective.selection_csa_mm2(body["line_csa_mm2"], k_line, case["k"])[0]
     verdict = None
     if "cpc_csa_mm2" in body:
-        if math.isfinite(s_min):
-            verdict = "pass" if body["cpc_csa_mm2"] >= s_min * (1 - 1e-9) else "fail"
-        else:
-            verdict = "not-verified"
-        if verdict != "pass" and selection is not None and body["cpc_csa_mm2"] >= selection:
-            verdict = "pass"
+        verdict = str(protective.cpc_verdicts(body["cpc_csa_mm2"], s_min, np.nan if selection is None else selection)[0][0])
     return {
         "k": case["k"], "k_formula": case["k_formula"], "k_tabulated": case["k_tabulated"], "k_basis": case["table"],
         "initial_c": case["initial_c"], "final_c": case["final_c"],

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import gc
+import math
 from collections.abc import Callable, Hashable, Iterator, Mapping
 from contextlib import contextmanager
 from typing import Any
@@ -13,6 +14,12 @@ import numpy as np
 def as_float(values: Any) -> np.ndarray:
     """A 1-D float array (a scalar becomes an array of one)."""
     return np.atleast_1d(np.asarray(values, dtype=float))
+
+
+def finite_or_none(value: Any) -> float | None:
+    """A float for JSON: None where it is NaN or infinite (JSON has neither)."""
+    number = float(value)
+    return number if math.isfinite(number) else None
 
 
 def as_objects(values: Any, n: int) -> np.ndarray:

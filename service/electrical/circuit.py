@@ -30,6 +30,7 @@ from .devices.base import Device
 from .devices.catalogue import resolve
 from .devices.characteristic import AT_MOST, BEYOND_DATA, ESTIMATED
 from .errors import ElectricalError, InvalidInput
+from .limits import max_zs_ohm
 
 PASS, FAIL, NOT_VERIFIED = "pass", "fail", "not-verified"
 VERDICTS = (PASS, FAIL, NOT_VERIFIED)
@@ -349,9 +350,8 @@ def _device_problem(spec: DeviceSpec) -> ElectricalError | None:
 
 
 def _conductor_problem(c: Conductors) -> ElectricalError | None:
-    if not (c.parallel_cables >= 1 and float(c.parallel_cables).is_integer()):
-        return InvalidInput("conductors.parallel_cables", "the number of cables in parallel is a whole number of at least 1")
     try:
+        cond.check_parallel_cables(c.parallel_cables)
         conductor_constants(c.material, c.insulation, c.line_csa_mm2, c.cpc_csa_mm2, c.cpc_arrangement, c.conductor_class,
                             c.cpc_material, c.cpc_resistance_mohm_per_m, c.bare_condition)
     except ElectricalError as err:
@@ -433,14 +433,14 @@ def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[C
     region = np.empty(n, dtype=object)
     ia = np.empty(n)
     b_ia = np.empty(n, dtype=object)
+    max_zs_oc = np.empty(n)
     for key, idx in groups([c.device.curve_key for c in circuits]).items():
         dev = resolve(circuits[idx[0]].device.as_mapping())
         t_oc[idx], b_oc[idx] = dev.time_at(i_f[idx])
         region[idx] = dev.region_at(i_f[idx])
-        ia[idx], b_ia[idx] = dev.current_for(np.nan_to_num(t_req_oc[idx], nan=np.inf))
+        ia[idx], b_ia[idx], max_zs_oc[idx] = max_zs_ohm(dev, np.nan_to_num(t_req_oc[idx], nan=np.inf), rows.u0[idx])
         for i in idx:
             devices[i] = dev
-    max_zs_oc = faults.c_min() * rows.u0 / ia
 
     # the RCD, where fitted
     has_rcd = np.array([c.device.rcd is not None for c in circuits], dtype=bool)
@@ -455,7 +455,6 @@ def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[C
     ra = np.where(tt, np.where(np.isnan(rows.electrode), zs, rows.electrode + np.nan_to_num(cc["r2"])), zs)
 
     has_cond = rows.has_cond
-    tt = rows.earthing == "TT"
 
     # disconnection time: the overcurrent device, else the RCD (411.3.2, 411.4.5, 411.5.3)
     v_oc = _time_verdicts(t_oc, b_oc, t_req_oc)
@@ -493,9 +492,8 @@ def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[C
     same = cc["cpc_material"] == cc["line_material"]
     selection = protective.selection_csa_mm2(cc["line_csa"], np.where(same, 1.0, cc["k_line"]), np.where(same, 1.0, cc["k"]))
     finite_s = np.isfinite(s_min)
-    adi_ok = finite_s & (csa >= s_min * (1 - 1e-9))
-    sel_ok = np.isfinite(selection) & (csa >= selection)
-    pc_verdict = np.where(~has_cond, NOT_VERIFIED, np.where(adi_ok | sel_ok, PASS, np.where(finite_s, FAIL, NOT_VERIFIED)))
+    cpc_verdict, adi_ok, sel_ok = protective.cpc_verdicts(csa, s_min, selection)
+    pc_verdict = np.where(~has_cond, NOT_VERIFIED, cpc_verdict)
     pc_basis = np.where(has_cond & ~adi_ok & sel_ok, BASES["selection"], BASES["adiabatic"])
     method_note = np.select([method == "conservative-0.1s", method == "let-through"], [NOTES["energy-0.1s"], NOTES["let-through"]], None)
     pc_note = np.select([~has_cond, adi_ok, sel_ok & finite_s, sel_ok, ~finite_s],
@@ -540,7 +538,6 @@ def _evaluate(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> list[C
     bc_note = np.where(from_default, None, np.where(np.isnan(icn), NOTES["no-breaking-capacity"], None)).astype(object)
     for i in np.flatnonzero(from_default):
         bc_note[i] = NOTES["breaking-capacity-default"].format(basis=devices[i].default_breaking_capacity_basis)
-    summaries: dict[int, dict[str, Any]] = {}
 
     numbers = _listed_many(
         r1r2=r1r2, zs=zs, i_f=i_f, i_nom=i_nom, pfc=pfc, t=t, limit=limit, ia=ia, mz_value=mz_value, mz_limit=mz_limit,

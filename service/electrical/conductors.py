@@ -100,27 +100,27 @@ def conductor_resistance_ohm(
     """Resistance of one conductor of a circuit at ``temperature_c``, ohm.
 
     R = r20 x (1 + 0.004 (theta - 20)) x L / 1000 / n for n cables in parallel. For a ring final
-    circuit ``length_m`` is the whole ring and the result is the end-to-end value r1 (or r2); the loop
-    value at the mid-point is (r1 + r2) / 4, see :func:`r1_plus_r2_ohm`.
+    circuit ``length_m`` is the whole ring and the result is the end-to-end value r1 (or r2); see
+    :func:`ring_factor` for the loop value.
     """
     r20 = as_float(r20_mohm_per_m)
     length = as_float(length_m)
     n = np.broadcast_to(as_float(parallel_cables), r20.shape)
-    if np.any(n < 1) or np.any(n != np.floor(n)):
-        raise InvalidInput("parallel_cables", "the number of cables in parallel is a whole number of at least 1")
+    check_parallel_cables(n)
     return r20 * temperature_multiplier(temperature_c) * length / 1000.0 / n
 
 
-def r1_plus_r2_ohm(r1_ohm: Any, r2_ohm: Any, ring: Any = False) -> np.ndarray:
-    """R1+R2 of a circuit, ohm: the sum, or (r1 + r2) / 4 for a ring final circuit.
-
-    The ring value is the resistance seen at the mid-point of the ring, where it is highest
-    (BS 7671 Guidance: ring final circuit, end-to-end resistances r1 and r2).
-    """
-    total = as_float(r1_ohm) + as_float(r2_ohm)
-    return total * ring_factor(ring, total.shape)
+def check_parallel_cables(count: Any) -> None:
+    """Cables in parallel are a whole number of at least 1 (raises InvalidInput naming parallel_cables)."""
+    n = as_float(count)
+    if np.any(n < 1) or np.any(n != np.floor(n)):
+        raise InvalidInput("parallel_cables", "the number of cables in parallel is a whole number of at least 1")
 
 
 def ring_factor(ring: Any, shape: tuple[int, ...]) -> np.ndarray:
-    """1/4 for ring final circuits, 1 otherwise: what each conductor contributes to the loop."""
+    """1/4 for ring final circuits, 1 otherwise: what each conductor contributes to the loop.
+
+    On a ring, ``length_m`` is the whole ring and r1, r2 are the end-to-end values; the loop seen at
+    the mid-point, where it is highest, is (r1 + r2) / 4 (common practice).
+    """
     return np.where(np.broadcast_to(np.asarray(ring, dtype=bool), shape), 0.25, 1.0)

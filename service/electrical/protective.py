@@ -145,3 +145,21 @@ def selection_csa_mm2(line_csa_mm2: Any, k_line: Any = None, k_cpc: Any = None) 
     if k_line is not None and k_cpc is not None:
         base = base * as_float(k_line) / as_float(k_cpc)
     return next_standard_size_mm2(base)
+
+
+def cpc_verdicts(csa_mm2: Any, min_csa_mm2: Any, selection_csa_mm2: Any = np.nan) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """Verdict for each protective conductor, and whether it passes by calculation or by selection.
+
+    pass where the cpc is at least sqrt(I^2 t) / k (BS 7671:2018 543.1.3) or at least the Table 54.7 size
+    (543.1.4); fail where the calculation applies and neither holds; not-verified where the adiabatic
+    equation does not apply (time outside 0.1-5 s) and the selection size is not met.
+    Returns ``(verdict, by_calculation, by_selection)``.
+    """
+    csa = as_float(csa_mm2)
+    s_min = np.broadcast_to(as_float(min_csa_mm2), csa.shape)
+    selection = np.broadcast_to(as_float(selection_csa_mm2), csa.shape)
+    with np.errstate(invalid="ignore"):
+        by_calculation = np.isfinite(s_min) & (csa >= s_min * (1 - 1e-9))
+        by_selection = np.isfinite(selection) & (csa >= selection)
+    verdict = np.where(by_calculation | by_selection, "pass", np.where(np.isfinite(s_min), "fail", "not-verified"))
+    return verdict.astype(object), by_calculation, by_selection

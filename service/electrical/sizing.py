@@ -20,7 +20,7 @@ from typing import Any
 import numpy as np
 
 from . import capacity as cap
-from .circuit import FAIL, NOT_VERIFIED, PASS, Circuit, CircuitFailure, Conductors, DeviceSpec, Supply, check_circuits, conductor_columns
+from .circuit import FAIL, NOT_VERIFIED, Circuit, CircuitFailure, Conductors, DeviceSpec, Supply, check_circuits, conductor_columns
 from .datafiles import device_table
 from .devices import breakers, fuses
 from .errors import InvalidInput, NoRule
@@ -196,8 +196,9 @@ def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: Dev
     tried: list[SizeTried] = []
     selected = None
     cautions: list[str] = []
+    derating, factors = installed_capacity(inst, 1.0, insulation, device.standard)  # the same for every size
     for (size, cpc), outcome in zip(rows, outcomes):
-        iz, factors = installed_capacity(inst, size.it_a, insulation, device.standard)
+        iz = size.it_a * derating
         vd = _voltage_drop(inst, demand, size.csa_mm2, ib, supply.u0_v, demand.length_m)
         if isinstance(outcome, CircuitFailure):
             tried.append(SizeTried(size.csa_mm2, cpc, NOT_VERIFIED, outcome.field, None, None, None))
@@ -214,7 +215,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: Dev
             if any("from memory" in f["basis"] for f in factors.values()):
                 cautions.append("A correction factor used is from memory (unverified): see the factors' bases.")
             break
-        tried.append(SizeTried(size.csa_mm2, cpc, FAIL if name else PASS, name, value, limit, unit))
+        tried.append(SizeTried(size.csa_mm2, cpc, FAIL, name, value, limit, unit))
     if selected is None:
         cautions.append("No tabulated size passes every check for this load, length and installation.")
     return SizingResult(

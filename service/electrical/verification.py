@@ -18,7 +18,7 @@ from .circuit import FAIL, NOT_VERIFIED, PASS, Circuit, CircuitFailure, CircuitR
 from .conductors import operating_temperature_c, temperature_multiplier
 from .datafiles import core_table, device_table
 from .errors import InvalidInput
-from .limits import COMMON_COLD_FACTOR
+from .limits import measured_limit_ohm
 
 CIRCUIT_VOLTAGES = ("selv-pelv", "up-to-500v", "above-500v")
 
@@ -78,12 +78,12 @@ def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured)
         if max_zs is None:
             out.append(Judgement("zs", NOT_VERIFIED, m.zs_ohm, None, "ohm", "no maximum Zs follows from the design data"))
         else:
-            limit = max_zs * ratio
+            limit, rule = (float(v[0]) for v in measured_limit_ohm(max_zs, theta_op, m.temperature_c))
             out.append(Judgement(
                 "zs", PASS if m.zs_ohm <= limit else FAIL, m.zs_ohm, limit, "ohm",
                 f"design maximum Zs {max_zs:.3f} ohm scaled by {ratio:.3f} for conductors at {m.temperature_c:g} degC "
                 f"instead of {theta_op:g} degC; the 0.8 rule (common practice) shown beside it",
-                rule_of_thumb_limit=max_zs * COMMON_COLD_FACTOR,
+                rule_of_thumb_limit=rule,
             ))
     if m.r1_plus_r2_ohm is not None:
         corrected = m.r1_plus_r2_ohm / ratio
@@ -95,11 +95,12 @@ def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured)
             out.append(Judgement("r1-plus-r2", NOT_VERIFIED, m.r1_plus_r2_ohm, None, "ohm", "no maximum Zs follows from the design data", note, None, corrected))
         else:
             room = max_zs - supply.ze_ohm  # what the loop leaves for R1+R2 at operating temperature
+            limit, rule = (float(v[0]) for v in measured_limit_ohm(room, theta_op, m.temperature_c))
             out.append(Judgement(
-                "r1-plus-r2", PASS if zs <= max_zs else FAIL, m.r1_plus_r2_ohm, room * ratio, "ohm",
+                "r1-plus-r2", PASS if zs <= max_zs else FAIL, m.r1_plus_r2_ohm, limit, "ohm",
                 f"corrected to {theta_op:g} degC ({corrected:.3f} ohm) and added to Ze {supply.ze_ohm:g} ohm, against the "
                 f"maximum Zs {max_zs:.3f} ohm; the limit shown is for the value as measured at {m.temperature_c:g} degC",
-                note, room * COMMON_COLD_FACTOR, corrected,
+                note, rule, corrected,
             ))
     if m.insulation_resistance_megohm is not None:
         row = _insulation_row(m.circuit_voltage)
