@@ -32,7 +32,7 @@ sys.path.insert(0, str(ROOT))
 
 from bench.harness import PY, Nginx, Server, wrk_detail  # noqa: E402
 from bench.payload import batch  # noqa: E402
-from tests.hostile_cases import body_of, cases, judge  # noqa: E402
+from tests.api.hostile_cases import body_of, cases, judge  # noqa: E402
 
 REPORT: list[tuple[str, str]] = []
 FAILURES: list[str] = []

@@ -21,7 +21,7 @@ from flask_smorest.utils import prepare_response
 from werkzeug.exceptions import HTTPException
 from werkzeug.routing import BaseConverter
 
-from .api import circuits, device_questions, devices, docs, errors, fault_current, health, metrics, protective_conductor, sizing, test_results, web
+from .api import circuit_views, device_views, docs, errors, health, measurement_views, metrics, question_views, sizing_views, web
 from .settings import Settings
 
 API_VERSION = "1.0.0"
@@ -126,8 +126,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     api = Api(app)
     api.register_converter(NumberConverter, lambda converter: {"type": "number", "minimum": 0})
     for blueprint in (
-        circuits.blp, fault_current.blp, device_questions.disconnection_blp, device_questions.max_zs_blp,
-        protective_conductor.blp, sizing.blp, test_results.blp, devices.blp, health.blp,
+        circuit_views.blp, *question_views.BLUEPRINTS, sizing_views.blp, measurement_views.blp, device_views.blp, health.blp,
     ):
         api.register_blueprint(blueprint)
     app.register_blueprint(docs.blp)

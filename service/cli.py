@@ -21,11 +21,12 @@ from typing import Any, TextIO
 
 from marshmallow import ValidationError
 
-from .api.errors import field_pointer, flatten, json_bytes
+from .api.errors import core_errors, flatten, json_bytes, pointer_of
 from .api.fastload import Refused, fast_load
 from .api.schemas import CircuitSchema, SupplySchema
 from .electrical.arrays import paused_gc
-from .electrical.circuit import CircuitFailure, check_circuits
+from .electrical.circuit import check_circuits
+from .electrical.columns import CircuitFailure
 
 # column -> (where it goes, field, kind); documented in the README
 CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
@@ -75,6 +76,13 @@ class Row:
     def __init__(self, index: int, ident: str | None, base: str, supply=None, circuit=None, problem: list[dict[str, str]] | None = None):
         self.index, self.id, self.base = index, ident, base
         self.supply, self.circuit, self.problem = supply, circuit, problem
+        self.csv = False
+
+    def errors_of(self, failure: CircuitFailure) -> list[dict[str, str]]:
+        """A core failure's pointer: into the JSON file, or the CSV row and column."""
+        if self.csv:
+            return [{"pointer": _as_column(pointer_of(failure.path, CSV_ROOTS), self.index), "message": failure.message}]
+        return core_errors(failure, {"supply": "/supply", "circuit": self.base})
 
 
 def _load(schema, raw, base: str):
@@ -106,6 +114,7 @@ _POINTER_OF = {
     "supply": "/supply", "circuit": "/circuit", "device": "/circuit/device",
     "rcd": "/circuit/device/rcd", "conductors": "/circuit/conductors",
 }
+CSV_ROOTS = {"supply": "/supply", "circuit": "/circuit"}
 _COLUMN_OF = {f"{_POINTER_OF[where]}/{name}": column for column, (where, name, _) in CSV_COLUMNS.items()}
 
 
@@ -144,7 +153,7 @@ def _read_rows(reader: csv.DictReader, rows: list[Row]) -> None:
         row = _validated(index, parts["supply"], circuit, "", "/supply", "/circuit")
         if row.problem:
             row.problem = [{"pointer": _as_column(e["pointer"], index), "message": e["message"]} for e in row.problem]
-        row.base = f"/{index}"
+        row.base, row.csv = f"/{index}", True
         rows.append(row)
 
 
@@ -210,8 +219,7 @@ def _chunk(chunk: list[Row]) -> list[dict[str, Any]]:
             continue
         outcome = next(outcomes)
         if isinstance(outcome, CircuitFailure):
-            error = {"pointer": field_pointer(row.base, outcome.field), "message": outcome.message}
-            records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": [error]}})
+            records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.errors_of(outcome)}})
         else:
             records.append({"index": row.index, "id": row.id, "result": outcome})
     return records

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import logging
 import uuid
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 from http import HTTPStatus
 from typing import Any
 
@@ -17,6 +17,7 @@ import orjson
 from marshmallow import Schema, fields
 from werkzeug.exceptions import HTTPException
 
+from ..electrical.columns import CircuitFailure
 from ..electrical.errors import ElectricalError
 
 PROBLEM_TYPE = "application/problem+json"
@@ -47,10 +48,21 @@ def pointer(*segments: Any) -> str:
     return "".join(f"/{escape(s)}" for s in segments if s != "")
 
 
-def field_pointer(prefix: str, dotted: str) -> str:
-    """A core error's dotted field (``device.rating_a``, ``curve_points/1``) as a pointer below ``prefix``."""
-    parts = [p for chunk in dotted.split(".") for p in chunk.split("/") if p]
-    return prefix + "".join(f"/{escape(p)}" for p in parts)
+def pointer_of(path: Sequence[Any], roots: Mapping[str, str] | None = None, base: str = "") -> str:
+    """The one place a core path becomes a JSON pointer.
+
+    Where ``roots`` maps the path's first segment (``{"supply": "/supply", "circuit": "/circuits/3"}``),
+    the rest of the path goes below that pointer; otherwise the whole path goes below ``base``.
+    """
+    if roots and path and path[0] in roots:
+        return roots[path[0]] + pointer(*path[1:])
+    return base + pointer(*path)
+
+
+def core_errors(err: ElectricalError | CircuitFailure, roots: Mapping[str, str] | None = None,
+                base: str = "") -> list[dict[str, str]]:
+    """A core error (or a circuit's failure) as the ``errors`` list of a 422 problem."""
+    return [{"pointer": pointer_of(err.path, roots, base), "message": err.message}]
 
 
 def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
@@ -103,11 +115,6 @@ def problem_response(status: int, detail: str | None = None, errors=None, header
     return response
 
 
-def from_core(err: ElectricalError, prefix: str = "") -> dict[str, Any]:
-    """A core error as the ``errors`` entry of a 422 problem."""
-    return {"pointer": field_pointer(prefix, err.field), "message": err.message}
-
-
 class CoreInputError(HTTPException):
     """Raised by a view when the core rejects an input the schema let through (422)."""
 
@@ -116,6 +123,11 @@ class CoreInputError(HTTPException):
     def __init__(self, errors: list[dict[str, str]]):
         super().__init__(description="The request is well formed but the rules or the data do not cover it.")
         self.errors = errors
+
+    @classmethod
+    def of(cls, err: ElectricalError | CircuitFailure, roots: Mapping[str, str] | None = None, base: str = "") -> CoreInputError:
+        """The 422 for a core error, its path turned into a pointer by :func:`pointer_of`."""
+        return cls(core_errors(err, roots, base))
 
 
 def handle_http_exception(error: HTTPException) -> flask.Response:

@@ -1,11 +1,14 @@
-"""A fast loader for the items of a batch, compiled from the same marshmallow schemas.
+"""A fast loader for batch items and schedule rows, compiled from the same marshmallow schemas.
 
 marshmallow spends about 90 microseconds on each circuit of a batch, which for ten thousand circuits
-costs more than the computation. This module reads each schema once (fields, bounds, enums, defaults,
-schema-level validators and post_load) and loads a plain dict in a tight loop. It only decides: an
-item it accepts loads to exactly what marshmallow would give; an item it refuses is handed to
-marshmallow, so the error messages and pointers stay the ones the contract documents. A property
-test holds the two loaders to agreement.
+costs more than the computation. This module reads each registered schema once, at import (fields,
+bounds, enums, defaults, schema-level validators and post_load), and loads a plain dict in a tight
+loop. It only decides: an item it accepts loads to exactly what marshmallow would give; an item it
+refuses is handed to marshmallow, so the error messages and pointers stay the ones the contract
+documents. A property test holds the two loaders to agreement on every registered schema.
+
+Schemas with ``only`` or ``exclude`` are refused (a plan is made per class). The one place that reads
+marshmallow's resolved hooks is :func:`_hooks_of`.
 """
 
 from __future__ import annotations
@@ -29,12 +32,15 @@ class _Plan:
     """What one schema checks, in a form a loop can apply quickly."""
 
     def __init__(self, schema: Schema):
+        if schema.only or schema.exclude:
+            raise TypeError(f"fastload does not support {type(schema).__name__} with only= or exclude=")
         self.schema = schema
-        self.fields: list[tuple[str, Any]] = []
+        # (key in the input, attribute in the output, check)
+        self.fields: list[tuple[str, str, Any]] = []
         for name, field in schema.load_fields.items():
-            self.fields.append((field.data_key or name, _field_check(field)))
-        self.names = {key for key, _ in self.fields}
-        hooks = schema._hooks  # marshmallow's resolved hooks: tag -> [(attribute, many, options)]
+            self.fields.append((field.data_key or name, field.attribute or name, _field_check(field)))
+        self.names = {key for key, _, _ in self.fields}
+        hooks = _hooks_of(schema)
         for tag in hooks:
             if tag not in (VALIDATES_SCHEMA, POST_LOAD) and hooks[tag]:
                 raise TypeError(f"fastload does not support {tag} hooks")
@@ -47,16 +53,16 @@ class _Plan:
         if not value.keys() <= self.names:
             raise Refused
         out: dict[str, Any] = {}
-        for key, check in self.fields:
+        for key, attribute, check in self.fields:
             raw = value.get(key, _MISSING)
             if raw is _MISSING:
                 required, default = check[0], check[1]
                 if required:
                     raise Refused
                 if default is not _MISSING:
-                    out[key] = default() if callable(default) else default
+                    out[attribute] = default() if callable(default) else default
                 continue
-            out[key] = check[2](raw)
+            out[attribute] = check[2](raw)
         for validator in self.validators:
             try:
                 validator(out, partial=False, many=False)
@@ -79,7 +85,6 @@ def _bounds(field: fields.Field) -> tuple[float | None, float | None, tuple | No
         elif isinstance(v, validate.Length):
             if v.equal is not None:
                 raise TypeError("fastload does not support Length(equal=...)")
-            max_len = v.max
             max_len = (v.min, v.max)
         else:
             raise TypeError(f"fastload does not know the validator {v!r}")
@@ -124,10 +129,9 @@ def _field_check(field: fields.Field):
                 raise Refused
             return in_choices(raw)
     elif isinstance(field, fields.Nested):
-        plan = plan_for(field.schema)
-        check = plan.load
+        check = _Plan(field.schema).load
     elif isinstance(field, fields.List) and isinstance(field.inner, fields.Nested):
-        inner = plan_for(field.inner.schema)
+        inner = _Plan(field.inner.schema)
         min_len, max_len = length if length is not None else (None, None)
 
         def check(raw):
@@ -139,17 +143,31 @@ def _field_check(field: fields.Field):
     return (field.required, default, check)
 
 
-_PLANS: dict[type, _Plan] = {}
+def _hooks_of(schema: Schema) -> dict:
+    """marshmallow's resolved hooks of a schema: tag -> [(attribute, many, options)] (its only internal read here)."""
+    return schema._hooks
 
 
-def plan_for(schema: Schema) -> _Plan:
-    """The compiled plan of a schema (one per schema class)."""
-    key = type(schema)
-    if key not in _PLANS:
-        _PLANS[key] = _Plan(schema)
-    return _PLANS[key]
+_PLANS: dict[type[Schema], _Plan] = {}
+
+
+def register(*schemas: type[Schema]) -> None:
+    """Compile the plans of these schema classes (at import, so that a schema it cannot serve fails at once)."""
+    for cls in schemas:
+        _PLANS[cls] = _Plan(cls())
+
+
+def registered() -> tuple[type[Schema], ...]:
+    """The schema classes with a compiled plan."""
+    return tuple(_PLANS)
 
 
 def fast_load(schema: Schema, item: Any) -> Any:
-    """What ``schema.load(item)`` returns, or :class:`Refused` where marshmallow would raise (or might)."""
-    return plan_for(schema).load(item)
+    """What ``schema.load(item)`` returns, or :class:`Refused` where marshmallow would raise (or might).
+
+    Only a registered schema class, used without ``only`` or ``exclude``, takes the fast path.
+    """
+    plan = _PLANS.get(type(schema))
+    if plan is None or schema.only or schema.exclude:
+        raise Refused
+    return plan.load(item)

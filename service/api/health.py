@@ -5,7 +5,8 @@ from __future__ import annotations
 import flask
 from marshmallow import Schema, fields
 
-from ..electrical.circuit import Circuit, Conductors, DeviceSpec, Supply, check_circuit
+from ..electrical.circuit import check_circuit
+from ..electrical.model import Circuit, Conductors, DeviceSpec, Supply
 from ..electrical.devices.catalogue import catalogue
 from . import metrics
 from .base import Blueprint

@@ -2,13 +2,45 @@
 
 from __future__ import annotations
 
+import functools
 import gc
 import math
 from collections.abc import Callable, Hashable, Iterator, Mapping
 from contextlib import contextmanager
-from typing import Any
+from typing import Any, TypeVar
 
 import numpy as np
+
+
+F = TypeVar("F", bound=Callable[..., Any])
+
+
+def _is_array(value: Any) -> bool:
+    return isinstance(value, (list, tuple)) or (isinstance(value, np.ndarray) and value.ndim > 0)
+
+
+def _unwrap(result: Any) -> Any:
+    if isinstance(result, tuple):
+        return tuple(_unwrap(r) for r in result)
+    if isinstance(result, np.ndarray) and result.size == 1:
+        return result.reshape(-1)[0].item() if result.dtype != object else result.reshape(-1)[0]
+    return result
+
+
+def scalar_io(func: F) -> F:
+    """Scalars in, scalars out: where no argument is an array (or list), one-element answers become scalars.
+
+    The function itself always works on arrays; this keeps callers with one value from indexing ``[0]``.
+    """
+
+    @functools.wraps(func)
+    def wrapper(*args: Any, **kwargs: Any) -> Any:
+        result = func(*args, **kwargs)
+        if any(_is_array(a) for a in args) or any(_is_array(a) for a in kwargs.values()):
+            return result
+        return _unwrap(result)
+
+    return wrapper  # type: ignore[return-value]
 
 
 def as_float(values: Any) -> np.ndarray:

@@ -66,7 +66,7 @@ def ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
     between 25 and 30 degC 1.00 (conservative).
     """
     table = core_table("correction_factors")["ambient"]
-    theta_p = float(cond.operating_temperature_c(insulation, 1)[0])
+    theta_p = float(cond.operating_temperature_c(insulation))
     if ambient_c >= theta_p:
         raise InvalidInput("ambient_c", f"the ambient must be below the conductor's {theta_p:g} degC")
     if ambient_c > 30:
@@ -126,14 +126,6 @@ def thermal_insulation_factor(length_mm: float) -> tuple[float, str]:
     return float(table["factors"][-1]), "BS 7671 Table 52.2, 500 mm and more (confidence A)"
 
 
-def device_factor(standard: str | None) -> tuple[float, str]:
-    """Cc for the protective device: 0.725 for a BS 3036 semi-enclosed fuse, else 1.0."""
-    table = core_table("correction_factors")["protective_device"]
-    if standard == "BS 3036":
-        return float(table["BS 3036"]), "BS 7671 433.1.101: BS 3036 fuse, Cc = 0.725"
-    return 1.0, "no device factor"
-
-
 def voltage_drop_mv_per_a_m(cable: str, csa_mm2: float, phases: int, reactance_mohm_per_m: float | None = None) -> tuple[float, str]:
     """Voltage drop per ampere per metre (mV/A/m) at the conductor's operating temperature.
 
@@ -155,10 +147,11 @@ def voltage_drop_mv_per_a_m(cable: str, csa_mm2: float, phases: int, reactance_m
         if r is not None and x is not None:
             return math.hypot(r, x), f"{table['source']}: sqrt(r^2 + x^2) from r {r:g} and x {x:g} mV/A/m"
     factor = 2.0 if phases == 1 else math.sqrt(3.0)
-    r20 = float(cond.resistance_mohm_per_m("copper", csa_mm2)[0])
-    r = factor * r20 * float(cond.temperature_multiplier(table["conductor_operating_c"])[0])
+    r20 = float(cond.resistance_mohm_per_m("copper", csa_mm2))
+    multiplier = float(cond.temperature_multiplier(table["conductor_operating_c"]))
+    r = factor * r20 * multiplier
     x = 0.0 if reactance_mohm_per_m is None else factor * reactance_mohm_per_m
-    basis = f"computed: {factor:.3g} x R20 {r20:g} mohm/m x {float(cond.temperature_multiplier(table['conductor_operating_c'])[0]):.2f}"
+    basis = f"computed: {factor:.3g} x R20 {r20:g} mohm/m x {multiplier:.2f}"
     if reactance_mohm_per_m is not None:
         basis += f", with reactance {reactance_mohm_per_m:g} mohm/m"
     return math.hypot(r, x), basis

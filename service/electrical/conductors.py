@@ -6,13 +6,19 @@ Every function works on arrays: pass one circuit's values or ten thousand.
 
 from __future__ import annotations
 
+import dataclasses
+from collections.abc import Sequence
+from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any
 
 import numpy as np
 
-from .arrays import as_float, map_column
+from . import protective
+from .arrays import as_float, map_column, scalar_io
 from .datafiles import core_table
 from .errors import InvalidInput, UnknownConductor
+from .model import Conductors
 
 MATERIALS = ("copper", "aluminium")
 CONDUCTOR_CLASSES = (1, 2)
@@ -35,6 +41,7 @@ def _resistance_lookup() -> dict[tuple[str, int, float], float]:
 _RESISTANCE = _resistance_lookup()
 
 
+@scalar_io
 def resistance_mohm_per_m(material: Any, csa_mm2: Any, conductor_class: Any = 2, field: str = "csa_mm2") -> np.ndarray:
     """Maximum d.c. resistance at 20 degC in milliohm per metre.
 
@@ -65,6 +72,7 @@ def resistance_mohm_per_m(material: Any, csa_mm2: Any, conductor_class: Any = 2,
     return map_column(keys, n, lookup)
 
 
+@scalar_io
 def temperature_multiplier(temperature_c: Any) -> np.ndarray:
     """Resistance at ``temperature_c`` relative to 20 degC: 1 + alpha (theta - 20), alpha 0.004 /degC.
 
@@ -76,6 +84,7 @@ def temperature_multiplier(temperature_c: Any) -> np.ndarray:
     return 1.0 + alpha * (as_float(temperature_c) - ref)
 
 
+@scalar_io
 def operating_temperature_c(insulation: Any, n: int | None = None, field: str = "insulation") -> np.ndarray:
     """Maximum operating temperature (degC) the rules assume for a conductor with this insulation."""
     insulations = core_table("insulation")["insulations"]
@@ -94,6 +103,7 @@ def insulation_names() -> list[str]:
     return sorted(core_table("insulation")["insulations"])
 
 
+@scalar_io
 def conductor_resistance_ohm(
     r20_mohm_per_m: Any, length_m: Any, temperature_c: Any, parallel_cables: Any = 1
 ) -> np.ndarray:
@@ -124,3 +134,118 @@ def ring_factor(ring: Any, shape: tuple[int, ...]) -> np.ndarray:
     the mid-point, where it is highest, is (r1 + r2) / 4 (common practice).
     """
     return np.where(np.broadcast_to(np.asarray(ring, dtype=bool), shape), 0.25, 1.0)
+
+
+def arrangement(c: Conductors) -> tuple:
+    """The fields of the conductors that do not depend on the length (the key of :func:`conductor_constants`)."""
+    return (c.material, c.insulation, c.line_csa_mm2, c.cpc_csa_mm2, c.cpc_arrangement, c.conductor_class,
+            c.cpc_material, c.cpc_resistance_mohm_per_m, c.bare_condition)
+
+
+def conductor_constants(c: Conductors) -> tuple:
+    """What the arrangement of ``c`` contributes whatever its length: :func:`constants_of`."""
+    return constants_of(*arrangement(c))
+
+
+@lru_cache(maxsize=4096)
+def constants_of(material: str, insulation: str, line_csa_mm2: float, cpc_csa_mm2: float, cpc_arrangement: str,
+                 conductor_class: int, cpc_material: str | None, cpc_resistance_mohm_per_m: float | None,
+                 bare_condition: str | None) -> tuple:
+    """What a conductor arrangement contributes whatever its length.
+
+    Resistances at 20 degC (mohm/m), the temperatures the rules assume, k for the cpc and for the
+    line conductor, and the k table. The line conductor is taken at its insulation's operating
+    temperature; the cpc at the initial temperature of its k case (BS 7671 Tables 54.2-54.6), which is
+    the same for a core of the cable. Raises the core's typed errors with a path below the conductors.
+    One lookup per distinct arrangement (the length is not part of the answer).
+    """
+    cpc_mat = cpc_material or (material if cpc_arrangement in ("in-cable", "separate", "bare") else "steel")
+    line_r20 = resistance_mohm_per_m(material, line_csa_mm2, conductor_class, field="line_csa_mm2")
+    case = protective.k_case(cpc_mat, cpc_arrangement, insulation, cpc_csa_mm2, bare_condition)
+    k_line = protective.k_case(material, "in-cable", insulation, line_csa_mm2)["k"]
+    if cpc_resistance_mohm_per_m is not None:
+        cpc_r20 = float(cpc_resistance_mohm_per_m)
+    elif cpc_mat in MATERIALS:
+        cpc_r20 = resistance_mohm_per_m(cpc_mat, cpc_csa_mm2, conductor_class, field="cpc_csa_mm2")
+    else:
+        raise InvalidInput(
+            "cpc_resistance_mohm_per_m",
+            f"a {cpc_mat} {cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
+        )
+    line_temp = operating_temperature_c(insulation, field="insulation")
+    tabulated = np.nan if case["k_tabulated"] is None else case["k_tabulated"]
+    numbers = (line_r20, cpc_r20, line_temp, case["initial_c"], case["k"], case["k_formula"], tabulated, k_line)
+    return tuple(float(v) for v in numbers) + (case["table"], cpc_mat)
+
+
+_CONSTANTS = ("line_r20", "cpc_r20", "line_temp", "cpc_temp", "k", "k_formula", "k_tabulated", "k_line")
+
+
+@dataclass
+class ConductorColumns:
+    """The conductors of N circuits as columns (NaN, or None for texts, where a circuit has none).
+
+    ``r1`` and ``r2`` are ohm at the temperatures the rules assume (a quarter of the end-to-end value on
+    a ring); ``line_r20`` and ``cpc_r20`` mohm/m at 20 degC; temperatures degC; ``k`` the cpc's k as used
+    (tabulated where the case is a table row) and ``k_line`` the line conductor's.
+    """
+
+    present: np.ndarray
+    r1: np.ndarray
+    r2: np.ndarray
+    line_csa: np.ndarray
+    cpc_csa: np.ndarray
+    line_r20: np.ndarray
+    cpc_r20: np.ndarray
+    line_temp: np.ndarray
+    cpc_temp: np.ndarray
+    k: np.ndarray
+    k_formula: np.ndarray
+    k_tabulated: np.ndarray
+    k_line: np.ndarray
+    k_table: np.ndarray
+    cpc_material: np.ndarray
+    line_material: np.ndarray
+
+
+def conductor_columns(items: Sequence[Conductors | None]) -> ConductorColumns:
+    """R1, R2 (ohm), k and sizes for each item, from :func:`conductor_constants` and the lengths.
+
+    R = r20 x (1 + 0.004 (theta - 20)) x L / n for n cables in parallel, x 1/4 on a ring (the loop at
+    the ring's mid-point). Raises the core's typed errors with a path below the conductors.
+    """
+    n = len(items)
+    idx = [i for i, c in enumerate(items) if c is not None]
+    numbers = {name: np.full(n, np.nan) for name in ("r1", "r2", "line_csa", "cpc_csa") + _CONSTANTS}
+    texts = {name: np.full(n, None, dtype=object) for name in ("k_table", "cpc_material", "line_material")}
+    present = np.zeros(n, dtype=bool)
+    if idx:
+        cs = [items[i] for i in idx]
+        constants = [constants_of(*arrangement(c)) for c in cs]
+        sel = np.asarray(idx)
+        present[sel] = True
+        table = np.array([k[:len(_CONSTANTS)] for k in constants], dtype=float)
+        for j, name in enumerate(_CONSTANTS):
+            numbers[name][sel] = table[:, j]
+        length = np.array([c.length_m for c in cs], dtype=float)
+        parallel = np.array([c.parallel_cables for c in cs], dtype=float)
+        ring = ring_factor(np.array([c.ring for c in cs], dtype=bool), length.shape)
+        numbers["r1"][sel] = _resistance(table[:, 0], length, table[:, 2], parallel) * ring
+        numbers["r2"][sel] = _resistance(table[:, 1], length, table[:, 3], parallel) * ring
+        numbers["line_csa"][sel] = [c.line_csa_mm2 for c in cs]
+        numbers["cpc_csa"][sel] = [c.cpc_csa_mm2 for c in cs]
+        texts["k_table"][sel] = [k[-2] for k in constants]
+        texts["cpc_material"][sel] = [k[-1] for k in constants]
+        texts["line_material"][sel] = [c.material for c in cs]
+    return ConductorColumns(present=present, **numbers, **texts)
+
+
+def _resistance(r20: np.ndarray, length: np.ndarray, temperature: np.ndarray, parallel: np.ndarray) -> np.ndarray:
+    check_parallel_cables(parallel)
+    return r20 * temperature_multiplier(temperature) * length / 1000.0 / parallel
+
+
+def loop_resistance_per_m(c: Conductors) -> tuple[float, float]:
+    """(R1+R2, R2) in ohm per metre of route at the temperatures the rules assume, for the longest-run search."""
+    cols = conductor_columns([dataclasses.replace(c, length_m=1.0)])
+    return float(cols.r1[0] + cols.r2[0]), float(cols.r2[0])

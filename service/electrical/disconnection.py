@@ -10,8 +10,10 @@ from typing import Any
 
 import numpy as np
 
-from .arrays import as_float, as_objects, map_column
+from . import verdicts
+from .arrays import as_float, as_objects, map_column, scalar_io
 from .datafiles import core_table
+from .devices.characteristic import AT_MOST, BEYOND_DATA
 from .errors import InvalidInput
 
 EARTHING = ("TN-S", "TN-C-S", "TT")
@@ -27,6 +29,7 @@ def system_of(earthing: str) -> str:
     return "TT" if earthing == "TT" else "TN"
 
 
+@scalar_io
 def max_disconnection_time_s(
     earthing: Any,
     u0_v: Any,
@@ -95,3 +98,18 @@ def _one(table, bands, scope, clauses, earthing, u0, role, load, rating, kind, t
         clause = clauses["tt_with_tn_times"] if use != system else f"{clauses['table']}, {system} system"
         return (np.nan if value is None else float(value)), clause
     return float(table["other_circuits_s"][system]), clauses[f"other_{system}"]
+
+
+def time_verdicts(time_s: np.ndarray, bound: np.ndarray, limit_s: np.ndarray) -> np.ndarray:
+    """Verdict codes of operating times against the maximum times (411.3.2).
+
+    pass where the time is within the limit; where 'at most' data miss it, the time cannot be shown
+    either way (not-verified); below the data (no disconnection shown) fail; no limit set: not-verified.
+    """
+    with np.errstate(invalid="ignore"):
+        ok = time_s <= limit_s * (1 + 1e-9)
+    verdict = np.select(
+        [~np.isfinite(limit_s), bound == BEYOND_DATA, ok, bound == AT_MOST],
+        [verdicts.NOT_VERIFIED, verdicts.FAIL, verdicts.PASS, verdicts.NOT_VERIFIED], verdicts.FAIL,
+    )
+    return verdict.astype(np.int8)

@@ -7,13 +7,18 @@ the answer matches the book, with the formula value beside it.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
 from typing import Any
 
 import numpy as np
 
-from .arrays import as_float, as_objects, map_column
+from . import verdicts
+from .arrays import as_float, finite_or_none, scalar_io
 from .datafiles import core_table
-from .errors import InvalidInput, NoRule
+from .devices.catalogue import resolve
+from .errors import ElectricalError, InvalidInput, NoRule
+from .model import DeviceSpec
+from .verdicts import Verdict
 
 ARRANGEMENTS = ("in-cable", "separate", "armour", "sheath", "conduit", "bare")
 BARE_CONDITIONS = ("visible-restricted", "normal", "fire-risk")
@@ -26,6 +31,7 @@ def _table() -> dict:
     return core_table("protective_k")
 
 
+@scalar_io
 def k_formula(material: str, initial_c: Any, final_c: Any) -> np.ndarray:
     """k = sqrt(Qc (beta + 20) / rho20 x ln(1 + (theta_f - theta_i) / (beta + theta_i))).
 
@@ -65,7 +71,7 @@ def k_case(material: str, arrangement: str, insulation: str | None, csa_mm2: flo
             raise NoRule(
                 "cpc_material", f"no rule for a {material} protective conductor as {arrangement}; materials: {sorted(finals)}"
             )
-        formula = float(k_formula(material, case["initial_c"], finals[material])[0])
+        formula = float(k_formula(material, case["initial_c"], finals[material]))
         table_k = tabulated.get(material)
         return {
             "initial_c": float(case["initial_c"]),
@@ -80,18 +86,7 @@ def k_case(material: str, arrangement: str, insulation: str | None, csa_mm2: flo
     raise NoRule("insulation", f"no rule for a cpc as {arrangement} with {insulation!r} insulation")
 
 
-def k_cases(material: Any, arrangement: Any, insulation: Any, csa_mm2: Any, condition: Any = None) -> dict[str, np.ndarray]:
-    """:func:`k_case` for arrays of protective conductors; one lookup per distinct case."""
-    csa = as_float(csa_mm2)
-    n = len(csa)
-    keys = list(zip(as_objects(material, n), as_objects(arrangement, n), as_objects(insulation, n), (c > 300 for c in csa), as_objects(condition, n)))
-    cases = map_column(keys, n, lambda key: k_case(key[0], key[1], key[2], 301.0 if key[3] else 1.0, key[4]), dtype=object)
-    out = {name: np.array([c[name] for c in cases], dtype=float) for name in ("initial_c", "final_c", "k_formula", "k")}
-    out["k_tabulated"] = np.array([np.nan if c["k_tabulated"] is None else c["k_tabulated"] for c in cases])
-    out["table"] = as_objects([c["table"] for c in cases], n)
-    return out
-
-
+@scalar_io
 def fault_energy_a2s(current_a: Any, time_s: Any, let_through_a2s: Any = None) -> tuple[np.ndarray, np.ndarray]:
     """Energy I^2 t (A^2 s) the protective conductor must withstand, and how it was found.
 
@@ -116,6 +111,7 @@ def fault_energy_a2s(current_a: Any, time_s: Any, let_through_a2s: Any = None) -
     return energy, method.astype(object)
 
 
+@scalar_io
 def min_csa_mm2(energy_a2s: Any, k: Any) -> np.ndarray:
     """Minimum protective conductor size S = sqrt(I^2 t) / k, mm2 (BS 7671 543.1.3, IEC 60364-5-54 543.1.2)."""
     return np.sqrt(as_float(energy_a2s)) / as_float(k)
@@ -125,6 +121,7 @@ def standard_sizes() -> np.ndarray:
     return np.asarray(core_table("standard_sizes")["csa_mm2"], dtype=float)
 
 
+@scalar_io
 def next_standard_size_mm2(csa_mm2: Any) -> np.ndarray:
     """The smallest standard size (IEC 60228) at or above each value; NaN above the largest or for NaN."""
     sizes = standard_sizes()
@@ -134,6 +131,7 @@ def next_standard_size_mm2(csa_mm2: Any) -> np.ndarray:
     return np.where((idx >= len(sizes)) | np.isnan(csa), np.nan, out)
 
 
+@scalar_io
 def selection_csa_mm2(line_csa_mm2: Any, k_line: Any = None, k_cpc: Any = None) -> np.ndarray:
     """Protective conductor size by selection, BS 7671:2018 Table 54.7, rounded up to a standard size.
 
@@ -147,13 +145,14 @@ def selection_csa_mm2(line_csa_mm2: Any, k_line: Any = None, k_cpc: Any = None) 
     return next_standard_size_mm2(base)
 
 
+@scalar_io
 def cpc_verdicts(csa_mm2: Any, min_csa_mm2: Any, selection_csa_mm2: Any = np.nan) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Verdict for each protective conductor, and whether it passes by calculation or by selection.
 
     pass where the cpc is at least sqrt(I^2 t) / k (BS 7671:2018 543.1.3) or at least the Table 54.7 size
     (543.1.4); fail where the calculation applies and neither holds; not-verified where the adiabatic
     equation does not apply (time outside 0.1-5 s) and the selection size is not met.
-    Returns ``(verdict, by_calculation, by_selection)``.
+    Returns ``(verdict, by_calculation, by_selection)``, the verdicts as codes (:mod:`service.electrical.verdicts`).
     """
     csa = as_float(csa_mm2)
     s_min = np.broadcast_to(as_float(min_csa_mm2), csa.shape)
@@ -161,5 +160,72 @@ def cpc_verdicts(csa_mm2: Any, min_csa_mm2: Any, selection_csa_mm2: Any = np.nan
     with np.errstate(invalid="ignore"):
         by_calculation = np.isfinite(s_min) & (csa >= s_min * (1 - 1e-9))
         by_selection = np.isfinite(selection) & (csa >= selection)
-    verdict = np.where(by_calculation | by_selection, "pass", np.where(np.isfinite(s_min), "fail", "not-verified"))
-    return verdict.astype(object), by_calculation, by_selection
+    verdict = np.select([by_calculation | by_selection, np.isfinite(s_min)], [verdicts.PASS, verdicts.FAIL], verdicts.NOT_VERIFIED)
+    return verdict.astype(np.int8), by_calculation, by_selection
+
+
+@dataclass
+class CpcSizing:
+    """The answer to 'how large must the cpc be?' for one fault (sizes mm2, energy A^2 s, temperatures degC)."""
+
+    k: float
+    k_formula: float
+    k_tabulated: float | None
+    k_basis: str
+    initial_c: float
+    final_c: float
+    time_s: float | None
+    time_bound: str
+    energy_a2s: float | None
+    energy_basis: str
+    min_csa_mm2: float | None
+    csa_mm2: float | None
+    selection_csa_mm2: float | None
+    verdict: Verdict | None
+    basis: str
+
+
+def size_for_fault(fault_current_a: float, material: str, arrangement: str, insulation: str | None = None, *,
+                   time_s: float | None = None, device: DeviceSpec | None = None, bare_condition: str | None = None,
+                   cpc_csa_mm2: float | None = None, line_csa_mm2: float | None = None, line_material: str | None = None,
+                   let_through_a2s: float | None = None) -> CpcSizing:
+    """k, the minimum cpc S = sqrt(I^2 t) / k and the next standard size, with Table 54.7 and a verdict where asked.
+
+    The time is ``time_s``, or read off ``device`` at the fault current. BS 7671:2018 543.1.3 and 543.1.4;
+    k from IEC 60364-5-54 Annex A. Errors name the question's own fields (``material``, ``arrangement``,
+    ``device.rating_a`` ...).
+    """
+    names = {"cpc_material": "material", "cpc_arrangement": "arrangement"}
+    try:
+        case = k_case(material, arrangement, insulation, cpc_csa_mm2 or line_csa_mm2 or 1.0, bare_condition)
+    except ElectricalError as err:
+        raise type(err)(names.get(str(err.path[0]), err.path[0]), err.message) from None
+    bound = "given"
+    if device is not None:
+        try:
+            time_s, bound = resolve(device).time_at(fault_current_a)
+        except ElectricalError as err:
+            raise err.within("device") from None
+        let_through_a2s = device.let_through_a2s if let_through_a2s is None else let_through_a2s
+    energy, method = fault_energy_a2s(fault_current_a, time_s, let_through_a2s)
+    s_min = finite_or_none(min_csa_mm2(energy, case["k"]))
+    selection = None
+    if line_csa_mm2 is not None:
+        other = line_material or material
+        k_line = None if other == material else k_case(other, "in-cable", insulation, line_csa_mm2)["k"]
+        selection = finite_or_none(selection_csa_mm2(line_csa_mm2, k_line, None if k_line is None else case["k"]))
+    verdict = None
+    if cpc_csa_mm2 is not None:
+        code = cpc_verdicts(cpc_csa_mm2, np.nan if s_min is None else s_min, np.nan if selection is None else selection)[0]
+        verdict = verdicts.VERDICTS[code]
+    return CpcSizing(
+        k=case["k"], k_formula=case["k_formula"], k_tabulated=case["k_tabulated"], k_basis=case["table"],
+        initial_c=case["initial_c"], final_c=case["final_c"], time_s=finite_or_none(time_s), time_bound=str(bound),
+        energy_a2s=finite_or_none(energy), energy_basis=str(method), min_csa_mm2=s_min,
+        csa_mm2=None if s_min is None else finite_or_none(next_standard_size_mm2(s_min)),
+        selection_csa_mm2=selection, verdict=verdict,
+        basis=ADIABATIC_BASIS + ("; Table 54.7 (543.1.4)" if selection is not None else ""),
+    )
+
+
+ADIABATIC_BASIS = "BS 7671:2018 543.1.3, S = sqrt(I^2 t) / k; k from IEC 60364-5-54 Annex A"

@@ -14,11 +14,17 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any
 
-from .circuit import FAIL, NOT_VERIFIED, PASS, Circuit, CircuitFailure, CircuitResult, Supply, check_circuits, overall_verdict
+from .circuit import check_circuits
+from .columns import CircuitFailure
 from .conductors import operating_temperature_c, temperature_multiplier
 from .datafiles import core_table, device_table
 from .errors import InvalidInput
 from .limits import measured_limit_ohm
+from .model import Circuit, Supply
+from .results import CircuitResult
+from .verdicts import Verdict, overall
+
+PASS, FAIL, NOT_VERIFIED = Verdict.PASS, Verdict.FAIL, Verdict.NOT_VERIFIED
 
 CIRCUIT_VOLTAGES = ("selv-pelv", "up-to-500v", "above-500v")
 
@@ -64,21 +70,21 @@ def _insulation_row(circuit_voltage: str) -> dict[str, Any]:
     for row in core_table("insulation_resistance")["rows"]:
         if row["circuit"] == circuit_voltage:
             return row
-    raise InvalidInput("measured.circuit_voltage", f"circuit_voltage is one of {list(CIRCUIT_VOLTAGES)}")
+    raise InvalidInput(("measured", "circuit_voltage"), f"circuit_voltage is one of {list(CIRCUIT_VOLTAGES)}")
 
 
 def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured) -> VerificationResult:
     insulation = circuit.conductors.insulation if circuit.conductors is not None else "thermoplastic-70"
-    theta_op = float(operating_temperature_c(insulation, 1)[0])
-    ratio = float(temperature_multiplier(m.temperature_c)[0] / temperature_multiplier(theta_op)[0])
-    max_zs = design.max_zs_ohm
+    theta_op = operating_temperature_c(insulation)
+    ratio = temperature_multiplier(m.temperature_c) / temperature_multiplier(theta_op)
+    max_zs = design.check("max-zs").limit  # the limit the design's max-zs check applied (the RCD's where it protects)
     out: list[Judgement] = []
     cautions = list(design.cautions[:3])
     if m.zs_ohm is not None:
         if max_zs is None:
             out.append(Judgement("zs", NOT_VERIFIED, m.zs_ohm, None, "ohm", "no maximum Zs follows from the design data"))
         else:
-            limit, rule = (float(v[0]) for v in measured_limit_ohm(max_zs, theta_op, m.temperature_c))
+            limit, rule = measured_limit_ohm(max_zs, theta_op, m.temperature_c)
             out.append(Judgement(
                 "zs", PASS if m.zs_ohm <= limit else FAIL, m.zs_ohm, limit, "ohm",
                 f"design maximum Zs {max_zs:.3f} ohm scaled by {ratio:.3f} for conductors at {m.temperature_c:g} degC "
@@ -95,7 +101,7 @@ def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured)
             out.append(Judgement("r1-plus-r2", NOT_VERIFIED, m.r1_plus_r2_ohm, None, "ohm", "no maximum Zs follows from the design data", note, None, corrected))
         else:
             room = max_zs - supply.ze_ohm  # what the loop leaves for R1+R2 at operating temperature
-            limit, rule = (float(v[0]) for v in measured_limit_ohm(room, theta_op, m.temperature_c))
+            limit, rule = measured_limit_ohm(room, theta_op, m.temperature_c)
             out.append(Judgement(
                 "r1-plus-r2", PASS if zs <= max_zs else FAIL, m.r1_plus_r2_ohm, limit, "ohm",
                 f"corrected to {theta_op:g} degC ({corrected:.3f} ohm) and added to Ze {supply.ze_ohm:g} ohm, against the "
@@ -117,7 +123,7 @@ def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured)
         if value is None:
             continue
         if rcd is None:
-            raise InvalidInput("measured." + ("rcd_time_ms_at_idn" if index == 0 else "rcd_time_ms_at_5idn"), "the circuit has no RCD")
+            raise InvalidInput(("measured", "rcd_time_ms_at_idn" if index == 0 else "rcd_time_ms_at_5idn"), "the circuit has no RCD")
         row = device_table("residual")["delays"][rcd.delay]
         limit_ms = row["max_time_s"][index] * 1000
         least = row["min_time_s"][index]
@@ -130,7 +136,7 @@ def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured)
         out.append(Judgement("polarity", PASS if m.polarity_confirmed else FAIL, None, None, "", "BS 7671:2018 643.6, polarity"))
     if not out:
         raise InvalidInput("measured", "give at least one measured value")
-    return VerificationResult(circuit.id, max_zs, design.r1_plus_r2_ohm, theta_op, out, overall_verdict([j.verdict for j in out]), cautions)
+    return VerificationResult(circuit.id, max_zs, design.r1_plus_r2_ohm, theta_op, out, overall(j.verdict for j in out), cautions)
 
 
 def verify(supply: Supply, items: list[tuple[Circuit, Measured]]) -> list[VerificationResult | CircuitFailure]:
@@ -144,5 +150,5 @@ def verify(supply: Supply, items: list[tuple[Circuit, Measured]]) -> list[Verifi
         try:
             out.append(_judge(design, supply, circuit, measured))
         except InvalidInput as err:
-            out.append(CircuitFailure(index, circuit.id, err.field, err.message))
+            out.append(CircuitFailure(index, circuit.id, err.path, err.message, type(err)))
     return out

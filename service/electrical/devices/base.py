@@ -1,14 +1,17 @@
-"""What every protective device offers the rest of the core."""
+"""What every protective device offers the rest of the core, and what every device family provides."""
 
 from __future__ import annotations
 
 from dataclasses import dataclass, field
-from typing import Any
+from typing import TYPE_CHECKING, Any, Protocol
 
 import numpy as np
 
-from ..arrays import as_float
+from ..arrays import as_float, scalar_io
 from .characteristic import Characteristic
+
+if TYPE_CHECKING:
+    from ..model import DeviceSpec
 
 BELOW_DATA = "below-data"
 
@@ -40,15 +43,56 @@ class Device:
         parts = [self.standard or "user curve", self.type or "", f"{self.rating_a:g} A"]
         return " ".join(p for p in parts if p)
 
-    def region_at(self, current_a: Any) -> np.ndarray:
-        current = as_float(current_a)
-        out = np.full(current.shape, BELOW_DATA, dtype=object)
-        for lowest, name in self.regions:
-            out = np.where(current >= lowest, name, out)
-        return out.astype(object)
+    def summary(self) -> dict[str, Any]:
+        """Who the device is and where its data come from, as results and answers show it."""
+        return {"device_id": self.device_id, "label": self.label, "source": self.source,
+                "confidence": self.confidence, "notes": list(self.notes)}
 
-    def time_at(self, current_a: Any) -> tuple[np.ndarray, np.ndarray]:
+    def region_codes(self, current_a: Any) -> np.ndarray:
+        """The region of each current as a position in :meth:`region_names` (0: below the data)."""
+        lowest = np.array([lo for lo, _ in self.regions], dtype=float)
+        return np.searchsorted(lowest, as_float(current_a), side="right")
+
+    def region_names(self) -> tuple[str, ...]:
+        return (BELOW_DATA,) + tuple(name for _, name in self.regions)
+
+    @scalar_io
+    def region_at(self, current_a: Any) -> np.ndarray:
+        """The name of the part of the curve each current (A) falls in."""
+        return np.array(self.region_names(), dtype=object)[self.region_codes(current_a)]
+
+    def time_at(self, current_a: Any) -> tuple[Any, Any]:
+        """Maximum operating time (s) and its bound at each current (A): :meth:`Characteristic.time_at`."""
         return self.characteristic.time_at(current_a)
 
-    def current_for(self, time_s: Any) -> tuple[np.ndarray, np.ndarray]:
+    def current_for(self, time_s: Any) -> tuple[Any, Any]:
+        """Smallest operating current (A) and its bound for each time (s): :meth:`Characteristic.current_for`."""
         return self.characteristic.current_for(time_s)
+
+
+class Family(Protocol):
+    """A family of devices registered with the catalogue (breakers, fuses, ...).
+
+    The catalogue, the request schemas' choices, sizing and the capacity factors read the registry;
+    no other module branches on a standard's name.
+    """
+
+    kind: str
+
+    def standards(self) -> list[str]:
+        """The standards the family answers to."""
+
+    def types(self) -> list[str]:
+        """Every type a request may name for this family."""
+
+    def build(self, spec: DeviceSpec) -> Device:
+        """The device for a request's spec; raises UnknownDevice naming the spec's field."""
+
+    def ratings(self, standard: str) -> list[float]:
+        """The ratings a designer chooses from (the usual or published ones), smallest first."""
+
+    def entries(self) -> list[dict[str, Any]]:
+        """The catalogue rows: one per standard and type, with ratings and the data's provenance."""
+
+    def overload_factor(self, standard: str) -> tuple[float, str]:
+        """Cc for the capacity of the cable the device protects against overload, with its basis."""

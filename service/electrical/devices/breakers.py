@@ -9,9 +9,11 @@ the operating current Ia is the upper instantaneous limit, as BS 7671:2018 Table
 from __future__ import annotations
 
 from functools import lru_cache
+from typing import Any
 
-from ..datafiles import device_table
+from ..datafiles import device_table, provenance
 from ..errors import UnknownDevice
+from ..model import DeviceSpec
 from .base import Device
 from .characteristic import Characteristic
 
@@ -51,9 +53,8 @@ def circuit_breaker(standard: str, type_: str, rating_a: float) -> Device:
         (upper, mid_time),
         (upper, inst_time),
     ]
-    family = "bs-en-60898" if standard == "BS EN 60898" else "bs-en-61009"
     return Device(
-        device_id=f"{family}-{type_.lower()}",
+        device_id=device_id(standard, type_),
         kind="circuit-breaker",
         standard=standard,
         type=type_,
@@ -68,3 +69,46 @@ def circuit_breaker(standard: str, type_: str, rating_a: float) -> Device:
         ),
         residual=bool(table["standards"][standard]["residual"]),
     )
+
+
+def device_id(standard: str, type_: str) -> str:
+    """The catalogue id of a breaker family, e.g. ``bs-en-60898-b``."""
+    return f"{standard.lower().replace(' ', '-')}-{type_.lower()}"
+
+
+class Breakers:
+    """The family of BS EN 60898 breakers and BS EN 61009 RCBOs, registered with the catalogue."""
+
+    kind = "circuit-breaker"
+
+    def standards(self) -> list[str]:
+        return breaker_standards()
+
+    def types(self) -> list[str]:
+        return breaker_types()
+
+    def build(self, spec: DeviceSpec) -> Device:
+        if spec.type is None:
+            raise UnknownDevice("type", f"a {spec.standard} circuit-breaker needs its type: B, C or D")
+        return circuit_breaker(spec.standard, spec.type, float(spec.rating_a))
+
+    def ratings(self, standard: str) -> list[float]:
+        return [float(r) for r in _table()["usual_ratings_a"]]
+
+    def entries(self) -> list[dict[str, Any]]:
+        table = _table()
+        return [
+            {
+                "device_id": device_id(standard, type_), "kind": self.kind, "standard": standard, "type": type_,
+                "title": info["title"], "ratings_a": self.ratings(standard),
+                "any_rating": {"min_a": float(table["rating_range_a"]["min"]), "max_a": float(table["rating_range_a"]["max"])},
+                "residual": bool(info["residual"]), "data": provenance(table),
+            }
+            for standard, info in table["standards"].items() for type_ in table["types"]
+        ]
+
+    def overload_factor(self, standard: str) -> tuple[float, str]:
+        return 1.0, "no device factor"
+
+
+FAMILY = Breakers()

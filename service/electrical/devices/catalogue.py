@@ -1,96 +1,79 @@
-"""Find a device by standard, type and rating; list the built-in devices with their sources."""
+"""The registry of device families: find a device for a request, list the built-in devices.
+
+Each family module (breakers, fuses) exports a family object; this module is the only place that
+holds the list. The request schemas' choices, sizing and the capacity factors ask it.
+"""
 
 from __future__ import annotations
 
-from collections.abc import Mapping, Sequence
+from functools import lru_cache
 from typing import Any
 
-from ..datafiles import device_table, provenance
 from ..errors import UnknownDevice
+from ..model import DeviceSpec
 from . import breakers, fuses
-from .base import Device
+from .base import Device, Family
 from .user_curve import user_device
 
-
-def resolve(spec: Mapping[str, Any]) -> Device:
-    """The :class:`Device` for a request's device object.
-
-    ``spec`` keys: ``standard``, ``type``, ``rating_a`` and, for a device of the user's own,
-    ``curve_points`` (a list of ``{current_a, time_s}``) in place of ``standard``.
-    """
-    rating = spec.get("rating_a")
-    if rating is None:
-        raise UnknownDevice("rating_a", "a device needs its rating in amperes")
-    rating = float(rating)
-    points = spec.get("curve_points")
-    standard = spec.get("standard")
-    if points is not None:
-        if standard is not None:
-            raise UnknownDevice("curve_points", "give either a standard or curve_points, not both")
-        return user_device(rating, tuple((float(p["current_a"]), float(p["time_s"])) for p in points))
-    if standard is None:
-        raise UnknownDevice("standard", "a device needs a standard, or curve_points for a device of your own")
-    if standard in breakers.breaker_standards():
-        if spec.get("type") is None:
-            raise UnknownDevice("type", f"a {standard} circuit-breaker needs its type: B, C or D")
-        return breakers.circuit_breaker(standard, spec["type"], rating)
-    if standard in fuses.fuse_standards():
-        return fuses.fuse(standard, spec.get("type"), rating)
-    known = breakers.breaker_standards() + fuses.fuse_standards()
-    raise UnknownDevice("standard", f"unknown device standard {standard!r}; use one of {known}")
+FAMILIES: tuple[Family, ...] = (breakers.FAMILY, fuses.FAMILY)
 
 
-def _families() -> list[dict[str, Any]]:
-    out: list[dict[str, Any]] = []
-    table = device_table("breakers")
-    for standard, info in table["standards"].items():
-        for type_ in table["types"]:
-            dev = breakers.circuit_breaker(standard, type_, 32)
-            out.append(
-                {
-                    "device_id": dev.device_id,
-                    "kind": "circuit-breaker",
-                    "standard": standard,
-                    "type": type_,
-                    "title": info["title"],
-                    "ratings_a": [float(r) for r in table["usual_ratings_a"]],
-                    "any_rating": {"min_a": float(table["rating_range_a"]["min"]), "max_a": float(table["rating_range_a"]["max"])},
-                    "residual": bool(info["residual"]),
-                    "data": provenance(table),
-                }
-            )
-    fuse_table = device_table("fuse_operating_currents")
-    for standard, info in device_table("fuse_families")["families"].items():
-        dev = fuses.fuse(standard, info["type"], fuses.fuse_ratings(standard)[0])
-        sources = [provenance(fuse_table)]
-        if info["gates"]:
-            sources.append(provenance(device_table("gg_gates")))
-        out.append(
-            {
-                "device_id": dev.device_id,
-                "kind": "fuse",
-                "standard": standard,
-                "type": info["type"],
-                "title": info["title"],
-                "ratings_a": fuses.fuse_ratings(standard),
-                "any_rating": None,
-                "residual": False,
-                "data": sources[0],
-                "estimates": sources[1] if len(sources) > 1 else None,
-            }
-        )
+def standards() -> list[str]:
+    """Every standard some family answers to, in registry order."""
+    return [s for family in FAMILIES for s in family.standards()]
+
+
+def types() -> list[str]:
+    """Every device type some family answers to (B, C, D, gG ...)."""
+    out: list[str] = []
+    for family in FAMILIES:
+        out.extend(t for t in family.types() if t not in out)
     return out
+
+
+def family_of(standard: str) -> Family:
+    """The family that answers to ``standard``; UnknownDevice naming ``standard`` otherwise."""
+    for family in FAMILIES:
+        if standard in family.standards():
+            return family
+    raise UnknownDevice("standard", f"unknown device standard {standard!r}; use one of {standards()}")
+
+
+@lru_cache(maxsize=4096)
+def resolve(spec: DeviceSpec) -> Device:
+    """The :class:`Device` for a request's device: a standard, type and rating, or the user's curve points.
+
+    Raises UnknownDevice (or InvalidInput for bad curve points) with a path relative to the device.
+    """
+    if spec.curve_points is not None:
+        if spec.standard is not None:
+            raise UnknownDevice("curve_points", "give either a standard or curve_points, not both")
+        return user_device(float(spec.rating_a), tuple((float(c), float(t)) for c, t in spec.curve_points))
+    if spec.standard is None:
+        raise UnknownDevice("standard", "a device needs a standard, or curve_points for a device of your own")
+    return family_of(spec.standard).build(spec)
+
+
+def ratings_for(standard: str) -> list[float]:
+    """The ratings a designer chooses from for ``standard`` (for sizing), smallest first."""
+    return family_of(standard).ratings(standard)
+
+
+def overload_factor(standard: str | None) -> tuple[float, str]:
+    """Cc for the capacity of a cable protected by a device of ``standard`` (BS 7671 Appendix 4)."""
+    if standard is None:
+        return 1.0, "no device factor"
+    return family_of(standard).overload_factor(standard)
 
 
 def catalogue() -> list[dict[str, Any]]:
     """Every built-in device family: standard, type, ratings, and each data table's source and confidence."""
-    return _families()
+    return [entry for family in FAMILIES for entry in family.entries()]
 
 
 def device_by_id(device_id: str, rating_a: float) -> Device:
     """The device of a catalogue id (e.g. ``bs-en-60898-b``) at ``rating_a``."""
-    for family in _families():
-        if family["device_id"] == device_id:
-            return resolve({"standard": family["standard"], "type": family["type"], "rating_a": rating_a})
-    ids: Sequence[str] = [f["device_id"] for f in _families()]
-    raise UnknownDevice("device_id", f"unknown device {device_id!r}; use one of {list(ids)}")
+    for entry in catalogue():
+        if entry["device_id"] == device_id:
+            return resolve(DeviceSpec(rating_a=float(rating_a), standard=entry["standard"], type=entry["type"]))
+    raise UnknownDevice("device_id", f"unknown device {device_id!r}; use one of {[e['device_id'] for e in catalogue()]}")

@@ -14,18 +14,32 @@ from __future__ import annotations
 
 from collections.abc import Sequence
 from dataclasses import dataclass, field
+from enum import StrEnum
 from typing import Any
 
 import numpy as np
 
-from ..arrays import as_float
+from ..arrays import as_float, scalar_io
 from ..errors import InvalidInput
 
-INTERPOLATED = "interpolated"
-ESTIMATED = "estimated"
-AT_MOST = "at-most"
-BEYOND_DATA = "beyond-data"
-BOUNDS = (INTERPOLATED, ESTIMATED, AT_MOST, BEYOND_DATA)
+
+class Bound(StrEnum):
+    """How a time (or a current) read off a characteristic is bounded."""
+
+    INTERPOLATED = "interpolated"
+    ESTIMATED = "estimated"
+    AT_MOST = "at-most"
+    BEYOND_DATA = "beyond-data"
+
+
+BOUNDS: tuple[Bound, ...] = tuple(Bound)  # on arrays a bound is its position here (an int8 code)
+INTERPOLATED, ESTIMATED, AT_MOST, BEYOND_DATA = (np.int8(i) for i in range(len(BOUNDS)))
+_BOUND_OBJECTS = np.array(BOUNDS, dtype=object)
+
+
+def bound_names(codes: Any) -> np.ndarray:
+    """The bounds (as an object array of :class:`Bound`) of an array of codes."""
+    return _BOUND_OBJECTS[np.asarray(codes, dtype=np.intp)]
 
 
 @dataclass(frozen=True)
@@ -67,19 +81,47 @@ class Characteristic:
     def min_current_a(self) -> float:
         return float(self.current_a[0])
 
+    @scalar_io
     def time_at(self, current_a: Any) -> tuple[np.ndarray, np.ndarray]:
-        """Maximum operating time (s) at each current, and how it is bounded.
+        """Maximum operating time (s) at each current (A), and how it is bounded.
 
-        Returns ``(time_s, bound)``; ``time_s`` is ``inf`` where the current is below the data.
+        Parameters
+        ----------
+        current_a : float or array of float
+            Prospective current, A.
+
+        Returns
+        -------
+        time_s : float or array
+            Maximum operating time, s; ``inf`` where the current is below the data.
+        bound : Bound or array of Bound
+            ``interpolated``, ``estimated``, ``at-most`` (above the data) or ``beyond-data``.
+
         At a vertical step the lower time applies (the device operates within it at that current).
         """
+        time, codes = self.time_codes(current_a)
+        return time, bound_names(codes)
+
+    @scalar_io
+    def current_for(self, time_s: Any) -> tuple[np.ndarray, np.ndarray]:
+        """Smallest current (A) that operates the device within each time (s), and how it is bounded.
+
+        Returns ``(current_a, bound)``: ``nan`` with ``beyond-data`` where the time is shorter than the
+        data show; the lowest current with ``at-most`` where the time is longer than the longest time
+        given (the device operates within that time at that current, perhaps lower).
+        """
+        current, codes = self.current_codes(time_s)
+        return current, bound_names(codes)
+
+    def time_codes(self, current_a: Any) -> tuple[np.ndarray, np.ndarray]:
+        """:meth:`time_at` on arrays, with the bounds as int8 codes (the array path's form)."""
         x = np.log(np.maximum(as_float(current_a), np.finfo(float).tiny))
         lx, ly, est = self._lx, self._ly, self.estimated
         if len(lx) == 1:  # one published point: 'at most' that time at and above its current
             at = x >= lx[0]
-            bound = np.where(at, np.where(est[0], ESTIMATED, AT_MOST), BEYOND_DATA).astype(object)
-            bound = np.where(x == lx[0], np.where(est[0], ESTIMATED, INTERPOLATED), bound).astype(object)
-            return np.where(at, self.time_s[0], np.inf), bound
+            first = ESTIMATED if est[0] else INTERPOLATED
+            code = np.select([x == lx[0], at], [first, ESTIMATED if est[0] else AT_MOST], BEYOND_DATA)
+            return np.where(at, self.time_s[0], np.inf), code.astype(np.int8)
         last = len(lx) - 1
         i = np.searchsorted(lx, x, side="right") - 1
         below = i < 0
@@ -91,30 +133,25 @@ class Characteristic:
             frac = np.clip(np.where(span > 0, (x - lx[lo]) / np.where(span > 0, span, 1.0), 1.0), 0.0, 1.0)
         y = ly[lo] + frac * (ly[hi] - ly[lo])
         # exactly on a point: the tabulated value itself, not its round trip through logarithms
-        time = np.where((frac >= 1) | (ly[hi] == ly[lo]), self.time_s[hi], np.where(frac <= 0, self.time_s[lo], np.exp(y)))
+        time = np.select(
+            [below, above, (frac >= 1) | (ly[hi] == ly[lo]), frac <= 0],
+            [np.inf, self.time_s[-1], self.time_s[hi], self.time_s[lo]], np.exp(y),
+        )
         seg_est = (est[lo] & (frac < 1)) | (est[hi] & (frac > 0))
-        bound = np.where(seg_est, ESTIMATED, INTERPOLATED).astype(object)
-        time = np.where(above, self.time_s[-1], time)
-        bound = np.where(above, AT_MOST, bound)
-        time = np.where(below, np.inf, time)
-        bound = np.where(below, BEYOND_DATA, bound)
         # an answer that rests on an estimated end point keeps saying so
-        bound = np.where(above & est[-1], ESTIMATED, bound)
-        return time, bound.astype(object)
+        end = ESTIMATED if est[-1] else AT_MOST
+        code = np.select([below, above], [BEYOND_DATA, end], np.where(seg_est, ESTIMATED, INTERPOLATED))
+        return time, code.astype(np.int8)
 
-    def current_for(self, time_s: Any) -> tuple[np.ndarray, np.ndarray]:
-        """Smallest current (A) that operates the device within each time, and how it is bounded.
-
-        ``nan`` with ``beyond-data`` where the time is shorter than the data show; the lowest
-        current with ``at-most`` where the time is longer than the longest time given (the device
-        operates within that time at that current, perhaps lower).
-        """
+    def current_codes(self, time_s: Any) -> tuple[np.ndarray, np.ndarray]:
+        """:meth:`current_for` on arrays, with the bounds as int8 codes."""
         t = np.log(np.maximum(as_float(time_s), np.finfo(float).tiny))
         lx, ly, est = self._lx, self._ly, self.estimated
         if len(lx) == 1:
             ok = t >= ly[0]
-            bound = np.where(ok, np.where(est[0], ESTIMATED, np.where(t == ly[0], INTERPOLATED, AT_MOST)), BEYOND_DATA)
-            return np.where(ok, self.current_a[0], np.nan), bound.astype(object)
+            first = ESTIMATED if est[0] else INTERPOLATED
+            code = np.select([~ok, t == ly[0]], [BEYOND_DATA, first], ESTIMATED if est[0] else AT_MOST)
+            return np.where(ok, self.current_a[0], np.nan), code.astype(np.int8)
         last = len(lx) - 1
         # first index whose time is at or below the target (times fall along the curve)
         j = np.searchsorted(-ly, -t, side="left")
@@ -126,15 +163,14 @@ class Characteristic:
         with np.errstate(divide="ignore", invalid="ignore"):
             frac = np.clip(np.where(span > 0, (ly[lo] - t) / np.where(span > 0, span, 1.0), 1.0), 0.0, 1.0)
         x = lx[lo] + frac * (lx[hi] - lx[lo])
-        exact_first = j == 0  # the time equals the first point's time
-        current = np.where((frac >= 1) | (lx[hi] == lx[lo]), self.current_a[hi], np.where(frac <= 0, self.current_a[lo], np.exp(x)))
-        current = np.where(exact_first | too_long, self.current_a[0], current)
-        seg_est = np.where(exact_first | too_long, est[0], (est[lo] & (frac < 1)) | (est[hi] & (frac > 0)))
-        bound = np.where(seg_est, ESTIMATED, INTERPOLATED).astype(object)
-        bound = np.where(too_long & ~est[0], AT_MOST, bound)
-        current = np.where(too_short, np.nan, current)
-        bound = np.where(too_short, BEYOND_DATA, bound)
-        return current, bound.astype(object)
+        first = (j == 0) | too_long  # at or beyond the first point's time
+        current = np.select(
+            [too_short, first, (frac >= 1) | (lx[hi] == lx[lo]), frac <= 0],
+            [np.nan, self.current_a[0], self.current_a[hi], self.current_a[lo]], np.exp(x),
+        )
+        seg_est = np.where(first, est[0], (est[lo] & (frac < 1)) | (est[hi] & (frac > 0)))
+        code = np.select([too_short, too_long & ~est[0]], [BEYOND_DATA, AT_MOST], np.where(seg_est, ESTIMATED, INTERPOLATED))
+        return current, code.astype(np.int8)
 
     def points(self) -> list[dict[str, Any]]:
         """The points as plain records, for an API answer or a picture."""

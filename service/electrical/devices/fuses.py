@@ -12,9 +12,11 @@ data stop at 0.4 s and a shorter required time is ``not-verified``.
 from __future__ import annotations
 
 from functools import lru_cache
+from typing import Any
 
-from ..datafiles import device_table
+from ..datafiles import core_table, device_table, provenance
 from ..errors import UnknownDevice
+from ..model import DeviceSpec
 from .base import Device
 from .characteristic import Characteristic
 
@@ -100,13 +102,11 @@ def fuse(standard: str, type_: str | None, rating_a: float) -> Device:
             )
     if row["ia_0_4s_a"] is None:
         notes.append(f"No published 0.4 s current for a {rating_a:g} A {standard} fuse.")
-    slug = standard.lower().replace(" ", "-")
-    ftype = family["type"]
     return Device(
-        device_id=f"{slug}-{ftype.lower()}" if ftype else slug,
+        device_id=device_id(standard),
         kind="fuse",
         standard=standard,
-        type=ftype,
+        type=family["type"],
         rating_a=float(rating_a),
         characteristic=Characteristic.from_points(points, estimated),
         regions=((points[0][0], "fuse-curve"), (points[-1][0], "above-data")),
@@ -119,3 +119,50 @@ def fuse(standard: str, type_: str | None, rating_a: float) -> Device:
             f"(confidence {family['breaking_capacity_confidence']})"
         ),
     )
+
+
+def device_id(standard: str) -> str:
+    """The catalogue id of a fuse family, e.g. ``bs-88-2-gg`` or ``bs-3036``."""
+    slug = standard.lower().replace(" ", "-")
+    ftype = _families()[standard]["type"]
+    return f"{slug}-{ftype.lower()}" if ftype else slug
+
+
+class Fuses:
+    """The fuse families (BS 88-2, BS 88-3, BS 3036, BS 1362), registered with the catalogue."""
+
+    kind = "fuse"
+
+    def standards(self) -> list[str]:
+        return fuse_standards()
+
+    def types(self) -> list[str]:
+        return sorted({f["type"] for f in _families().values() if f["type"]})
+
+    def build(self, spec: DeviceSpec) -> Device:
+        return fuse(spec.standard, spec.type, float(spec.rating_a))
+
+    def ratings(self, standard: str) -> list[float]:
+        return fuse_ratings(standard)
+
+    def entries(self) -> list[dict[str, Any]]:
+        out = []
+        for standard, info in _families().items():
+            out.append({
+                "device_id": device_id(standard), "kind": self.kind, "standard": standard, "type": info["type"],
+                "title": info["title"], "ratings_a": fuse_ratings(standard), "any_rating": None, "residual": False,
+                "data": provenance(device_table("fuse_operating_currents")),
+                "estimates": provenance(device_table("gg_gates")) if info["gates"] else None,
+            })
+        return out
+
+    def overload_factor(self, standard: str) -> tuple[float, str]:
+        """Cc: 0.725 for a BS 3036 semi-enclosed fuse (BS 7671 Appendix 4), 1.0 for the others."""
+        table = core_table("correction_factors")["protective_device"]
+        factor = table["factors"].get(standard)
+        if factor is None:
+            return 1.0, "no device factor"
+        return float(factor), f"BS 7671 {table['clause']}: {standard} fuse, Cc = {factor:g}"
+
+
+FAMILY = Fuses()

@@ -11,7 +11,7 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import as_float
+from ..arrays import as_float, scalar_io
 from ..datafiles import device_table
 from ..errors import UnknownDevice
 from .characteristic import Characteristic
@@ -34,9 +34,9 @@ def rcd_characteristic(residual_current_ma: float, delay: str = "general") -> Ch
     """
     table = _table()
     if delay not in table["delays"]:
-        raise UnknownDevice("rcd.delay", f"RCD delay is one of {delays()}, not {delay!r}")
+        raise UnknownDevice(("rcd", "delay"), f"RCD delay is one of {delays()}, not {delay!r}")
     if not residual_current_ma > 0:
-        raise UnknownDevice("rcd.residual_current_ma", "the rated residual current must be greater than zero")
+        raise UnknownDevice(("rcd", "residual_current_ma"), "the rated residual current must be greater than zero")
     row = table["delays"][delay]
     idn = residual_current_ma / 1000.0
     points: list[tuple[float, float]] = []
@@ -47,6 +47,7 @@ def rcd_characteristic(residual_current_ma: float, delay: str = "general") -> Ch
     return Characteristic.from_points(points)
 
 
+@scalar_io
 def rcd_max_loop_ohm(residual_current_ma: Any) -> np.ndarray:
     """Largest Zs (TN) or RA (TT), ohm, for fault protection by an RCD: 50 V / IΔn.
 

@@ -17,10 +17,10 @@ def user_device(rating_a: float, points: tuple[tuple[float, float], ...]) -> Dev
     """
     if len(points) < 2:
         raise UnknownDevice("curve_points", "a user curve needs at least two points")
-    ordered = sorted(points)
-    for k, (current, time) in enumerate(ordered):
+    for k, (current, time) in enumerate(points):
         if not (current > 0 and time > 0):
-            raise InvalidInput(f"curve_points/{k}", "current_a and time_s must be greater than zero")
+            raise InvalidInput(("curve_points", k), "current_a and time_s must be greater than zero")
+    ordered = sorted(points)
     for k in range(1, len(ordered)):
         if ordered[k][0] == ordered[k - 1][0] or ordered[k][1] >= ordered[k - 1][1]:
             raise InvalidInput(

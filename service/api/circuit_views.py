@@ -1,0 +1,129 @@
+"""POST /v1/circuits/check, /v1/circuits/check-batch and /v1/circuits/picture."""
+
+from __future__ import annotations
+
+import flask
+
+from ..electrical.arrays import paused_gc
+from ..electrical.circuit import check_circuits
+from ..electrical.columns import CircuitFailure
+from ..electrical.devices.catalogue import resolve
+from ..electrical.verdicts import VERDICTS
+from ..picture import characteristic_svg
+from . import metrics
+from .base import Blueprint
+from .errors import CoreInputError, json_bytes, json_response
+from .helpers import failed_item, invalid_item, svg_response
+from .schemas import BatchRequestSchema, BatchResultSchema, CheckRequestSchema, CircuitResultSchema, ItemProblem
+
+blp = Blueprint("circuits", __name__, url_prefix="/v1/circuits", description="Whole-circuit checks: every figure, every check, a verdict")
+
+SINGLE = {"supply": "/supply", "circuit": "/circuit"}
+NDJSON = "application/x-ndjson"
+CHUNK = 2000
+
+
+def _checked_one(body):
+    result = check_circuits(body["supply"], [body["circuit"]])[0]
+    if isinstance(result, CircuitFailure):
+        raise CoreInputError.of(result, SINGLE)
+    return result
+
+
+@blp.route("/check", methods=["POST"])
+@blp.arguments(CheckRequestSchema)
+@blp.response(200, CircuitResultSchema)
+def check(body):
+    """Check one circuit
+
+    Zs, earth fault current, disconnection time, the limits, the protective conductor, and a
+    verdict for each check with the clause it rests on.
+    """
+    result = _checked_one(body)
+    metrics.count_verdicts([result.verdict])
+    return json_response(result)
+
+
+@blp.route("/picture", methods=["POST"])
+@blp.arguments(CheckRequestSchema)
+@blp.doc(responses={"200": {"description": "The time-current picture of the checked circuit",
+                            "content": {"image/svg+xml": {"schema": {"type": "string"}}}}})
+def picture(body):
+    """The time-current picture of one checked circuit (SVG)
+
+    The device's curve, the earth fault current, the permitted time and the operating point, with the
+    verdict in the title; the body is the same as for circuits/check.
+    """
+    result = _checked_one(body)
+    svg = characteristic_svg(resolve(body["circuit"].device), result.earth_fault_current_a, result.disconnection_time_s,
+                             result.max_disconnection_time_s, result.verdict, result.disconnection_time_bound)
+    return svg_response(svg, cache_seconds=0)
+
+
+@blp.route("/check-batch", methods=["POST"])
+@blp.arguments(BatchRequestSchema)
+@blp.response(200, BatchResultSchema)
+def check_batch(body):
+    """Check many circuits sharing a supply
+
+    One result or one problem per item, in order, each with its index and id; a bad item never
+    sinks the others. The summary counts the verdicts. With `Accept: application/x-ndjson` the
+    answer streams one JSON line per item, computed a chunk at a time, and a last line
+    `{"summary": ...}`.
+    """
+    items = body["circuits"]
+    limit = flask.current_app.config["FAULTPATH_BATCH_LIMIT"]
+    if len(items) > limit:
+        flask.abort(413, description=f"a batch holds at most {limit} circuits")
+    if flask.request.accept_mimetypes.best_match(["application/json", NDJSON]) == NDJSON:
+        return flask.Response(flask.stream_with_context(_ndjson(body["supply"], items)), mimetype=NDJSON)
+    results = []
+    counts = Counts()
+    with paused_gc():
+        for start in range(0, len(items), CHUNK):
+            results.extend(_checked(body["supply"], items[start:start + CHUNK], start, counts))
+        return json_response({"results": results, "summary": counts.summary(len(items))})
+
+
+class Counts:
+    """Verdicts counted as the items come."""
+
+    def __init__(self):
+        self.verdicts = dict.fromkeys(VERDICTS, 0)
+
+    def add(self, verdicts):
+        for v in verdicts:
+            self.verdicts[v] += 1
+        metrics.count_verdicts(verdicts)
+
+    def summary(self, n):
+        return {"circuits": n, **{str(k): v for k, v in self.verdicts.items()}, "invalid": n - sum(self.verdicts.values())}
+
+
+def _checked(supply, items, offset, counts):
+    """One record per item of a chunk, in order: a result, or a problem naming the fields."""
+    valid = [item for item in items if not isinstance(item, ItemProblem)]
+    outcomes = iter(check_circuits(supply, valid) if valid else [])
+    out = []
+    verdicts = []
+    for local, item in enumerate(items):
+        index = offset + local
+        if isinstance(item, ItemProblem):
+            out.append(invalid_item(index, item.id, item.messages, f"/circuits/{index}"))
+            continue
+        outcome = next(outcomes)
+        if isinstance(outcome, CircuitFailure):
+            out.append(failed_item(index, item.id, outcome, {"supply": "/supply", "circuit": f"/circuits/{index}"}))
+        else:
+            out.append({"index": index, "id": outcome.id, "result": outcome})
+            verdicts.append(outcome.verdict)
+    counts.add(verdicts)
+    return out
+
+
+def _ndjson(supply, items):
+    """One JSON line per item, in order, computed a chunk at a time; the last line is the summary."""
+    counts = Counts()
+    for start in range(0, len(items), CHUNK):
+        yield b"".join(json_bytes(record) + b"\n" for record in _checked(supply, items[start:start + CHUNK], start, counts))
+    yield json_bytes({"summary": counts.summary(len(items))}) + b"\n"

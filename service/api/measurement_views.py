@@ -1,0 +1,105 @@
+"""POST /v1/test-results/verify: measured values judged against each circuit's limits."""
+
+from __future__ import annotations
+
+from marshmallow import Schema, fields, post_load, validate
+
+from ..electrical.columns import CircuitFailure
+from ..electrical.verdicts import VERDICTS
+from ..electrical.verification import CIRCUIT_VOLTAGES, Measured, verify
+from . import fastload
+from .base import Blueprint
+from .errors import json_response
+from .fields import Flag, Number, choice
+from .helpers import failed_item, invalid_item
+from .schemas import CircuitSchema, FastSchema, ItemProblem, PerItemList, SupplySchema, nullable_number
+
+blp = Blueprint("test_results", __name__, url_prefix="/v1/test-results", description="Measured test results against the design limits")
+
+
+class MeasuredSchema(Schema):
+    temperature_c = Number(minimum=-20, maximum=60, load_default=20.0, metadata={"description": "conductor temperature when measured"})
+    zs_ohm = Number(minimum=0.001, maximum=2000)
+    r1_plus_r2_ohm = Number(minimum=0.0001, maximum=100)
+    insulation_resistance_megohm = Number(minimum=0, maximum=100000)
+    insulation_test_voltage_v = Number(minimum=50, maximum=5000)
+    circuit_voltage = choice(CIRCUIT_VOLTAGES, load_default="up-to-500v")
+    rcd_time_ms_at_idn = Number(minimum=0, maximum=10000)
+    rcd_time_ms_at_5idn = Number(minimum=0, maximum=10000)
+    polarity_confirmed = Flag()
+
+    @post_load
+    def make(self, data, **kwargs):
+        return Measured(**data)
+
+
+class VerifyItemSchema(Schema):
+    circuit = fields.Nested(CircuitSchema, required=True)
+    measured = fields.Nested(MeasuredSchema, required=True)
+
+
+fastload.register(VerifyItemSchema)
+
+
+class VerifyRequestSchema(FastSchema):
+    supply = fields.Nested(SupplySchema, required=True)
+    circuits = PerItemList(fields.Nested(VerifyItemSchema), required=True)
+
+
+class JudgementSchema(Schema):
+    test = fields.String(required=True)
+    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
+    measured = nullable_number()
+    limit = nullable_number("for the value as measured")
+    unit = fields.String(required=True)
+    basis = fields.String(required=True)
+    note = fields.String(allow_none=True, required=True)
+    rule_of_thumb_limit = nullable_number("the 0.8 rule, beside the temperature-corrected limit")
+    corrected_value = nullable_number("the measured value corrected to operating temperature")
+
+
+class VerificationSchema(Schema):
+    id = fields.String(allow_none=True, required=True)
+    design_max_zs_ohm = nullable_number()
+    design_r1_plus_r2_ohm = nullable_number()
+    operating_temperature_c = fields.Float(required=True)
+    judgements = fields.List(fields.Nested(JudgementSchema), required=True)
+    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
+    cautions = fields.List(fields.String(), required=True)
+
+
+class VerifyItemResultSchema(Schema):
+    index = fields.Integer(required=True)
+    id = fields.String(allow_none=True, required=True)
+    result = fields.Nested(VerificationSchema)
+    problem = fields.Nested("ProblemSchema")
+
+
+class VerifyResultSchema(Schema):
+    results = fields.List(fields.Nested(VerifyItemResultSchema), required=True)
+
+
+@blp.route("/verify", methods=["POST"])
+@blp.arguments(VerifyRequestSchema)
+@blp.response(200, VerifyResultSchema)
+def verify_results(body):
+    """Judge measured Zs, R1+R2, insulation resistance, RCD times and polarity per circuit
+
+    Zs and R1+R2 measured cold are compared with the design limit scaled by the ratio of resistances,
+    with the 0.8 rule shown beside it. One result or problem per item, in order.
+    """
+    items = body["circuits"]
+    good = [item for item in items if not isinstance(item, ItemProblem)]
+    outcomes = iter(verify(body["supply"], [(item["circuit"], item["measured"]) for item in good]) if good else [])
+    results = []
+    for index, item in enumerate(items):
+        if isinstance(item, ItemProblem):
+            results.append(invalid_item(index, item.id, item.messages, f"/circuits/{index}", "item"))
+            continue
+        outcome = next(outcomes)
+        if isinstance(outcome, CircuitFailure):
+            roots = {"supply": "/supply", "circuit": f"/circuits/{index}/circuit", "measured": f"/circuits/{index}/measured"}
+            results.append(failed_item(index, item["circuit"].id, outcome, roots, "item"))
+        else:
+            results.append({"index": index, "id": outcome.id, "result": outcome})
+    return json_response({"results": results})

@@ -1,0 +1,189 @@
+"""POST /v1/circuits/size and /v1/circuits/max-length."""
+
+from __future__ import annotations
+
+from marshmallow import Schema, ValidationError, fields, post_load, validate, validates_schema
+
+from ..electrical import capacity as cap
+from ..electrical import disconnection
+from ..electrical.errors import ElectricalError
+from ..electrical.model import DeviceSpec
+from ..electrical.reach import max_length, size_with_reach
+from ..electrical.sizing import RULED_OUT_ORDER, Demand, Installation
+from .base import Blueprint
+from .errors import CoreInputError, json_response
+from .fields import Flag, Number, Text, WholeNumber, choice
+from .schemas import DEVICE_STANDARDS, DEVICE_TYPES, CircuitResultSchema, CircuitSchema, RcdSchema, SupplySchema, nullable_number
+
+blp = Blueprint("sizing", __name__, url_prefix="/v1/circuits", description="Cable and device sizing, and the longest run that complies")
+
+ALL_METHODS = sorted({m for cable in cap.CABLES for m in cap.methods(cable)})
+
+
+class InstallationSchema(Schema):
+    cable = choice(cap.CABLES, required=True, metadata={"description": "which BS 7671 table: 4D5, 4E4A or 4E1A"})
+    installation_method = choice(ALL_METHODS, required=True, metadata={"description": "a method of that table"})
+    ambient_c = Number(minimum=-10, maximum=60, load_default=30.0)
+    grouping = choice(cap.GROUPINGS, load_default="bunched")
+    grouped_circuits = WholeNumber(minimum=1, maximum=60, load_default=1)
+    thermal_insulation_mm = Number(minimum=0, maximum=2000, load_default=0.0, metadata={"description": "length totally surrounded by insulation (Table 52.2)"})
+    ground_c = Number(minimum=0, maximum=40, metadata={"description": "method D: ground temperature (default 20)"})
+    soil_resistivity_k_m_per_w = Number(minimum=0.5, maximum=3, metadata={"description": "method D: soil thermal resistivity"})
+    in_duct = Flag(load_default=False)
+    reactance_mohm_per_m = Number(minimum=0, maximum=1, metadata={"description": "for a drop computed from resistance"})
+
+    @post_load
+    def make(self, data, **kwargs):
+        return Installation(**data)
+
+
+class SizeDeviceSchema(Schema):
+    standard = choice(DEVICE_STANDARDS, required=True)
+    type = choice(DEVICE_TYPES)
+    breaking_capacity_ka = Number(minimum=0.1, maximum=200)
+    rcd = fields.Nested(RcdSchema)
+
+    @post_load
+    def make(self, data, **kwargs):
+        return DeviceSpec(rating_a=1.0, **data)
+
+
+class SizeRequestSchema(Schema):
+    supply = fields.Nested(SupplySchema, required=True)
+    id = Text(max_length=200)
+    role = choice(disconnection.ROLES, load_default="final")
+    load = choice(disconnection.LOADS, metadata={"description": "final circuits: what it supplies"})
+    design_current_a = Number(minimum=0.1, maximum=1000, metadata={"description": "Ib; or give power_kw"})
+    power_kw = Number(minimum=0.01, maximum=1000)
+    power_factor = Number(minimum=0.1, maximum=1, load_default=1.0)
+    phases = WholeNumber(minimum=1, maximum=3, validate=validate.OneOf([1, 3]), load_default=1)
+    use = choice(cap.USES, load_default="other", metadata={"description": "for the voltage drop limit"})
+    supply_kind = choice(cap.SUPPLY_KINDS, load_default="public")
+    voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
+    length_m = Number(minimum=0.1, maximum=5000, required=True)
+    installation = fields.Nested(InstallationSchema, required=True)
+    device = fields.Nested(SizeDeviceSchema, required=True, metadata={"description": "the family; the rating is chosen"})
+
+    @validates_schema
+    def complete(self, data, **kwargs):
+        if ("design_current_a" in data) == ("power_kw" in data):
+            raise ValidationError("give either design_current_a or power_kw", "design_current_a")
+        if data.get("role") == "final" and "load" not in data:
+            raise ValidationError("a final circuit needs its load: socket-outlets or fixed-equipment", "load")
+
+
+class FactorSchema(Schema):
+    factor = fields.Float(required=True)
+    basis = fields.String(required=True)
+
+
+class CapacitySchema(Schema):
+    it_a = fields.Float(required=True, metadata={"description": "tabulated capacity"})
+    iz_a = fields.Float(required=True, metadata={"description": "It x Ca x Cg x Ci x Cc"})
+    factors = fields.Dict(keys=fields.String(), values=fields.Nested(FactorSchema), required=True)
+    confidence = fields.String(required=True)
+
+
+class VoltageDropSchema(Schema):
+    mv_per_a_m = fields.Float(required=True)
+    basis = fields.String(required=True)
+    drop_v = fields.Float(required=True)
+    percent = fields.Float(required=True)
+    limit_percent = fields.Float(required=True)
+    limit_basis = fields.String(required=True)
+
+
+class SelectedSchema(Schema):
+    line_csa_mm2 = fields.Float(required=True)
+    cpc_csa_mm2 = fields.Float(required=True)
+    material = fields.String(required=True)
+    insulation = fields.String(required=True)
+    capacity = fields.Nested(CapacitySchema, required=True)
+    voltage_drop = fields.Nested(VoltageDropSchema, required=True)
+    check = fields.Nested(CircuitResultSchema, required=True)
+
+
+class TriedSchema(Schema):
+    line_csa_mm2 = fields.Float(required=True)
+    cpc_csa_mm2 = fields.Float(required=True)
+    verdict = fields.String(required=True)
+    ruled_out_by = fields.String(allow_none=True, required=True, metadata={"description": f"one of {list(RULED_OUT_ORDER)}, or a field"})
+    value = nullable_number()
+    limit = nullable_number()
+    unit = fields.String(allow_none=True, required=True)
+
+
+class MaxLengthResultSchema(Schema):
+    max_length_m = nullable_number("null where no length passes")
+    limited_by = fields.String(allow_none=True, required=True, metadata={"description": "the check that fails just beyond it"})
+    closed_form_m = fields.Dict(keys=fields.String(), values=fields.Float(), required=True)
+    method = fields.String(required=True)
+
+
+class DeviceChosenSchema(Schema):
+    standard = fields.String(required=True)
+    type = fields.String(allow_none=True, required=True)
+    rating_a = fields.Float(required=True)
+
+
+class SizeResultSchema(Schema):
+    design_current_a = fields.Float(required=True)
+    device = fields.Nested(DeviceChosenSchema, required=True)
+    selected = fields.Nested(SelectedSchema, allow_none=True, required=True)
+    tried = fields.List(fields.Nested(TriedSchema), required=True, metadata={"description": "each smaller size, with the check that ruled it out"})
+    max_length = fields.Nested(MaxLengthResultSchema, allow_none=True, required=True)
+    cautions = fields.List(fields.String(), required=True)
+
+
+@blp.route("/size", methods=["POST"])
+@blp.arguments(SizeRequestSchema)
+@blp.response(200, SizeResultSchema)
+def size(body):
+    """Size a circuit for a load at a distance
+
+    The smallest standard device rating at or above Ib, and the smallest line conductor and cpc that
+    pass every check (capacity, voltage drop, disconnection time, adiabatic, breaking capacity); each
+    smaller size tried is listed with the check that ruled it out, and the longest run for the choice.
+    """
+    demand = Demand(
+        length_m=body["length_m"], phases=body["phases"], design_current_a=body.get("design_current_a"),
+        power_kw=body.get("power_kw"), power_factor=body["power_factor"], use=body["use"], supply_kind=body["supply_kind"],
+        voltage_drop_limit_percent=body.get("voltage_drop_limit_percent"), role=body["role"], load=body.get("load"), id=body.get("id"),
+    )
+    try:
+        result, reach = size_with_reach(body["supply"], demand, body["installation"], body["device"])
+    except ElectricalError as err:
+        raise CoreInputError.of(err, {"supply": "/supply", "circuit": ""}) from None
+    out = {"design_current_a": result.design_current_a, "device": result.device, "selected": result.selected,
+           "tried": result.tried, "max_length": reach, "cautions": result.cautions}
+    return json_response(out)
+
+
+class MaxLengthRequestSchema(Schema):
+    supply = fields.Nested(SupplySchema, required=True)
+    circuit = fields.Nested(CircuitSchema, required=True, metadata={"description": "with its conductors; the length given is where the search starts"})
+    installation = fields.Nested(InstallationSchema, metadata={"description": "adds the voltage drop rule (with the circuit's design_current_a)"})
+    phases = WholeNumber(minimum=1, maximum=3, validate=validate.OneOf([1, 3]), load_default=1)
+    use = choice(cap.USES, load_default="other")
+    supply_kind = choice(cap.SUPPLY_KINDS, load_default="public")
+    voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
+
+    @validates_schema
+    def has_conductors(self, data, **kwargs):
+        circuit = data.get("circuit")
+        if circuit is not None and circuit.conductors is None:
+            raise ValidationError("the longest run needs the circuit's conductors", "circuit")
+
+
+@blp.route("/max-length", methods=["POST"])
+@blp.arguments(MaxLengthRequestSchema)
+@blp.response(200, MaxLengthResultSchema)
+def longest(body):
+    """The longest run that keeps every check passing, and the check that limits it"""
+    circuit = body["circuit"]
+    demand = Demand(length_m=circuit.conductors.length_m, phases=body["phases"], design_current_a=circuit.design_current_a,
+                    use=body["use"], supply_kind=body["supply_kind"], voltage_drop_limit_percent=body.get("voltage_drop_limit_percent"))
+    try:
+        return json_response(max_length(body["supply"], circuit, body.get("installation"), demand))
+    except ElectricalError as err:
+        raise CoreInputError.of(err, {"supply": "/supply", "circuit": "/circuit"}) from None

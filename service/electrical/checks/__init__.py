@@ -1,0 +1,20 @@
+"""The checks of a circuit, one step each, in the order results list them.
+
+A step takes the circuit columns, the fault loop and the devices' response and returns a
+:class:`~service.electrical.checks.base.CheckColumns`. Adding a check is one function (in a module
+of its own here, with its clause texts beside it) and one entry in :data:`STEPS`.
+"""
+
+from __future__ import annotations
+
+from .base import CheckColumns, Step
+from .breaking_capacity import breaking_capacity
+from .disconnection_time import disconnection_time
+from .max_zs import max_zs
+from .protective_conductor import protective_conductor
+from .rcd import rcd
+
+STEPS: tuple[Step, ...] = (disconnection_time, max_zs, protective_conductor, breaking_capacity, rcd)
+CHECKS: tuple[str, ...] = tuple(step.check_name for step in STEPS)  # type: ignore[attr-defined]
+
+__all__ = ["CHECKS", "STEPS", "CheckColumns", "Step"]

@@ -1,0 +1,66 @@
+"""What every check step returns: a small set of arrays, one value per circuit."""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Sequence
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+if TYPE_CHECKING:
+    from ..columns import CircuitColumns
+    from ..faults import FaultLoop
+    from ..response import DeviceResponse
+
+
+def margin_percent(value: Any, limit: Any) -> np.ndarray:
+    """(limit - value) / limit x 100; NaN where either is missing or the limit is zero."""
+    v = np.asarray(value, dtype=float)
+    lim = np.asarray(limit, dtype=float)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        return np.where(np.isfinite(v) & np.isfinite(lim) & (lim != 0), (lim - v) / lim * 100.0, np.nan)
+
+
+def pick(conditions: Sequence[np.ndarray], texts: Sequence[str | None], default: str | None = None) -> np.ndarray:
+    """For each circuit, the text of the first condition that holds (``default`` where none does)."""
+    return np.select(list(conditions), list(texts), default).astype(object)
+
+
+@dataclass
+class CheckColumns:
+    """One check over N circuits: verdict codes (see :mod:`service.electrical.verdicts`), value and limit
+    in ``unit``, margin, the clause each verdict rests on, a note, and where the check applies.
+
+    ``detail`` optionally names a sub-object of the circuit result and its columns (the protective
+    conductor's k, energy and sizes); ``cautions`` are (mask, text) pairs added to the results.
+    """
+
+    check: str
+    unit: str
+    verdict: np.ndarray
+    value: np.ndarray
+    limit: np.ndarray
+    basis: np.ndarray
+    note: np.ndarray
+    applies: np.ndarray | None = None
+    margin_percent: np.ndarray | None = None
+    detail: tuple[str, dict[str, Any]] | None = None
+    cautions: list[tuple[np.ndarray, str]] = field(default_factory=list)
+
+    def __post_init__(self) -> None:
+        if self.margin_percent is None:
+            self.margin_percent = margin_percent(self.value, self.limit)
+
+
+Step = Callable[["CircuitColumns", "FaultLoop", "DeviceResponse"], CheckColumns]
+
+
+def check_step(name: str) -> Callable[[Step], Step]:
+    """Mark a function as the step of check ``name`` (the name its results carry)."""
+
+    def mark(func: Step) -> Step:
+        func.check_name = name  # type: ignore[attr-defined]
+        return func
+
+    return mark

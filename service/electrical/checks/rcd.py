@@ -1,0 +1,47 @@
+"""The rcd check: Zs (TN) or RA (TT) x IΔn <= 50 V where an RCD is fitted (BS 7671:2018 411.4.5, 411.5.3).
+
+Also the RCD's cautions: additional protection of socket-outlets (411.3.3) and an unstable electrode
+(note to Table 41.5).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .. import verdicts
+from ..columns import CircuitColumns
+from ..devices import residual
+from ..faults import FaultLoop
+from ..response import DeviceResponse
+from .base import CheckColumns, check_step
+
+BASES = {
+    "tn": "BS 7671:2018 411.4.5, Zs x IΔn <= 50 V",
+    "tt": "BS 7671:2018 411.5.3, RA x IΔn <= 50 V",
+}
+NOTES = {"ra-not-given": "RA not given: Zs used in its place (larger, so on the safe side)."}
+CAUTIONS = {
+    "electrode-unstable": "Earth electrode resistance above 200 ohm may not be stable (note to BS 7671:2018 Table 41.5).",
+    "additional-protection": (
+        "Socket-outlets rated up to 32 A need additional protection by a 30 mA RCD (BS 7671:2018 411.3.3), "
+        "unless an exception applies."
+    ),
+}
+
+
+@check_step("rcd")
+def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckColumns:
+    """Pass where the loop the RCD protects stays within 50 V / IΔn; reported only where an RCD is fitted."""
+    verdict = verdicts.where(trip.rcd_loop_ohm <= trip.rcd_limit_ohm, verdicts.PASS, verdicts.FAIL)
+    basis = np.where(cols.tt, BASES["tt"], BASES["tn"]).astype(object)
+    note = np.where(cols.tt & np.isnan(cols.electrode_ohm), NOTES["ra-not-given"], None).astype(object)
+    sockets = (cols.role == "final") & (cols.load == "socket-outlets") & (cols.rating_a <= 32)
+    with np.errstate(invalid="ignore"):
+        unstable = cols.tt & cols.has_rcd & (cols.electrode_ohm > residual.stable_resistance_limit_ohm())
+    return CheckColumns(
+        "rcd", "ohm", verdict, trip.rcd_loop_ohm, trip.rcd_limit_ohm, basis, note, applies=cols.has_rcd,
+        cautions=[
+            (unstable, CAUTIONS["electrode-unstable"]),
+            (sockets & (cols.residual_ma > residual.additional_protection_max_ma()), CAUTIONS["additional-protection"]),
+        ],
+    )

@@ -1,0 +1,189 @@
+"""Circuits as columns: what the check pipeline reads, built once per call.
+
+:func:`prepare` makes the per-item lookups that can fail (device, conductors, the rules for the supply
+and role), so that one bad circuit never sinks the others: each failure names its path from the
+circuit's point of view, rooted at ``supply`` or ``circuit``. The circuits that pass become one
+:class:`CircuitColumns`: numbers as float arrays (NaN where not given), choices as arrays, the
+conductors as :class:`~service.electrical.conductors.ConductorColumns` and the devices grouped so
+that each characteristic is read once per group.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Hashable, Mapping, Sequence
+from dataclasses import dataclass
+from functools import lru_cache
+
+import numpy as np
+
+from . import conductors as cond
+from . import disconnection, faults
+from .arrays import groups
+from .devices import residual
+from .devices.base import Device
+from .devices.catalogue import resolve
+from .errors import ElectricalError, InvalidInput
+from .model import Circuit, Supply
+
+# parameters of the rules that come from the supply (the others come from the circuit)
+SUPPLY_PARAMETERS = frozenset({"earthing", "u0_v", "ze_ohm", "c_max", "current_kind", "reduced_low_voltage", "zs_ohm"})
+
+
+@dataclass(frozen=True)
+class CircuitFailure:
+    """A circuit the core could not compute with: where in the item (``supply`` or ``circuit`` first), and why."""
+
+    index: int
+    id: str | None
+    path: tuple
+    message: str
+    error: type[ElectricalError] = ElectricalError
+
+    @property
+    def field(self) -> str:
+        return ".".join(str(p) for p in self.path)
+
+
+def _optional(values: Sequence[float | None]) -> np.ndarray:
+    return np.array([np.nan if v is None else float(v) for v in values], dtype=float)
+
+
+@dataclass
+class CircuitColumns:
+    """N circuits (with their supplies) as arrays; the inputs themselves are kept for the results."""
+
+    supplies: Sequence[Supply]
+    circuits: Sequence[Circuit]
+    earthing: np.ndarray
+    tt: np.ndarray
+    u0_v: np.ndarray
+    ze_ohm: np.ndarray
+    pfc_stated_ka: np.ndarray
+    c_max: list[float | None]
+    electrode_ohm: np.ndarray
+    bonded: np.ndarray
+    current_kind: np.ndarray
+    reduced_low_voltage: np.ndarray
+    role: np.ndarray
+    load: np.ndarray
+    rating_a: np.ndarray
+    design_current_a: np.ndarray
+    r1r2_given_ohm: np.ndarray
+    conductors: cond.ConductorColumns
+    devices: list[Device]
+    device_groups: Mapping[Hashable, np.ndarray]
+    has_rcd: np.ndarray
+    residual_ma: np.ndarray
+    rcd_groups: Mapping[Hashable, np.ndarray]
+    let_through_a2s: np.ndarray
+    breaking_capacity_ka: np.ndarray
+
+    @property
+    def n(self) -> int:
+        return len(self.circuits)
+
+
+def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> CircuitColumns:
+    """The columns of circuits that :func:`prepare` accepted."""
+    device_groups = groups([c.device.curve_key for c in circuits])
+    devices: list[Device] = [None] * len(circuits)  # type: ignore[list-item]
+    for idx in device_groups.values():
+        dev = resolve(circuits[idx[0]].device)
+        for i in idx.tolist():
+            devices[i] = dev
+    rcds = [c.device.rcd for c in circuits]
+    earthing = np.array([s.earthing for s in supplies], dtype=object)
+    return CircuitColumns(
+        supplies=supplies, circuits=circuits,
+        earthing=earthing, tt=earthing == "TT",
+        u0_v=np.array([s.u0_v for s in supplies], dtype=float),
+        ze_ohm=np.array([s.ze_ohm for s in supplies], dtype=float),
+        pfc_stated_ka=_optional([s.prospective_fault_current_ka for s in supplies]),
+        c_max=[s.c_max for s in supplies],
+        electrode_ohm=_optional([s.electrode_ohm for s in supplies]),
+        bonded=np.array([s.bonding_complete for s in supplies], dtype=bool),
+        current_kind=np.array([s.current_kind for s in supplies], dtype=object),
+        reduced_low_voltage=np.array([s.reduced_low_voltage for s in supplies], dtype=bool),
+        role=np.array([c.role for c in circuits], dtype=object),
+        load=np.array([c.load for c in circuits], dtype=object),
+        rating_a=np.array([c.device.rating_a for c in circuits], dtype=float),
+        design_current_a=_optional([c.design_current_a for c in circuits]),
+        r1r2_given_ohm=_optional([c.r1_plus_r2_ohm for c in circuits]),
+        conductors=cond.conductor_columns([c.conductors for c in circuits]),
+        devices=devices, device_groups=device_groups,
+        has_rcd=np.array([r is not None for r in rcds], dtype=bool),
+        residual_ma=np.array([np.inf if r is None else r.residual_current_ma for r in rcds], dtype=float),
+        rcd_groups={k: v for k, v in groups([(r.residual_current_ma, r.delay) if r else None for r in rcds]).items() if k},
+        let_through_a2s=_optional([c.device.let_through_a2s for c in circuits]),
+        breaking_capacity_ka=_optional([c.device.breaking_capacity_ka for c in circuits]),
+    )
+
+
+def prepare(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> tuple[list[int], list[CircuitFailure]]:
+    """Which circuits can be computed (their indices) and a failure for each of the others, in order."""
+    good: list[int] = []
+    failures: list[CircuitFailure] = []
+    for i, (s, c) in enumerate(zip(supplies, circuits)):
+        problem = _problem(s, c)
+        if problem is None:
+            good.append(i)
+        else:
+            failures.append(CircuitFailure(i, c.id, problem.path, problem.message, type(problem)))
+    return good, failures
+
+
+def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
+    """The first per-item lookup that fails, with its path rooted at ``supply`` or ``circuit``.
+
+    Each lookup is made once per distinct device, conductor arrangement and rule case, so a schedule
+    of thousands of circuits costs a few dozen.
+    """
+    if circuit.conductors is None and circuit.r1_plus_r2_ohm is None:
+        return InvalidInput(("circuit", "conductors"), "give the conductors, or a known r1_plus_r2_ohm")
+    c = circuit.conductors
+    for problem in (
+        _device_problem(circuit.device),
+        None if c is None else _conductor_problem(cond.arrangement(c), c.parallel_cables),
+        _rules_problem(supply, circuit.role, circuit.load, circuit.device.rating_a),
+    ):
+        if problem is not None:
+            return problem
+    return None
+
+
+@lru_cache(maxsize=4096)
+def _device_problem(spec) -> ElectricalError | None:
+    try:
+        dev = resolve(spec)
+        if spec.rcd is not None:
+            residual.rcd_characteristic(spec.rcd.residual_current_ma, spec.rcd.delay)
+        if dev.residual and spec.rcd is None:
+            raise InvalidInput("rcd", f"an RCBO to {dev.standard} needs its residual part: rcd.residual_current_ma")
+    except ElectricalError as err:
+        return err.within("circuit", "device")
+    return None
+
+
+@lru_cache(maxsize=4096)
+def _conductor_problem(arrangement: tuple, parallel_cables: int) -> ElectricalError | None:
+    try:
+        cond.check_parallel_cables(parallel_cables)
+        cond.constants_of(*arrangement)
+    except ElectricalError as err:
+        return err.within("circuit", "conductors")
+    return None
+
+
+@lru_cache(maxsize=4096)
+def _rules_problem(supply: Supply, role: str, load: str | None, rating_a: float) -> ElectricalError | None:
+    for name in ("ze_ohm", "u0_v"):
+        if not getattr(supply, name) > 0:
+            return InvalidInput(("supply", name), "must be greater than zero")
+    try:
+        disconnection.max_disconnection_time_s(
+            supply.earthing, supply.u0_v, role, load, rating_a, supply.current_kind, False, supply.reduced_low_voltage,
+        )
+        faults.prospective_fault_current_ka(supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max)
+    except ElectricalError as err:
+        return err.within("supply" if err.path[0] in SUPPLY_PARAMETERS else "circuit")
+    return None

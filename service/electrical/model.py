@@ -1,0 +1,81 @@
+"""What the core is asked about: the supply, the device, the conductors and the circuit.
+
+Plain frozen dataclasses, loaded from requests by the HTTP face and built directly by the CLI and the
+tests. Quantities carry their unit in the name.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+
+@dataclass(frozen=True)
+class Supply:
+    """The supply at the origin. For TT, ``ze_ohm`` is the whole external loop including RA."""
+
+    earthing: str
+    u0_v: float
+    ze_ohm: float
+    prospective_fault_current_ka: float | None = None
+    c_max: float | None = None
+    electrode_ohm: float | None = None
+    bonding_complete: bool = False
+    current_kind: str = "ac"
+    reduced_low_voltage: bool = False
+
+
+@dataclass(frozen=True)
+class Rcd:
+    """The residual part of an RCBO, or an RCD in the circuit: IΔn in mA and its delay (general or S)."""
+
+    residual_current_ma: float
+    delay: str = "general"
+
+
+@dataclass(frozen=True)
+class DeviceSpec:
+    """A protective device as a request names it: a standard, type and rating, or the user's own curve."""
+
+    rating_a: float
+    standard: str | None = None
+    type: str | None = None
+    breaking_capacity_ka: float | None = None
+    curve_points: tuple[tuple[float, float], ...] | None = None
+    rcd: Rcd | None = None
+    let_through_a2s: float | None = None
+
+    @property
+    def curve_key(self) -> tuple:
+        """What decides the overcurrent characteristic (circuits sharing it share one lookup)."""
+        return (self.standard, self.type, float(self.rating_a), self.curve_points)
+
+
+@dataclass(frozen=True)
+class Conductors:
+    """The circuit's cable: materials, insulation, sizes, route length, ring, cables in parallel, the cpc."""
+
+    material: str
+    insulation: str
+    line_csa_mm2: float
+    cpc_csa_mm2: float
+    length_m: float
+    cpc_arrangement: str = "in-cable"
+    ring: bool = False
+    parallel_cables: int = 1
+    conductor_class: int = 2
+    cpc_material: str | None = None
+    cpc_resistance_mohm_per_m: float | None = None
+    bare_condition: str | None = None
+
+
+@dataclass(frozen=True)
+class Circuit:
+    """One circuit: its device, its conductors (or a known R1+R2), its role and load."""
+
+    device: DeviceSpec
+    conductors: Conductors | None = None
+    r1_plus_r2_ohm: float | None = None
+    role: str = "final"
+    load: str | None = None
+    id: str | None = None
+    design_current_a: float | None = None

@@ -1,0 +1,138 @@
+"""How the circuit's devices answer its earth fault: which time applies, when each device operates.
+
+The overcurrent device is read off its characteristic at the earth fault current (one read per group
+of circuits sharing a device); an RCD, where fitted, off its break times. Where the overcurrent
+device cannot meet the time and the RCD can, the RCD disconnects (411.4.5 TN, 411.5.3 TT).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+import numpy as np
+
+from . import disconnection, verdicts
+from .arrays import finite_or_none
+from .columns import CircuitColumns
+from .devices import residual
+from .devices.catalogue import resolve
+from .errors import ElectricalError
+from .devices.characteristic import BEYOND_DATA, ESTIMATED, bound_names
+from .faults import FaultLoop
+from .limits import max_zs_for_current_ohm
+from .model import DeviceSpec
+
+CAUTION_ESTIMATED = (
+    "A figure rests on an estimated part of the device's curve; a maker's curve (curve_points) removes the estimate."
+)
+
+
+@dataclass
+class DeviceResponse:
+    """The devices' answer to each circuit's earth fault (times s, currents A, impedances ohm, bounds as codes)."""
+
+    required_oc_s: np.ndarray  # the maximum time for the overcurrent device (TN times in a bonded TT installation)
+    required_oc_basis: np.ndarray
+    required_rcd_s: np.ndarray
+    required_rcd_basis: np.ndarray
+    oc_time_s: np.ndarray
+    oc_bound: np.ndarray
+    oc_verdict: np.ndarray
+    region: np.ndarray
+    operating_current_a: np.ndarray  # Ia for the overcurrent device's required time
+    operating_bound: np.ndarray
+    max_zs_oc_ohm: np.ndarray  # U0 x Cmin / Ia
+    rcd_time_s: np.ndarray
+    rcd_bound: np.ndarray
+    rcd_verdict: np.ndarray
+    rcd_limit_ohm: np.ndarray  # 50 V / IΔn, NaN without an RCD
+    rcd_loop_ohm: np.ndarray  # what the 50 V rule judges: RA in TT (Zs where RA is not given), Zs in TN
+    by_rcd: np.ndarray  # the RCD disconnects where the overcurrent device cannot
+    time_s: np.ndarray
+    bound: np.ndarray
+    required_s: np.ndarray
+    required_basis: np.ndarray
+    zs_ohm: np.ndarray
+    cautions: list[tuple[np.ndarray, str]]
+
+    def figures(self) -> dict[str, Any]:
+        """The response's figures under the names of the circuit result."""
+        with np.errstate(divide="ignore", invalid="ignore"):
+            margin = (self.max_zs_oc_ohm - self.zs_ohm) / self.max_zs_oc_ohm * 100.0
+        by = np.where(self.by_rcd, "rcd", "overcurrent-device").astype(object)
+        return {
+            "disconnection_time_s": self.time_s, "disconnection_time_bound": bound_names(self.bound),
+            "disconnection_region": np.where(self.by_rcd, "residual", self.region),
+            "disconnected_by": np.where(self.bound == BEYOND_DATA, None, by),
+            "max_disconnection_time_s": self.required_s, "max_disconnection_basis": self.required_basis,
+            "operating_current_a": self.operating_current_a, "operating_current_bound": bound_names(self.operating_bound),
+            "max_zs_ohm": self.max_zs_oc_ohm, "zs_margin_percent": margin, "rcd_max_zs_ohm": self.rcd_limit_ohm,
+        }
+
+
+def device_response(cols: CircuitColumns, loop: FaultLoop) -> DeviceResponse:
+    """Times, Ia and max Zs of the overcurrent device, the RCD's times and limit, and which one disconnects."""
+    n = cols.n
+    args = (cols.earthing, cols.u0_v, cols.role, cols.load, cols.rating_a, cols.current_kind)
+    req_oc, basis_oc = disconnection.max_disconnection_time_s(*args, cols.tt & cols.bonded, cols.reduced_low_voltage)
+    req_rcd, basis_rcd = disconnection.max_disconnection_time_s(*args, False, cols.reduced_low_voltage)
+    i_f = loop.earth_fault_a
+    oc_t, oc_b, ia, ia_b = np.empty(n), np.empty(n, np.int8), np.empty(n), np.empty(n, np.int8)
+    region = np.empty(n, dtype=object)
+    for idx in cols.device_groups.values():
+        dev = cols.devices[idx[0]]
+        oc_t[idx], oc_b[idx] = dev.characteristic.time_codes(i_f[idx])
+        region[idx] = np.array(dev.region_names(), dtype=object)[dev.region_codes(i_f[idx])]
+        ia[idx], ia_b[idx] = dev.characteristic.current_codes(np.nan_to_num(req_oc[idx], nan=np.inf))
+    rcd_t, rcd_b = np.full(n, np.inf), np.full(n, BEYOND_DATA, np.int8)
+    for (ma, delay), idx in cols.rcd_groups.items():
+        rcd_t[idx], rcd_b[idx] = residual.rcd_characteristic(ma, delay).time_codes(i_f[idx])
+    rcd_limit = np.where(cols.has_rcd, residual.rcd_max_loop_ohm(cols.residual_ma), np.nan)
+    ra = np.where(np.isnan(cols.electrode_ohm), loop.zs_ohm, cols.electrode_ohm + np.nan_to_num(cols.conductors.r2))
+    v_oc = disconnection.time_verdicts(oc_t, oc_b, req_oc)
+    v_rcd = np.where(cols.has_rcd, disconnection.time_verdicts(rcd_t, rcd_b, req_rcd), verdicts.NOT_VERIFIED)
+    by_rcd = cols.has_rcd & (v_oc != verdicts.PASS) & (v_rcd == verdicts.PASS)
+    bound = np.where(by_rcd, rcd_b, oc_b)
+    return DeviceResponse(
+        required_oc_s=req_oc, required_oc_basis=basis_oc, required_rcd_s=req_rcd, required_rcd_basis=basis_rcd,
+        oc_time_s=oc_t, oc_bound=oc_b, oc_verdict=v_oc, region=region,
+        operating_current_a=ia, operating_bound=ia_b, max_zs_oc_ohm=max_zs_for_current_ohm(cols.u0_v, ia),
+        rcd_time_s=rcd_t, rcd_bound=rcd_b, rcd_verdict=v_rcd.astype(np.int8), rcd_limit_ohm=rcd_limit,
+        rcd_loop_ohm=np.where(cols.tt, ra, loop.zs_ohm),
+        by_rcd=by_rcd, time_s=np.where(by_rcd, rcd_t, oc_t), bound=bound,
+        required_s=np.where(by_rcd, req_rcd, req_oc), required_basis=np.where(by_rcd, basis_rcd, basis_oc),
+        zs_ohm=loop.zs_ohm,
+        cautions=[((bound == ESTIMATED) | (ia_b == ESTIMATED), CAUTION_ESTIMATED)],
+    )
+
+
+@dataclass
+class OperatingTime:
+    """The answer to 'how fast does this device operate at this current?' (s), with the RCD's time where fitted."""
+
+    time_s: float | None
+    bound: str
+    region: str
+    rcd_time_s: float | None
+    rcd_bound: str | None
+    device: dict[str, Any]
+
+
+def operating_time(spec: DeviceSpec, current_a: float) -> OperatingTime:
+    """Maximum operating time of a device at a current, its bound and region; the RCD's break time beside it.
+
+    Errors carry a path below the device (``rating_a``, ``rcd.delay`` ...).
+    """
+    try:
+        dev = resolve(spec)
+        rcd = None if spec.rcd is None else residual.rcd_characteristic(spec.rcd.residual_current_ma, spec.rcd.delay)
+    except ElectricalError as err:
+        raise err.within("device") from None
+    t, bound = dev.time_at(current_a)
+    rcd_t, rcd_bound = (None, None) if rcd is None else rcd.time_at(current_a)
+    return OperatingTime(
+        time_s=finite_or_none(t), bound=str(bound), region=str(dev.region_at(current_a)),
+        rcd_time_s=None if rcd_t is None else finite_or_none(rcd_t), rcd_bound=None if rcd_bound is None else str(rcd_bound),
+        device=dev.summary(),
+    )

@@ -1,0 +1,146 @@
+"""The result of a circuit check, and the one function that builds results from the pipeline's arrays.
+
+A :class:`CircuitResult` field is filled from the column of the same name that a stage offers
+(``FaultLoop.figures()``, ``DeviceResponse.figures()``), from the checks, or from the check's detail
+columns; renaming an output is a change to this class and to the stage that computes it.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Mapping
+from dataclasses import dataclass, field, fields
+from typing import TYPE_CHECKING, Any
+
+import numpy as np
+
+from . import verdicts
+from .verdicts import Verdict
+
+if TYPE_CHECKING:
+    from .checks import CheckColumns
+    from .circuit import Checked
+
+GENERAL_CAUTIONS = (
+    "This result supports a competent person; it does not replace one. A competent person must verify the design.",
+    "The current edition of BS 7671 / IEC 60364, local codes and licensed practice prevail over this result.",
+    "Site measurements (Ze, Zs, R1+R2, RCD operation) must confirm the design before the circuit is put into service.",
+)
+
+
+@dataclass
+class Check:
+    """One check of one circuit: verdict, value against limit in ``unit``, margin, the clause, a note."""
+
+    check: str
+    verdict: Verdict
+    value: float | None
+    limit: float | None
+    unit: str
+    margin_percent: float | None
+    basis: str
+    note: str | None = None
+
+
+@dataclass
+class CircuitResult:
+    id: str | None
+    r1_plus_r2_ohm: float | None
+    zs_ohm: float
+    earth_fault_current_a: float
+    earth_fault_current_nominal_a: float
+    prospective_fault_current_ka: float
+    prospective_fault_current_basis: str
+    device: dict[str, Any]
+    disconnection_time_s: float | None
+    disconnection_time_bound: str
+    disconnection_region: str
+    disconnected_by: str | None
+    max_disconnection_time_s: float | None
+    max_disconnection_basis: str
+    operating_current_a: float | None
+    operating_current_bound: str
+    max_zs_ohm: float | None
+    zs_margin_percent: float | None
+    rcd_max_zs_ohm: float | None
+    protective_conductor: dict[str, Any]
+    checks: list[Check]
+    verdict: Verdict
+    cautions: list[str] = field(default_factory=list)
+
+    def check(self, name: str) -> Check | None:
+        """The check called ``name``, or None where it does not apply to this circuit."""
+        return next((c for c in self.checks if c.check == name), None)
+
+
+FIGURES = tuple(f.name for f in fields(CircuitResult))
+
+
+def lists_of(columns: Mapping[str, Any]) -> dict[str, list[Any]]:
+    """Each column as a list: floats with None where NaN or infinite (JSON has neither), texts as they are.
+
+    All float columns go through numpy together: one conversion for the lot, whatever the count of circuits.
+    """
+    numeric = [name for name, col in columns.items() if isinstance(col, np.ndarray) and col.dtype.kind in "fiu"]
+    converted: dict[str, list[Any]] = {}
+    if numeric:
+        stacked = np.vstack([np.asarray(columns[name], dtype=float) for name in numeric])
+        lists = stacked.tolist()
+        for r, c in zip(*np.nonzero(~np.isfinite(stacked))):
+            lists[r][c] = None
+        converted = dict(zip(numeric, lists))
+    return {name: converted[name] if name in converted else (col.tolist() if isinstance(col, np.ndarray) else list(col))
+            for name, col in columns.items()}
+
+
+def _check_records(check: CheckColumns, n: int) -> list[Check | None]:
+    """One :class:`Check` per circuit where the check applies (None elsewhere)."""
+    v = verdicts.decode(check.verdict)
+    cells = lists_of({"value": check.value, "limit": check.limit, "margin": check.margin_percent,
+                      "basis": check.basis, "note": check.note})
+    applies = [True] * n if check.applies is None else np.asarray(check.applies, dtype=bool).tolist()
+    return [
+        Check(check.check, v[i], cells["value"][i], cells["limit"][i], check.unit, cells["margin"][i],
+              cells["basis"][i], cells["note"][i]) if applies[i] else None
+        for i in range(n)
+    ]
+
+
+def _detail_records(columns: Mapping[str, Any], n: int) -> list[dict[str, Any]]:
+    cells = lists_of({k: v for k, v in columns.items() if k != "verdict"})
+    names = list(cells)
+    rows = [dict(zip(names, row)) for row in zip(*(cells[name] for name in names))] or [{} for _ in range(n)]
+    for row, v in zip(rows, verdicts.decode(columns["verdict"])):
+        row["verdict"] = v
+    return rows
+
+
+def _cautions(checked: Checked) -> list[list[str]]:
+    out = [list(GENERAL_CAUTIONS) for _ in range(checked.cols.n)]
+    for mask, text in checked.cautions:
+        for i in np.flatnonzero(mask).tolist():
+            out[i].append(text)
+    return out
+
+
+def assemble(checked: Checked) -> list[CircuitResult]:
+    """One :class:`CircuitResult` per circuit, in order, from the pipeline's arrays."""
+    cols = checked.cols
+    n = cols.n
+    figures = lists_of({**checked.loop.figures(), **checked.trip.figures()})
+    names = list(figures)
+    per_check = [_check_records(c, n) for c in checked.checks]
+    details = {c.detail[0]: _detail_records(c.detail[1], n) for c in checked.checks if c.detail is not None}
+    codes = np.vstack([np.where(c.applies if c.applies is not None else True, c.verdict, verdicts.PASS)
+                       for c in checked.checks]).max(axis=0)
+    overall = verdicts.decode(codes)
+    summaries = {id(d): d.summary() for d in {id(d): d for d in cols.devices}.values()}
+    cautions = _cautions(checked)
+    rows = zip(*(figures[name] for name in names))
+    return [
+        CircuitResult(
+            id=circuit.id, device=summaries[id(dev)], checks=[c[i] for c in per_check if c[i] is not None],
+            verdict=overall[i], cautions=cautions[i], **{key: details[key][i] for key in details},
+            **dict(zip(names, row)),
+        )
+        for i, (circuit, dev, row) in enumerate(zip(cols.circuits, cols.devices, rows))
+    ]

@@ -1,0 +1,147 @@
+"""The request examples in schemas/examples/, sent to the app, their answers checked field by field.
+
+Hand calculations are written beside each check (invented demo scenario: Larkspur Bakery).
+"""
+
+import json
+from pathlib import Path
+
+import pytest
+
+EXAMPLES = Path(__file__).resolve().parents[2] / "schemas" / "examples"
+
+
+def send(client, path, name):
+    body = json.loads((EXAMPLES / name).read_text())
+    response = client.post(path, json=body)
+    assert response.status_code == 200, response.get_data(as_text=True)
+    assert response.mimetype == "application/json"
+    return response.get_json()
+
+
+def test_every_example_is_sent_by_a_test():
+    sent = {"circuits-check.json", "circuits-check-batch.json", "fault-current.json", "fault-current-conductors.json",
+            "disconnection-time.json", "max-zs.json", "protective-conductor.json",
+            "circuits-size.json", "circuits-max-length.json", "test-results-verify.json"}
+    assert {p.name for p in EXAMPLES.glob("*.json")} == sent
+
+
+def test_circuit_check_example(client):
+    r = send(client, "/v1/circuits/check", "circuits-check.json")
+    # R1+R2 = (3.08 + 7.41) x 1.20 x 18 / 1000 = 0.226584; Zs = 0.506584; If = 218.5 / Zs = 431.32 A
+    assert r["id"] == "larkspur-oven"
+    assert r["r1_plus_r2_ohm"] == pytest.approx(0.226584)
+    assert r["zs_ohm"] == pytest.approx(0.506584)
+    assert r["earth_fault_current_a"] == pytest.approx(431.32, abs=0.01)
+    assert r["earth_fault_current_nominal_a"] == pytest.approx(230 / 0.506584)
+    assert r["disconnection_time_s"] == 0.1 and r["disconnection_time_bound"] == "at-most"
+    assert r["max_disconnection_time_s"] == 0.4 and "Table 41.1" in r["max_disconnection_basis"]
+    assert r["operating_current_a"] == 160  # 5 In, BS 7671 Table 41.3
+    assert r["max_zs_ohm"] == pytest.approx(1.365625)  # 0.95 x 230 / 160
+    assert r["zs_margin_percent"] == pytest.approx((1.365625 - 0.506584) / 1.365625 * 100)
+    pc = r["protective_conductor"]
+    assert pc["k"] == 115 and pc["csa_mm2"] == 2.5 and pc["verdict"] == "pass"
+    assert pc["min_csa_mm2"] == pytest.approx((431.32**2 * 0.1) ** 0.5 / 115, abs=1e-3)  # 1.186 mm2
+    assert [c["check"] for c in r["checks"]] == ["disconnection-time", "max-zs", "protective-conductor", "breaking-capacity"]
+    assert all(c["verdict"] == "pass" for c in r["checks"])
+    assert r["verdict"] == "pass"
+    assert any("competent person" in c for c in r["cautions"])
+
+
+def test_batch_example(client):
+    r = send(client, "/v1/circuits/check-batch", "circuits-check-batch.json")
+    items = r["results"]
+    assert [i["index"] for i in items] == [0, 1, 2, 3]
+    assert [i["id"] for i in items] == ["larkspur-oven", "larkspur-garden-lights", "larkspur-mixer", "larkspur-shop-ring"]
+    assert items[0]["result"]["verdict"] == "pass"
+    assert items[1]["result"]["verdict"] == "fail"  # Zs 1.68472 > 1.0925 (C20)
+    assert items[2]["problem"]["status"] == 422  # no 17 A BS 88-2 fuse
+    assert items[2]["problem"]["errors"][0]["pointer"] == "/circuits/2/device/rating_a"
+    assert items[3]["result"]["r1_plus_r2_ohm"] == pytest.approx(0.374592)  # (0.47424 + 0.7744) x 1.2 / 4
+    assert r["summary"] == {"circuits": 4, "pass": 2, "fail": 1, "not-verified": 0, "invalid": 1}
+
+
+def test_fault_current_examples(client):
+    r = send(client, "/v1/fault-current", "fault-current.json")
+    assert r["earth_fault_current_a"] == pytest.approx(273.125)  # 0.95 x 230 / 0.8
+    assert r["earth_fault_current_nominal_a"] == pytest.approx(287.5)  # 230 / 0.8
+    assert r["r1_plus_r2_ohm"] is None and r["prospective_fault_current_ka"] is None
+    r = send(client, "/v1/fault-current", "fault-current-conductors.json")
+    assert r["r1_plus_r2_ohm"] == pytest.approx(0.226584) and r["zs_ohm"] == pytest.approx(0.506584)
+    assert r["prospective_fault_current_ka"] == pytest.approx(230 * 1.1 / 0.28 / 1000)  # U0 cmax / Ze
+
+
+def test_disconnection_time_example(client):
+    r = send(client, "/v1/disconnection-time", "disconnection-time.json")
+    # BS 88-3 32 A: Ia(0.4 s) = 239.6 A (BS 7671:2008+A1 Table 41.2 via tests/data/fuse-operating-currents.csv)
+    assert r["time_s"] == 0.4 and r["bound"] == "interpolated" and r["region"] == "fuse-curve"
+    assert r["device"]["device_id"] == "bs-88-3-gg" and r["rcd_time_s"] is None
+
+
+def test_max_zs_example(client):
+    r = send(client, "/v1/max-zs", "max-zs.json")
+    assert r["operating_current_a"] == 160
+    assert r["max_zs_ohm"] == pytest.approx(1.365625)  # BS 7671 Table 41.3 B32: 1.37
+    assert r["max_measured_zs_ohm"] == pytest.approx(1.365625 / 1.2)  # at 20 degC against 70 degC
+    assert r["max_measured_zs_rule_of_thumb_ohm"] == pytest.approx(1.365625 * 0.8)
+    assert r["rcd_max_zs_ohm"] is None
+
+
+def test_protective_conductor_example(client):
+    r = send(client, "/v1/protective-conductor", "protective-conductor.json")
+    # S = sqrt(900^2 x 0.4) / 115 = 4.95 mm2 -> 6 mm2; Table 54.7 for 10 mm2 line: 10 mm2
+    assert r["k"] == 115 and r["k_tabulated"] == 115
+    assert r["min_csa_mm2"] == pytest.approx((900**2 * 0.4) ** 0.5 / 115)
+    assert r["csa_mm2"] == 6 and r["selection_csa_mm2"] == 10
+    assert r["verdict"] == "fail"  # 4 mm2 chosen: below 4.95 mm2 and below Table 54.7's 10 mm2
+
+
+def test_devices_and_characteristic(client):
+    r = client.get("/v1/devices").get_json()
+    assert any(d["device_id"] == "bs-en-60898-b" for d in r["devices"])
+    r = client.get("/v1/devices/bs-en-60898-b/32/characteristic")
+    assert r.status_code == 200
+    points = r.get_json()["points"]
+    assert points[-1] == {"current_a": 160, "time_s": 0.1, "estimated": False}
+    assert client.get("/v1/devices/bs-88-2-gg/17/characteristic").status_code == 404
+    assert client.get("/v1/devices/nothing/32/characteristic").status_code == 404
+
+
+def test_health(client):
+    assert client.get("/healthz").get_json() == {"status": "ok"}
+    assert client.get("/readyz").get_json() == {"status": "ready"}
+    text = client.get("/metrics").get_data(as_text=True)
+    assert "faultpath_requests_total" in text and "faultpath_verdicts_total" in text
+
+
+def test_api_size_and_max_length_examples(client):
+    body = json.loads((EXAMPLES / "circuits-size.json").read_text())
+    r = client.post("/v1/circuits/size", json=body)
+    assert r.status_code == 200, r.get_data(as_text=True)
+    out = r.get_json()
+    # RCBO B25 30 mA: the same sizes as the hand calculation above; with the RCD the loop limit is 50 V / 30 mA
+    assert out["device"]["rating_a"] == 25 and out["selected"]["line_csa_mm2"] == 4
+    assert [t["ruled_out_by"] for t in out["tried"]] == ["capacity", "voltage-drop"]
+    assert out["max_length"]["limited_by"] == "voltage-drop"
+    assert out["max_length"]["max_length_m"] == pytest.approx(43.5606, abs=1e-3)
+    r = client.post("/v1/circuits/max-length", json=json.loads((EXAMPLES / "circuits-max-length.json").read_text()))
+    assert r.status_code == 200 and r.get_json()["limited_by"] == "voltage-drop"
+    bad = dict(body, installation={"cable": "flat-twin-earth-70c", "installation_method": "E"})
+    r = client.post("/v1/circuits/size", json=bad)
+    assert r.status_code == 422 and r.get_json()["errors"][0]["pointer"] == "/installation/installation_method"
+
+
+def test_api_verify_example(client):
+    r = client.post("/v1/test-results/verify", json=json.loads((EXAMPLES / "test-results-verify.json").read_text()))
+    assert r.status_code == 200, r.get_data(as_text=True)
+    ring, oven = r.get_json()["results"]
+    judged = {j["test"]: j for j in ring["result"]["judgements"]}
+    # ring: max Zs 1.3656 ohm x (1.0 / 1.2) = 1.1380 ohm for a value measured at 20 degC; 0.8 rule 1.0925 ohm
+    assert judged["zs"]["limit"] == pytest.approx(1.365625 / 1.2) and judged["zs"]["rule_of_thumb_limit"] == pytest.approx(1.0925)
+    # R1+R2 0.30 ohm at 20 degC -> 0.36 ohm at 70 degC; + Ze 0.28 = 0.64 <= 1.3656
+    assert judged["r1-plus-r2"]["corrected_value"] == pytest.approx(0.36) and judged["r1-plus-r2"]["verdict"] == "pass"
+    assert judged["rcd-time-idn"]["limit"] == 300 and judged["rcd-time-5idn"]["limit"] == 40
+    assert ring["result"]["verdict"] == "pass"
+    # oven at 15 degC: limit 1.3656 x (0.98 / 1.2) = 1.1152 ohm < 1.2 ohm measured -> fail
+    assert oven["result"]["judgements"][0]["limit"] == pytest.approx(1.365625 * 0.98 / 1.2)
+    assert oven["result"]["verdict"] == "fail"

@@ -1,0 +1,43 @@
+"""Loop impedance and fault currents."""
+
+import pytest
+
+from service.electrical import faults
+from service.electrical.errors import InvalidInput, UnknownConductor
+from service.electrical.model import Conductors, Supply
+
+
+def test_earth_fault_current_uses_cmin():
+    # IEC 60909-0 Table 1: cmin 0.95; If = U0 x Cmin / Zs
+    assert faults.earth_fault_current_a(230, 1.0) == pytest.approx(218.5)
+    assert faults.earth_fault_current_a(230, 1.0, voltage_factor=1) == pytest.approx(230)
+
+
+def test_loop_impedance_is_ze_plus_r1r2():
+    assert faults.loop_impedance_ohm(0.35, [0.1, 0.2]).tolist() == pytest.approx([0.45, 0.55])
+
+
+def test_prospective_fault_current_stated_or_from_ze():
+    # IEC 60909-0 Table 1: cmax 1.10 (or 1.05) at low voltage
+    assert faults.prospective_fault_current_ka(230, 0.35) == pytest.approx(230 * 1.1 / 0.35 / 1000)
+    assert faults.prospective_fault_current_ka(230, 0.35, c_max=1.05) == pytest.approx(230 * 1.05 / 0.35 / 1000)
+    assert faults.prospective_fault_current_ka(230, 0.35, 1.6) == 1.6
+    with pytest.raises(InvalidInput):
+        faults.prospective_fault_current_ka(230, 0.35, c_max=1.2)
+
+
+def test_zero_loop_is_rejected():
+    with pytest.raises(InvalidInput):
+        faults.earth_fault_current_a(230, 0.0)
+
+
+def test_fault_current_from_the_supply_and_the_conductors():
+    # 6/2.5 mm2 twin and earth, 18 m, 70 degC: R1+R2 = (3.08 + 7.41) x 1.20 x 18 / 1000 = 0.226584 ohm (IEC 60228,
+    # BS 7671 Appendix 3 multiplier); Zs = 0.28 + 0.226584; If = 0.95 x 230 / Zs; PFC 1.10 x 230 / 0.28 (IEC 60909-0)
+    figures = faults.fault_current(supply=Supply("TN-C-S", 230, 0.28), conductors=Conductors("copper", "thermoplastic-70", 6, 2.5, 18))
+    assert figures.r1_plus_r2_ohm == pytest.approx(0.226584) and figures.zs_ohm == pytest.approx(0.506584)
+    assert figures.earth_fault_current_a == pytest.approx(218.5 / 0.506584)
+    assert figures.prospective_fault_current_ka == pytest.approx(1.1 * 230 / 0.28 / 1000)
+    with pytest.raises(UnknownConductor) as err:
+        faults.fault_current(supply=Supply("TN-C-S", 230, 0.28), conductors=Conductors("copper", "thermoplastic-70", 3, 2.5, 18))
+    assert err.value.path == ("conductors", "line_csa_mm2")
