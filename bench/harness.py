@@ -40,13 +40,21 @@ class Server:
         self.tmp = tempfile.mkdtemp(prefix="faultpath-bench-")
         self.pidfile = os.path.join(self.tmp, "gunicorn.pid")
         environ = dict(os.environ)
-        environ.update(FAULTPATH_PORT=str(self.port), FAULTPATH_WORKERS=str(workers), FAULTPATH_RATE_LIMIT="",
-                       PROMETHEUS_MULTIPROC_DIR=os.path.join(self.tmp, "metrics"), FAULTPATH_LOG_LEVEL="warning",
-                       PYTHONPATH=str(ROOT))
+        environ.update(
+            FAULTPATH_PORT=str(self.port),
+            FAULTPATH_WORKERS=str(workers),
+            FAULTPATH_RATE_LIMIT="",
+            PROMETHEUS_MULTIPROC_DIR=os.path.join(self.tmp, "metrics"),
+            FAULTPATH_LOG_LEVEL="warning",
+            PYTHONPATH=str(ROOT),
+        )
         environ.update(env or {})
         self.proc = subprocess.Popen(
             [PY, "-m", "gunicorn", "-c", str(CONF), "-p", self.pidfile, "--access-logfile", os.devnull, app],
-            cwd=ROOT, env=environ, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+            cwd=ROOT,
+            env=environ,
+            stdout=subprocess.DEVNULL,
+            stderr=subprocess.DEVNULL,
         )
         self.wait_ready("/healthz" if "wsgi" in app else "/ping")
 
@@ -112,10 +120,27 @@ def median_time(fn, runs: int = 5) -> float:
 
 def wrk_run(port: int, path: str, body: bytes, seconds: int, connections: int) -> tuple[float, float, float]:
     script = tempfile.NamedTemporaryFile("w", suffix=".lua", delete=False)
-    script.write('wrk.method = "POST"\nwrk.headers["Content-Type"] = "application/json"\nwrk.body = ' + json.dumps(body.decode()) + "\n")
+    script.write(
+        'wrk.method = "POST"\nwrk.headers["Content-Type"] = "application/json"\nwrk.body = '
+        + json.dumps(body.decode())
+        + "\n"
+    )
     script.close()
-    out = subprocess.run(["wrk", "-t2", f"-c{connections}", f"-d{seconds}s", "--latency", "-s", script.name,
-                          f"http://127.0.0.1:{port}{path}"], capture_output=True, text=True, timeout=seconds + 30).stdout
+    out = subprocess.run(
+        [
+            "wrk",
+            "-t2",
+            f"-c{connections}",
+            f"-d{seconds}s",
+            "--latency",
+            "-s",
+            script.name,
+            f"http://127.0.0.1:{port}{path}",
+        ],
+        capture_output=True,
+        text=True,
+        timeout=seconds + 30,
+    ).stdout
     os.unlink(script.name)
     rps = float(re.search(r"Requests/sec:\s+([\d.]+)", out).group(1))
 
@@ -133,12 +158,29 @@ def wrk_run(port: int, path: str, body: bytes, seconds: int, connections: int) -
 def wrk_detail(port: int, path: str, body: bytes, seconds: int, connections: int, timeout_s: int = 10) -> dict:
     """A wrk run with every figure it reports: requests, rate, p50/p99 (ms), socket errors, non-2xx answers."""
     script = tempfile.NamedTemporaryFile("w", suffix=".lua", delete=False)
-    script.write('wrk.method = "POST"\nwrk.headers["Content-Type"] = "application/json"\nwrk.body = ' + json.dumps(body.decode()) + "\n")
+    script.write(
+        'wrk.method = "POST"\nwrk.headers["Content-Type"] = "application/json"\nwrk.body = '
+        + json.dumps(body.decode())
+        + "\n"
+    )
     script.close()
     threads = max(1, min(2, connections))
-    out = subprocess.run(["wrk", f"-t{threads}", f"-c{connections}", f"-d{seconds}s", f"--timeout={timeout_s}s", "--latency",
-                          "-s", script.name, f"http://127.0.0.1:{port}{path}"], capture_output=True, text=True,
-                         timeout=seconds + 60).stdout
+    out = subprocess.run(
+        [
+            "wrk",
+            f"-t{threads}",
+            f"-c{connections}",
+            f"-d{seconds}s",
+            f"--timeout={timeout_s}s",
+            "--latency",
+            "-s",
+            script.name,
+            f"http://127.0.0.1:{port}{path}",
+        ],
+        capture_output=True,
+        text=True,
+        timeout=seconds + 60,
+    ).stdout
     os.unlink(script.name)
 
     def pct(p: str) -> float:
@@ -150,7 +192,8 @@ def wrk_detail(port: int, path: str, body: bytes, seconds: int, connections: int
     return {
         "requests": int(re.search(r"(\d+) requests in", out).group(1)),
         "rps": float(re.search(r"Requests/sec:\s+([\d.]+)", out).group(1)),
-        "p50_ms": pct("50"), "p99_ms": pct("99"),
+        "p50_ms": pct("50"),
+        "p99_ms": pct("99"),
         "socket_errors": sum(int(x) for x in sock.groups()) if sock else 0,
         "non_2xx": int(non2xx.group(1)) if non2xx else 0,
     }
@@ -230,5 +273,3 @@ class Nginx:
             os.kill(int(pid_file.read_text()), signal.SIGTERM)
             time.sleep(0.3)
         shutil.rmtree(self.tmp, ignore_errors=True)
-
-

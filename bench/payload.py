@@ -11,7 +11,13 @@ _DEVICES = [
     {"standard": "BS EN 60898", "type": "B", "rating_a": 16, "breaking_capacity_ka": 6},
     {"standard": "BS EN 60898", "type": "B", "rating_a": 32, "breaking_capacity_ka": 6},
     {"standard": "BS EN 60898", "type": "C", "rating_a": 20, "breaking_capacity_ka": 10},
-    {"standard": "BS EN 61009", "type": "B", "rating_a": 32, "breaking_capacity_ka": 6, "rcd": {"residual_current_ma": 30}},
+    {
+        "standard": "BS EN 61009",
+        "type": "B",
+        "rating_a": 32,
+        "breaking_capacity_ka": 6,
+        "rcd": {"residual_current_ma": 30},
+    },
     {"standard": "BS 88-3", "type": "gG", "rating_a": 32},
     {"standard": "BS 88-2", "type": "gG", "rating_a": 63},
 ]
@@ -31,8 +37,14 @@ def circuits(n: int, seed: int = 7) -> list[dict]:
             "id": f"flat-{i // 12:04d}/way-{i % 12 + 1}",
             "role": role,
             "device": device,
-            "conductors": {"material": "copper", "insulation": "thermoplastic-70", "line_csa_mm2": line,
-                           "cpc_csa_mm2": cpc, "length_m": round(rng.uniform(3, 45), 1), "ring": ring},
+            "conductors": {
+                "material": "copper",
+                "insulation": "thermoplastic-70",
+                "line_csa_mm2": line,
+                "cpc_csa_mm2": cpc,
+                "length_m": round(rng.uniform(3, 45), 1),
+                "ring": ring,
+            },
         }
         if role == "final":
             item["load"] = rng.choice(["socket-outlets", "fixed-equipment"])

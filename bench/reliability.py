@@ -53,7 +53,9 @@ def rss_mb(pid: int) -> float:
     return float("nan")
 
 
-def request(port: int, method: str, path: str, body: bytes | None, content_type: str | None, accept: str = "application/json"):
+def request(
+    port: int, method: str, path: str, body: bytes | None, content_type: str | None, accept: str = "application/json"
+):
     conn = http.client.HTTPConnection("127.0.0.1", port, timeout=60)
     headers = {"Accept": accept}
     if content_type:
@@ -73,10 +75,16 @@ def run_corpus() -> None:
         for name, case in cases():
             counts["cases"] += 1
             try:
-                status, ctype, payload = request(server.port, case["method"], case["path"], body_of(case), case.get("content_type"))
+                status, ctype, payload = request(
+                    server.port, case["method"], case["path"], body_of(case), case.get("content_type")
+                )
             except (ConnectionError, http.client.HTTPException) as err:  # a body over the limit may be cut off mid-send
                 if case["expect_status"] == 413:
-                    status, ctype, payload = 413, "application/problem+json", b'{"type":"","title":"","status":413,"errors":[]}'
+                    status, ctype, payload = (
+                        413,
+                        "application/problem+json",
+                        b'{"type":"","title":"","status":413,"errors":[]}',
+                    )
                 else:
                     raise RuntimeError(f"{name}: {err}") from err
             counts[f"{status // 100}xx"] = counts.get(f"{status // 100}xx", 0) + 1
@@ -86,21 +94,34 @@ def run_corpus() -> None:
                 print(f"    {name}: {'; '.join(wrong)}")
     finally:
         server.stop()
-    say("hostile corpus over HTTP", f"{counts['cases']} cases: {counts['4xx']} 4xx, {counts['2xx']} 2xx (as documented), "
-        f"{counts['5xx']} 5xx, {counts['mismatches']} not as documented", counts["5xx"] == 0 and counts["mismatches"] == 0)
+    say(
+        "hostile corpus over HTTP",
+        f"{counts['cases']} cases: {counts['4xx']} 4xx, {counts['2xx']} 2xx (as documented), "
+        f"{counts['5xx']} 5xx, {counts['mismatches']} not as documented",
+        counts["5xx"] == 0 and counts["mismatches"] == 0,
+    )
 
 
 def run_schemathesis(examples: int) -> None:
     env = dict(os.environ, FAULTPATH_SCHEMATHESIS_EXAMPLES=str(examples))
     started = time.monotonic()
-    out = subprocess.run([PY, "-m", "pytest", "-q", "-p", "no:cacheprovider", str(ROOT / "tests" / "test_schemathesis.py")],
-                         cwd=ROOT, env=env, capture_output=True, text=True, timeout=3600)
+    out = subprocess.run(
+        [PY, "-m", "pytest", "-q", "-p", "no:cacheprovider", str(ROOT / "tests" / "test_schemathesis.py")],
+        cwd=ROOT,
+        env=env,
+        capture_output=True,
+        text=True,
+        timeout=3600,
+    )
     tail = out.stdout.strip().splitlines()[-1] if out.stdout.strip() else out.stderr[-300:]
     passed = int(m.group(1)) if (m := re.search(r"(\d+) passed", tail)) else 0
     failed = int(m.group(1)) if (m := re.search(r"(\d+) failed", tail)) else 0
-    say("schemathesis, every operation, positive and negative generation",
+    say(
+        "schemathesis, every operation, positive and negative generation",
         f"{examples} examples per operation and mode; {passed} operation runs passed, {failed} failed "
-        f"({time.monotonic() - started:.0f} s): {tail}", out.returncode == 0)
+        f"({time.monotonic() - started:.0f} s): {tail}",
+        out.returncode == 0,
+    )
 
 
 def soak(seconds: int) -> None:
@@ -121,12 +142,19 @@ def soak(seconds: int) -> None:
         server.stop()
     for name, r in (("circuits/check", single), ("1 000-circuit batch", batches)):
         errors = r["socket_errors"] + r["non_2xx"]
-        say(f"soak {seconds} s at 64 connections, {name}",
-            f"{r['requests']:,} requests, {r['rps']:,.1f}/s, p50 {r['p50_ms']:.1f} ms, p99 {r['p99_ms']:.1f} ms, {errors} errors", errors == 0)
+        say(
+            f"soak {seconds} s at 64 connections, {name}",
+            f"{r['requests']:,} requests, {r['rps']:,.1f}/s, p50 {r['p50_ms']:.1f} ms, p99 {r['p99_ms']:.1f} ms, "
+            f"{errors} errors",
+            errors == 0,
+        )
     same = [pid for pid in before if pid in after]
     growth = max((after[p] - before[p]) / before[p] * 100 for p in same) if same else float("nan")
-    say("worker memory growth over the soaks", f"{', '.join(f'{before[p]:.0f} -> {after[p]:.0f} MB' for p in same)}; "
-        f"largest {growth:+.1f} %", same != [] and growth < 10)
+    say(
+        "worker memory growth over the soaks",
+        f"{', '.join(f'{before[p]:.0f} -> {after[p]:.0f} MB' for p in same)}; largest {growth:+.1f} %",
+        same != [] and growth < 10,
+    )
 
 
 def kill_a_worker(seconds: int) -> None:
@@ -144,15 +172,21 @@ def kill_a_worker(seconds: int) -> None:
     finally:
         server.stop()
     failed = r["socket_errors"] + r["non_2xx"]
-    say("a worker killed with SIGKILL during load",
+    say(
+        "a worker killed with SIGKILL during load",
         f"{r['requests']:,} requests, {failed} failed (the requests on the killed worker); master replaced it: "
         f"{len(workers)} workers after, pid {victim} {'gone' if victim not in workers else 'still there'}",
-        len(workers) == 2 and victim not in workers)
+        len(workers) == 2 and victim not in workers,
+    )
 
 
 def stop_an_instance(seconds: int) -> None:
     if not (shutil.which("wrk") and shutil.which("nginx")):
-        say("two instances behind nginx, one stopped", "skipped: needs wrk and nginx (apt-get install wrk nginx-light)", False)
+        say(
+            "two instances behind nginx, one stopped",
+            "skipped: needs wrk and nginx (apt-get install wrk nginx-light)",
+            False,
+        )
         return
     check = (ROOT / "schemas" / "examples" / "circuits-check.json").read_bytes()
     a, b = Server(workers=2, env=QUIET), Server(workers=2, env=QUIET)
@@ -167,8 +201,11 @@ def stop_an_instance(seconds: int) -> None:
         a.stop()
         b.stop()
     failed = r["socket_errors"] + r["non_2xx"]
-    say("two instances behind nginx, one stopped during load",
-        f"{r['requests']:,} requests, {failed} failed (nginx retries on the other instance)", failed == 0)
+    say(
+        "two instances behind nginx, one stopped during load",
+        f"{r['requests']:,} requests, {failed} failed (nginx retries on the other instance)",
+        failed == 0,
+    )
 
 
 def lost_items(rounds: int) -> None:
@@ -181,8 +218,12 @@ def lost_items(rounds: int) -> None:
         nonlocal sent, lost, bad_sent, problems_back
         body = batch(1000, seed)
         for i in range(0, 1000, 10):  # every tenth item is bad: a rating no fuse has, or a length as text
-            body["circuits"][i] = dict(body["circuits"][i], conductors=dict(body["circuits"][i]["conductors"], length_m="far"))
-        status, _, payload = request(server.port, "POST", "/v1/circuits/check-batch", json.dumps(body).encode(), "application/json")
+            body["circuits"][i] = dict(
+                body["circuits"][i], conductors=dict(body["circuits"][i]["conductors"], length_m="far")
+            )
+        status, _, payload = request(
+            server.port, "POST", "/v1/circuits/check-batch", json.dumps(body).encode(), "application/json"
+        )
         with lock:
             sent += 1000
             bad_sent += 100
@@ -203,8 +244,12 @@ def lost_items(rounds: int) -> None:
             t.join()
     finally:
         server.stop()
-    say("lost batch items", f"{sent:,} items sent in {rounds} concurrent batches, {bad_sent:,} of them bad: "
-        f"{problems_back:,} problems came back, {lost} items lost, {len(errors)} failed batches", lost == 0 and not errors)
+    say(
+        "lost batch items",
+        f"{sent:,} items sent in {rounds} concurrent batches, {bad_sent:,} of them bad: "
+        f"{problems_back:,} problems came back, {lost} items lost, {len(errors)} failed batches",
+        lost == 0 and not errors,
+    )
 
 
 def main() -> int:
@@ -223,7 +268,10 @@ def main() -> int:
     width = max(len(name) for name, _ in REPORT)
     for name, value in REPORT:
         print(f"{name.ljust(width)} | {value}")
-    print(f"\n{len(REPORT) - len(FAILURES)} of {len(REPORT)} met" + (f"; not met: {', '.join(FAILURES)}" if FAILURES else ""))
+    print(
+        f"\n{len(REPORT) - len(FAILURES)} of {len(REPORT)} met"
+        + (f"; not met: {', '.join(FAILURES)}" if FAILURES else "")
+    )
     return 1 if FAILURES else 0
 
 

@@ -48,8 +48,13 @@ def bench_engine() -> None:
     array_s = median_time(lambda: check_circuits(supply, items), 5)
     loop_s = median_time(lambda: [check_circuit(supply, c) for c in items], 3)
     n = len(items)
-    row("engine: circuits per second, array path (2 000 circuits)", f"{n / array_s:,.0f}/s",
-        f"scalar loop {n / loop_s:,.0f}/s", f"{loop_s / array_s:.1f}x", ">= 30x")
+    row(
+        "engine: circuits per second, array path (2 000 circuits)",
+        f"{n / array_s:,.0f}/s",
+        f"scalar loop {n / loop_s:,.0f}/s",
+        f"{loop_s / array_s:.1f}x",
+        ">= 30x",
+    )
 
 
 # ---------------------------------------------------------------- 2. batch over HTTP, 4. memory
@@ -62,8 +67,13 @@ def bench_batch(server: Server) -> None:
     assert status == 200, data[:300]
     floor = median_time(lambda: json.dumps(json.loads(body)), 5)
     served = median_time(lambda: post(server.port, "/v1/circuits/check-batch", body), 5)
-    row(f"batch of 10 000 circuits over HTTP ({len(body) / 1e6:.1f} MB in, {len(data) / 1e6:.1f} MB out)",
-        f"{served * 1000:,.0f} ms", f"json.loads + json.dumps {floor * 1000:,.0f} ms", f"{served / floor:.1f}x", "<= 3x")
+    row(
+        f"batch of 10 000 circuits over HTTP ({len(body) / 1e6:.1f} MB in, {len(data) / 1e6:.1f} MB out)",
+        f"{served * 1000:,.0f} ms",
+        f"json.loads + json.dumps {floor * 1000:,.0f} ms",
+        f"{served / floor:.1f}x",
+        "<= 3x",
+    )
     streamed = median_time(lambda: post(server.port, "/v1/circuits/check-batch", body, "application/x-ndjson"), 3)
     row("same batch streamed as NDJSON", f"{streamed * 1000:,.0f} ms", "", f"{streamed / floor:.1f}x", "")
     peak = max(peak_rss_mb(pid) for pid in server.worker_pids())
@@ -79,17 +89,27 @@ def bench_single(server: Server, bare: Server, seconds: int) -> None:
     rps, p50, p99 = load(server.port, "/v1/circuits/check", body, seconds)
     b_rps, b_p50, b_p99 = load(bare.port, "/echo", body, seconds)
     tool = "wrk" if shutil.which("wrk") else "Python load generator"
-    row(f"single circuit check under load ({tool}, 16 connections, {seconds} s)",
+    row(
+        f"single circuit check under load ({tool}, 16 connections, {seconds} s)",
         f"{rps:,.0f} req/s, p50 {p50:.1f} ms, p99 {p99:.1f} ms",
-        f"bare Flask JSON {b_rps:,.0f} req/s, p50 {b_p50:.1f} ms, p99 {b_p99:.1f} ms", f"{rps / b_rps:.2f}x", ">= 0.7x")
+        f"bare Flask JSON {b_rps:,.0f} req/s, p50 {b_p50:.1f} ms, p99 {b_p99:.1f} ms",
+        f"{rps / b_rps:.2f}x",
+        ">= 0.7x",
+    )
 
 
 # ---------------------------------------------------------------- 4. worker start
 
 
 def bench_start() -> None:
-    code = "import time; t=time.perf_counter(); from service.app import create_app; create_app(); print(time.perf_counter()-t)"
-    times = [float(subprocess.run([PY, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True).stdout) for _ in range(3)]
+    code = (
+        "import time; t=time.perf_counter(); from service.app import create_app; create_app(); "
+        "print(time.perf_counter()-t)"
+    )
+    times = [
+        float(subprocess.run([PY, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True).stdout)
+        for _ in range(3)
+    ]
     row("worker start: import and create_app", f"{statistics.median(times) * 1000:,.0f} ms", "", "", "<= 1 s")
 
 
@@ -104,21 +124,23 @@ def bench_picture() -> None:
     body = json.loads((ROOT / "schemas" / "examples" / "circuits-check.json").read_text())
     client.post("/v1/circuits/picture", json=body)  # the worker's first picture imports matplotlib
     seconds = median_time(lambda: client.post("/v1/circuits/picture", json=body), 5)
-    row("time-current picture of a checked circuit (SVG, warm worker)", f"{seconds * 1000:,.0f} ms", "", "", "<= 300 ms")
+    row(
+        "time-current picture of a checked circuit (SVG, warm worker)", f"{seconds * 1000:,.0f} ms", "", "", "<= 300 ms"
+    )
 
 
 # ---------------------------------------------------------------- 5. growth
 
 
 def bench_growth() -> None:
-    from service.api.errors import json_bytes
     from service import cli
+    from service.api.errors import json_bytes
 
     per = []
     for n in (100, 1_000, 10_000, 100_000):
         text = json.dumps(batch(n))
 
-        def once():
+        def once(text=text, n=n):
             import io
 
             with open(os.devnull, "w") as quiet, open(os.devnull, "wb") as sink:
@@ -127,8 +149,13 @@ def bench_growth() -> None:
 
         seconds = median_time(once, 3 if n <= 10_000 else 1)
         per.append(seconds / n * 1e6)
-        row(f"growth: {n:,} circuits through the CLI path (read, check, write)", f"{seconds * 1000:,.0f} ms",
-            "", f"{seconds / n * 1e6:.1f} us per circuit", "flat")
+        row(
+            f"growth: {n:,} circuits through the CLI path (read, check, write)",
+            f"{seconds * 1000:,.0f} ms",
+            "",
+            f"{seconds / n * 1e6:.1f} us per circuit",
+            "flat",
+        )
     row("growth: per-circuit cost, 100 000 against 1 000", "", "", f"{per[3] / per[1]:.2f}x", "about 1x")
 
 
@@ -155,8 +182,13 @@ def bench_scale_out(seconds: int) -> None:
     finally:
         a.stop()
         b.stop()
-    row(f"scale-out: two instances behind nginx ({os.cpu_count()} cores shared by all)",
-        f"{rps2:,.0f} req/s, p99 {p99_2:.1f} ms", f"one instance {rps1:,.0f} req/s, p99 {p99_1:.1f} ms", f"{rps2 / rps1:.2f}x", "")
+    row(
+        f"scale-out: two instances behind nginx ({os.cpu_count()} cores shared by all)",
+        f"{rps2:,.0f} req/s, p99 {p99_2:.1f} ms",
+        f"one instance {rps1:,.0f} req/s, p99 {p99_1:.1f} ms",
+        f"{rps2 / rps1:.2f}x",
+        "",
+    )
 
 
 def main() -> int:
@@ -164,8 +196,11 @@ def main() -> int:
     parser.add_argument("--quick", action="store_true", help="3 s load runs instead of 10 s")
     args = parser.parse_args()
     seconds = 3 if args.quick else 10
-    print(f"Faultpath bench on {platform.node()}: {os.cpu_count()} cores, {platform.processor() or platform.machine()}, "
-          f"Python {platform.python_version()}", flush=True)
+    print(
+        f"Faultpath bench on {platform.node()}: {os.cpu_count()} cores, {platform.processor() or platform.machine()}, "
+        f"Python {platform.python_version()}",
+        flush=True,
+    )
     bench_engine()
     bench_start()
     bench_picture()
@@ -179,11 +214,13 @@ def main() -> int:
         bare.stop()
     bench_scale_out(seconds)
     bench_growth()
-    width = [max(len(r[i]) for r in ROWS + [("figure", "value", "baseline (same run)", "ratio", "target")]) for i in range(5)]
+    width = [
+        max(len(r[i]) for r in ROWS + [("figure", "value", "baseline (same run)", "ratio", "target")]) for i in range(5)
+    ]
     print()
     header = ("figure", "value", "baseline (same run)", "ratio", "target")
     for r in [header, tuple("-" * w for w in width)] + ROWS:
-        print(" | ".join(cell.ljust(w) for cell, w in zip(r, width)))
+        print(" | ".join(cell.ljust(w) for cell, w in zip(r, width, strict=False)))
     return 0
 
 

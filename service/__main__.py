@@ -37,7 +37,9 @@ def openapi(args) -> int:
 
 
 def main(argv: list[str] | None = None) -> int:
-    parser = argparse.ArgumentParser(prog="python -m service", description="Faultpath: earth fault checks to BS 7671 / IEC 60364")
+    parser = argparse.ArgumentParser(
+        prog="python -m service", description="Faultpath: earth fault checks to BS 7671 / IEC 60364"
+    )
     sub = parser.add_subparsers(dest="command", required=True)
     sub.add_parser("serve", help="run the HTTP service (gunicorn) on its environment settings").set_defaults(func=serve)
     p = sub.add_parser("openapi", help="write the OpenAPI contract generated from the code")

@@ -21,7 +21,18 @@ from flask_smorest.utils import prepare_response
 from werkzeug.exceptions import HTTPException
 from werkzeug.routing import BaseConverter
 
-from .api import circuit_views, device_views, docs, errors, health, measurement_views, metrics, question_views, sizing_views, web
+from .api import (
+    circuit_views,
+    device_views,
+    docs,
+    errors,
+    health,
+    measurement_views,
+    metrics,
+    question_views,
+    sizing_views,
+    web,
+)
 from .settings import Settings
 
 API_VERSION = "1.0.0"
@@ -63,7 +74,9 @@ class Api(flask_smorest.Api):
         self.spec.components.response("DEFAULT_ERROR", response, lazy=True)
 
     def _openapi_json(self):
-        return flask.current_app.response_class(flask.json.dumps(spec_dict(self), indent=2), mimetype="application/json")
+        return flask.current_app.response_class(
+            flask.json.dumps(spec_dict(self), indent=2), mimetype="application/json"
+        )
 
 
 def spec_dict(api: Api) -> dict[str, Any]:
@@ -81,11 +94,18 @@ def spec_dict(api: Api) -> dict[str, Any]:
                 responses.setdefault(str(status), {"description": HTTPStatus(status).phrase, **problem})
             if path == "/v1/circuits/check-batch":
                 responses["200"]["content"]["application/x-ndjson"] = {
-                    "schema": {"description": "one JSON object per line: a BatchItem per circuit, in order, then {\"summary\": BatchSummary}",
-                               "type": "string"},
+                    "schema": {
+                        "description": (
+                            "one JSON object per line: a BatchItem per circuit, in order, "
+                            'then {"summary": BatchSummary}'
+                        ),
+                        "type": "string",
+                    },
                 }
             if path.endswith("/characteristic"):
-                responses["200"]["content"]["image/svg+xml"] = {"schema": {"type": "string", "description": "the curve as a picture"}}
+                responses["200"]["content"]["image/svg+xml"] = {
+                    "schema": {"type": "string", "description": "the curve as a picture"}
+                }
             if method == "get" and "{" in path:
                 responses.setdefault("404", {"description": "Not Found", **problem})
     return spec
@@ -106,7 +126,8 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
             "info": {
                 "description": (
                     "Earth fault loop, disconnection time and protective conductor checks to BS 7671 / IEC 60364. "
-                    "Results support a competent person and do not replace one; the current standard and local codes prevail."
+                    "Results support a competent person and do not replace one; "
+                    "the current standard and local codes prevail."
                 ),
             },
             "servers": [{"url": "/"}],
@@ -120,13 +141,19 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     app.json.sort_keys = False
     if settings.keys_required and not settings.api_keys:
         raise RuntimeError(
-            f"API keys are required when bound to {settings.bind}: set FAULTPATH_API_KEYS, or FAULTPATH_REQUIRE_KEYS=off"
+            f"API keys are required when bound to {settings.bind}: "
+            "set FAULTPATH_API_KEYS, or FAULTPATH_REQUIRE_KEYS=off"
         )
     app.url_map.converters["number"] = NumberConverter
     api = Api(app)
     api.register_converter(NumberConverter, lambda converter: {"type": "number", "minimum": 0})
     for blueprint in (
-        circuit_views.blp, *question_views.BLUEPRINTS, sizing_views.blp, measurement_views.blp, device_views.blp, health.blp,
+        circuit_views.blp,
+        *question_views.BLUEPRINTS,
+        sizing_views.blp,
+        measurement_views.blp,
+        device_views.blp,
+        health.blp,
     ):
         api.register_blueprint(blueprint)
     app.register_blueprint(docs.blp)
@@ -161,8 +188,12 @@ def _install_rate_limit(app: flask.Flask, settings: Settings) -> None:
         return "addr:" + (flask.request.remote_addr or "unknown")
 
     limiter = Limiter(
-        client_key, app=app, default_limits=[settings.rate_limit], storage_uri=settings.rate_limit_storage,
-        headers_enabled=True, default_limits_exempt_when=lambda: flask.request.path.startswith(PUBLIC_PATHS),
+        client_key,
+        app=app,
+        default_limits=[settings.rate_limit],
+        storage_uri=settings.rate_limit_storage,
+        headers_enabled=True,
+        default_limits_exempt_when=lambda: flask.request.path.startswith(PUBLIC_PATHS),
     )
     app.extensions["faultpath_limiter"] = limiter
 
@@ -195,14 +226,22 @@ def _install_guards(app: flask.Flask, settings: Settings) -> None:
                 ok |= hmac.compare_digest(given, key)
             if not ok:
                 return errors.problem_response(
-                    401, "A valid API key is required in the X-API-Key header.", [],
+                    401,
+                    "A valid API key is required in the X-API-Key header.",
+                    [],
                     {"WWW-Authenticate": 'ApiKey header="X-API-Key"'},
                 )
         if flask.request.method in BODY_METHODS and flask.request.url_rule is not None:
             if flask.request.mimetype != "application/json":
                 return errors.problem_response(
-                    415, "Send the body as application/json.",
-                    [{"pointer": "", "message": f"content type {flask.request.mimetype or 'none'} is not application/json"}],
+                    415,
+                    "Send the body as application/json.",
+                    [
+                        {
+                            "pointer": "",
+                            "message": f"content type {flask.request.mimetype or 'none'} is not application/json",
+                        }
+                    ],
                 )
         return None
 

@@ -27,6 +27,7 @@ from .api.schemas import CircuitSchema, SupplySchema
 from .electrical.arrays import paused_gc
 from .electrical.circuit import check_circuits
 from .electrical.columns import CircuitFailure
+from .electrical.verdicts import COUNTED, Verdict
 
 # column -> (where it goes, field, kind); documented in the README
 CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
@@ -57,9 +58,22 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
     "r1_plus_r2_ohm": ("circuit", "r1_plus_r2_ohm", "number"),
 }
 RESULT_COLUMNS = (
-    "index", "id", "verdict", "r1_plus_r2_ohm", "zs_ohm", "max_zs_ohm", "zs_margin_percent", "earth_fault_current_a",
-    "disconnection_time_s", "disconnection_time_bound", "max_disconnection_time_s", "min_cpc_csa_mm2", "cpc_csa_mm2",
-    "failed_checks", "not_verified_checks", "problem",
+    "index",
+    "id",
+    "verdict",
+    "r1_plus_r2_ohm",
+    "zs_ohm",
+    "max_zs_ohm",
+    "zs_margin_percent",
+    "earth_fault_current_a",
+    "disconnection_time_s",
+    "disconnection_time_bound",
+    "max_disconnection_time_s",
+    "min_cpc_csa_mm2",
+    "cpc_csa_mm2",
+    "failed_checks",
+    "not_verified_checks",
+    "problem",
 )
 CHUNK = 2000
 SUPPLY_SCHEMA = SupplySchema()
@@ -73,7 +87,15 @@ class ScheduleError(ValueError):
 class Row:
     """One circuit read from the file: its supply and circuit, or the problem that stopped it."""
 
-    def __init__(self, index: int, ident: str | None, base: str, supply=None, circuit=None, problem: list[dict[str, str]] | None = None):
+    def __init__(
+        self,
+        index: int,
+        ident: str | None,
+        base: str,
+        supply=None,
+        circuit=None,
+        problem: list[dict[str, str]] | None = None,
+    ):
         self.index, self.id, self.base = index, ident, base
         self.supply, self.circuit, self.problem = supply, circuit, problem
         self.csv = False
@@ -81,7 +103,9 @@ class Row:
     def errors_of(self, failure: CircuitFailure) -> list[dict[str, str]]:
         """A core failure's pointer: into the JSON file, or the CSV row and column."""
         if self.csv:
-            return [{"pointer": _as_column(pointer_of(failure.path, CSV_ROOTS), self.index), "message": failure.message}]
+            return [
+                {"pointer": _as_column(pointer_of(failure.path, CSV_ROOTS), self.index), "message": failure.message}
+            ]
         return core_errors(failure, {"supply": "/supply", "circuit": self.base})
 
 
@@ -111,8 +135,11 @@ def _cell(value: str, kind: str) -> Any:
 
 
 _POINTER_OF = {
-    "supply": "/supply", "circuit": "/circuit", "device": "/circuit/device",
-    "rcd": "/circuit/device/rcd", "conductors": "/circuit/conductors",
+    "supply": "/supply",
+    "circuit": "/circuit",
+    "device": "/circuit/device",
+    "rcd": "/circuit/device/rcd",
+    "conductors": "/circuit/conductors",
 }
 CSV_ROOTS = {"supply": "/supply", "circuit": "/circuit"}
 _COLUMN_OF = {f"{_POINTER_OF[where]}/{name}": column for column, (where, name, _) in CSV_COLUMNS.items()}
@@ -122,7 +149,9 @@ def _as_column(pointer: str, index: int) -> str:
     """A schema pointer (/circuit/conductors/length_m) as the CSV row and column (/3/length_m)."""
     column = _COLUMN_OF.get(pointer)
     if column is None:  # a whole object, e.g. /circuit/conductors: name its first column
-        column = next((c for p, c in _COLUMN_OF.items() if p.startswith(pointer + "/")), pointer.rsplit("/", 1)[-1] or "")
+        column = next(
+            (c for p, c in _COLUMN_OF.items() if p.startswith(pointer + "/")), pointer.rsplit("/", 1)[-1] or ""
+        )
     return f"/{index}/{column}"
 
 
@@ -157,8 +186,15 @@ def _read_rows(reader: csv.DictReader, rows: list[Row]) -> None:
         rows.append(row)
 
 
-def _validated(index: int, supply_raw: Any, circuit_raw: Any, base: str, supply_pointer: str, circuit_pointer: str,
-               supply_loaded: tuple | None = None) -> Row:
+def _validated(
+    index: int,
+    supply_raw: Any,
+    circuit_raw: Any,
+    base: str,
+    supply_pointer: str,
+    circuit_pointer: str,
+    supply_loaded: tuple | None = None,
+) -> Row:
     ident = circuit_raw.get("id") if isinstance(circuit_raw, dict) and isinstance(circuit_raw.get("id"), str) else None
     supply, supply_problems = supply_loaded or _load(SUPPLY_SCHEMA, supply_raw, supply_pointer)
     circuit, circuit_problems = _load(CIRCUIT_SCHEMA, circuit_raw, circuit_pointer)
@@ -173,11 +209,15 @@ def read_json(stream: TextIO) -> list[Row]:
 
     body = strict_loads(stream.read())
     if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
-        raise ScheduleError('a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes')
+        raise ScheduleError(
+            'a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes'
+        )
     supply = _load(SUPPLY_SCHEMA, body["supply"], "/supply")  # one supply for the whole schedule
     with paused_gc():
-        return [_validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
-                for i, item in enumerate(body["circuits"])]
+        return [
+            _validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
+            for i, item in enumerate(body["circuits"])
+        ]
 
 
 class Progress:
@@ -203,7 +243,7 @@ def run_chunks(rows: list[Row], progress: Progress):
     """The records of the rows, in order, a chunk at a time (so a large file never sits whole in memory)."""
     for start in range(0, len(rows), CHUNK):
         with paused_gc():
-            records = _chunk(rows[start:start + CHUNK])
+            records = _chunk(rows[start : start + CHUNK])
         progress.update(start + len(records))
         yield records
 
@@ -219,7 +259,9 @@ def _chunk(chunk: list[Row]) -> list[dict[str, Any]]:
             continue
         outcome = next(outcomes)
         if isinstance(outcome, CircuitFailure):
-            records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.errors_of(outcome)}})
+            records.append(
+                {"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.errors_of(outcome)}}
+            )
         else:
             records.append({"index": row.index, "id": row.id, "result": outcome})
     return records
@@ -227,7 +269,7 @@ def _chunk(chunk: list[Row]) -> list[dict[str, Any]]:
 
 class Tally:
     def __init__(self):
-        self.counts = {"circuits": 0, "pass": 0, "fail": 0, "not-verified": 0, "invalid": 0}
+        self.counts = {"circuits": 0, **{str(v): 0 for v in COUNTED}, "invalid": 0}
 
     def add(self, records) -> None:
         for r in records:
@@ -249,13 +291,21 @@ def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> Non
             row["problem"] = "; ".join(f"{e['pointer']}: {e['message']}" for e in record["problem"]["errors"])
         else:
             r = record["result"]
-            row.update(verdict=r.verdict, r1_plus_r2_ohm=r.r1_plus_r2_ohm, zs_ohm=r.zs_ohm, max_zs_ohm=r.max_zs_ohm,
-                       zs_margin_percent=r.zs_margin_percent, earth_fault_current_a=r.earth_fault_current_a,
-                       disconnection_time_s=r.disconnection_time_s, disconnection_time_bound=r.disconnection_time_bound,
-                       max_disconnection_time_s=r.max_disconnection_time_s,
-                       min_cpc_csa_mm2=r.protective_conductor["min_csa_mm2"], cpc_csa_mm2=r.protective_conductor["csa_mm2"],
-                       failed_checks=" ".join(c.check for c in r.checks if c.verdict == "fail"),
-                       not_verified_checks=" ".join(c.check for c in r.checks if c.verdict == "not-verified"))
+            row.update(
+                verdict=r.verdict,
+                r1_plus_r2_ohm=r.r1_plus_r2_ohm,
+                zs_ohm=r.zs_ohm,
+                max_zs_ohm=r.max_zs_ohm,
+                zs_margin_percent=r.zs_margin_percent,
+                earth_fault_current_a=r.earth_fault_current_a,
+                disconnection_time_s=r.disconnection_time_s,
+                disconnection_time_bound=r.disconnection_time_bound,
+                max_disconnection_time_s=r.max_disconnection_time_s,
+                min_cpc_csa_mm2=r.protective_conductor["min_csa_mm2"],
+                cpc_csa_mm2=r.protective_conductor["csa_mm2"],
+                failed_checks=" ".join(c.check for c in r.checks if c.verdict == Verdict.FAIL),
+                not_verified_checks=" ".join(c.check for c in r.checks if c.verdict == Verdict.NOT_VERIFIED),
+            )
         writer.writerow({k: ("" if v is None else v) for k, v in row.items()})
 
 
@@ -296,11 +346,11 @@ def main(args: argparse.Namespace) -> int:
             sink.flush()
     counts = tally.counts
     print(" ".join(f"{k}={v}" for k, v in counts.items()), file=sys.stderr)
-    if counts["fail"]:
+    if counts[Verdict.FAIL]:
         return 1
     if counts["invalid"]:
         return 3
-    if args.strict and counts["not-verified"]:
+    if args.strict and counts[Verdict.NOT_VERIFIED]:
         return 1
     return 0
 

@@ -19,7 +19,7 @@ class JsonLinesLogger(Logger):
             return
         headers = dict((k.lower(), v) for k, v in (resp.headers or []))
         record = {
-            "time": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="milliseconds"),
+            "time": datetime.datetime.now(datetime.UTC).isoformat(timespec="milliseconds"),
             "request_id": headers.get("x-request-id", ""),
             "method": environ.get("REQUEST_METHOD"),
             "path": environ.get("PATH_INFO"),

@@ -18,8 +18,14 @@ SETTINGS = {
     "FAULTPATH_API_KEYS": ("", "comma-separated API keys accepted in the X-API-Key header"),
     "FAULTPATH_REQUIRE_KEYS": ("auto", "auto: keys required unless bound to loopback; on; off"),
     "FAULTPATH_CORS_ORIGINS": ("", "comma-separated origins allowed to call from a browser"),
-    "FAULTPATH_RATE_LIMIT": ("1200/minute", "requests allowed per API key (or client address without a key); empty: no limit"),
-    "FAULTPATH_RATE_LIMIT_STORAGE": ("memory://", "where the counts live: memory:// counts per worker; redis://host:6379 shares them across workers and replicas"),
+    "FAULTPATH_RATE_LIMIT": (
+        "1200/minute",
+        "requests allowed per API key (or client address without a key); empty: no limit",
+    ),
+    "FAULTPATH_RATE_LIMIT_STORAGE": (
+        "memory://",
+        "where the counts live: memory:// counts per worker; redis://host:6379 shares them across workers and replicas",
+    ),
     "FAULTPATH_PROXIES": ("0", "how many proxies (load balancer, ingress) stand in front and set X-Forwarded-For"),
     "FAULTPATH_LOG_LEVEL": ("info", "log level"),
     "PROMETHEUS_MULTIPROC_DIR": ("", "folder shared by gunicorn workers for metrics; set by `serve`"),

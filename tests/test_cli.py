@@ -8,7 +8,10 @@ import sys
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
-HEADER = "id,earthing,u0_v,ze_ohm,prospective_fault_current_ka,role,load,device_standard,device_type,rating_a,breaking_capacity_ka,material,insulation,line_csa_mm2,cpc_csa_mm2,length_m,ring"
+HEADER = (
+    "id,earthing,u0_v,ze_ohm,prospective_fault_current_ka,role,load,device_standard,device_type,rating_a,"
+    "breaking_capacity_ka,material,insulation,line_csa_mm2,cpc_csa_mm2,length_m,ring"
+)
 OVEN = "oven,TN-C-S,230,0.28,2.1,final,fixed-equipment,BS EN 60898,B,32,6,copper,thermoplastic-70,6,2.5,18,false"
 LIGHTS = "lights,TN-C-S,230,0.28,2.1,final,fixed-equipment,BS EN 60898,C,20,6,copper,thermoplastic-70,2.5,1.5,60,false"
 BAD = "bad,TN-C-S,230,0.28,2.1,final,fixed-equipment,BS EN 60898,B,32,6,copper,thermoplastic-70,6,2.5,far,false"

@@ -38,7 +38,9 @@ def test_dockerfile_final_stage_is_slim_non_root_with_a_healthcheck():
 def test_kubernetes_manifests_validate_strictly():
     files = sorted(str(p) for p in (ROOT / "deploy" / "kubernetes").glob("*.yaml"))
     assert len(files) == 3
-    result = subprocess.run([tool("kubernetes-validate"), "--strict", *files], capture_output=True, text=True, timeout=300)
+    result = subprocess.run(
+        [tool("kubernetes-validate"), "--strict", *files], capture_output=True, text=True, timeout=300
+    )
     assert result.returncode == 0, result.stdout + result.stderr
 
 

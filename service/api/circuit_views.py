@@ -8,7 +8,7 @@ from ..electrical.arrays import paused_gc
 from ..electrical.circuit import check_circuits
 from ..electrical.columns import CircuitFailure
 from ..electrical.devices.catalogue import resolve
-from ..electrical.verdicts import VERDICTS
+from ..electrical.verdicts import COUNTED
 from ..picture import characteristic_svg
 from . import metrics
 from .base import Blueprint
@@ -16,7 +16,12 @@ from .errors import CoreInputError, json_bytes, json_response
 from .helpers import failed_item, invalid_item, svg_response
 from .schemas import BatchRequestSchema, BatchResultSchema, CheckRequestSchema, CircuitResultSchema, ItemProblem
 
-blp = Blueprint("circuits", __name__, url_prefix="/v1/circuits", description="Whole-circuit checks: every figure, every check, a verdict")
+blp = Blueprint(
+    "circuits",
+    __name__,
+    url_prefix="/v1/circuits",
+    description="Whole-circuit checks: every figure, every check, a verdict",
+)
 
 SINGLE = {"supply": "/supply", "circuit": "/circuit"}
 NDJSON = "application/x-ndjson"
@@ -46,8 +51,14 @@ def check(body):
 
 @blp.route("/picture", methods=["POST"])
 @blp.arguments(CheckRequestSchema)
-@blp.doc(responses={"200": {"description": "The time-current picture of the checked circuit",
-                            "content": {"image/svg+xml": {"schema": {"type": "string"}}}}})
+@blp.doc(
+    responses={
+        "200": {
+            "description": "The time-current picture of the checked circuit",
+            "content": {"image/svg+xml": {"schema": {"type": "string"}}},
+        }
+    }
+)
 def picture(body):
     """The time-current picture of one checked circuit (SVG)
 
@@ -55,8 +66,14 @@ def picture(body):
     verdict in the title; the body is the same as for circuits/check.
     """
     result = _checked_one(body)
-    svg = characteristic_svg(resolve(body["circuit"].device), result.earth_fault_current_a, result.disconnection_time_s,
-                             result.max_disconnection_time_s, result.verdict, result.disconnection_time_bound)
+    svg = characteristic_svg(
+        resolve(body["circuit"].device),
+        result.earth_fault_current_a,
+        result.disconnection_time_s,
+        result.max_disconnection_time_s,
+        result.verdict,
+        result.disconnection_time_bound,
+    )
     return svg_response(svg, cache_seconds=0)
 
 
@@ -81,7 +98,7 @@ def check_batch(body):
     counts = Counts()
     with paused_gc():
         for start in range(0, len(items), CHUNK):
-            results.extend(_checked(body["supply"], items[start:start + CHUNK], start, counts))
+            results.extend(_checked(body["supply"], items[start : start + CHUNK], start, counts))
         return json_response({"results": results, "summary": counts.summary(len(items))})
 
 
@@ -89,7 +106,7 @@ class Counts:
     """Verdicts counted as the items come."""
 
     def __init__(self):
-        self.verdicts = dict.fromkeys(VERDICTS, 0)
+        self.verdicts = dict.fromkeys(COUNTED, 0)
 
     def add(self, verdicts):
         for v in verdicts:
@@ -97,7 +114,11 @@ class Counts:
         metrics.count_verdicts(verdicts)
 
     def summary(self, n):
-        return {"circuits": n, **{str(k): v for k, v in self.verdicts.items()}, "invalid": n - sum(self.verdicts.values())}
+        return {
+            "circuits": n,
+            **{str(k): v for k, v in self.verdicts.items()},
+            "invalid": n - sum(self.verdicts.values()),
+        }
 
 
 def _checked(supply, items, offset, counts):
@@ -125,5 +146,7 @@ def _ndjson(supply, items):
     """One JSON line per item, in order, computed a chunk at a time; the last line is the summary."""
     counts = Counts()
     for start in range(0, len(items), CHUNK):
-        yield b"".join(json_bytes(record) + b"\n" for record in _checked(supply, items[start:start + CHUNK], start, counts))
+        yield b"".join(
+            json_bytes(record) + b"\n" for record in _checked(supply, items[start : start + CHUNK], start, counts)
+        )
     yield json_bytes({"summary": counts.summary(len(items))}) + b"\n"

@@ -11,7 +11,9 @@ from ..picture import characteristic_svg
 from .base import Blueprint
 from .helpers import SVG, svg_response
 
-blp = Blueprint("devices", __name__, url_prefix="/v1/devices", description="The built-in protective devices and their curves")
+blp = Blueprint(
+    "devices", __name__, url_prefix="/v1/devices", description="The built-in protective devices and their curves"
+)
 
 
 class RatingRangeSchema(Schema):
@@ -58,7 +60,11 @@ class RegionSchema(Schema):
 class CharacteristicSchema(Schema):
     device = fields.Nested("DeviceSummarySchema", required=True)
     rating_a = fields.Float(required=True)
-    points = fields.List(fields.Nested(PointSchema), required=True, metadata={"description": "maximum operating times, straight lines on log-log axes between them"})
+    points = fields.List(
+        fields.Nested(PointSchema),
+        required=True,
+        metadata={"description": "maximum operating times, straight lines on log-log axes between them"},
+    )
     regions = fields.List(fields.Nested(RegionSchema), required=True)
 
 

@@ -14,7 +14,13 @@ from swagger_ui_bundle import swagger_ui_path
 
 blp = flask.Blueprint("docs", __name__)
 
-ASSETS = {"swagger-ui.css", "swagger-ui-bundle.js", "swagger-ui-standalone-preset.js", "favicon-32x32.png", "favicon-16x16.png"}
+ASSETS = {
+    "swagger-ui.css",
+    "swagger-ui-bundle.js",
+    "swagger-ui-standalone-preset.js",
+    "favicon-32x32.png",
+    "favicon-16x16.png",
+}
 
 PAGE = """<!doctype html>
 <html lang="en">
@@ -37,7 +43,10 @@ START = """window.addEventListener("load", function () {
 });
 """
 
-CSP = "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data:; connect-src 'self'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'"
+CSP = (
+    "default-src 'none'; script-src 'self'; style-src 'self' 'unsafe-inline'; img-src 'self' data:; "
+    "connect-src 'self'; base-uri 'none'; form-action 'none'; frame-ancestors 'none'"
+)
 
 
 @blp.route("/docs")

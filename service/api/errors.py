@@ -59,8 +59,9 @@ def pointer_of(path: Sequence[Any], roots: Mapping[str, str] | None = None, base
     return base + pointer(*path)
 
 
-def core_errors(err: ElectricalError | CircuitFailure, roots: Mapping[str, str] | None = None,
-                base: str = "") -> list[dict[str, str]]:
+def core_errors(
+    err: ElectricalError | CircuitFailure, roots: Mapping[str, str] | None = None, base: str = ""
+) -> list[dict[str, str]]:
     """A core error (or a circuit's failure) as the ``errors`` list of a 422 problem."""
     return [{"pointer": pointer_of(err.path, roots, base), "message": err.message}]
 
@@ -85,7 +86,9 @@ def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
     return out
 
 
-def problem_body(status: int, detail: str | None = None, errors: list[dict[str, str]] | None = None, **extra: Any) -> dict[str, Any]:
+def problem_body(
+    status: int, detail: str | None = None, errors: list[dict[str, str]] | None = None, **extra: Any
+) -> dict[str, Any]:
     body: dict[str, Any] = {"type": "about:blank", "title": HTTPStatus(status).phrase, "status": status}
     if detail:
         body["detail"] = detail
@@ -125,7 +128,9 @@ class CoreInputError(HTTPException):
         self.errors = errors
 
     @classmethod
-    def of(cls, err: ElectricalError | CircuitFailure, roots: Mapping[str, str] | None = None, base: str = "") -> CoreInputError:
+    def of(
+        cls, err: ElectricalError | CircuitFailure, roots: Mapping[str, str] | None = None, base: str = ""
+    ) -> CoreInputError:
         """The 422 for a core error, its path turned into a pointer by :func:`pointer_of`."""
         return cls(core_errors(err, roots, base))
 
@@ -133,7 +138,16 @@ class CoreInputError(HTTPException):
 def handle_http_exception(error: HTTPException) -> flask.Response:
     data = getattr(error, "data", None) or {}
     messages = data.get("messages") if isinstance(data, Mapping) else None
-    if isinstance(messages, Mapping) and set(messages) <= {"json", "query", "view_args", "path", "headers", "form", "files", "cookies"}:
+    if isinstance(messages, Mapping) and set(messages) <= {
+        "json",
+        "query",
+        "view_args",
+        "path",
+        "headers",
+        "form",
+        "files",
+        "cookies",
+    }:
         flat = []
         for location, inner in messages.items():
             flat.extend(flatten(inner, "" if location == "json" else f"/{location}"))
@@ -147,7 +161,11 @@ def handle_http_exception(error: HTTPException) -> flask.Response:
     status = error.code or 500
     if status >= 500:
         return internal_error(getattr(error, "original_exception", None) or error)
-    detail = {400: "The request body is not strict JSON.", 422: "The request body did not validate."}.get(status) if errors else None
+    detail = (
+        {400: "The request body is not strict JSON.", 422: "The request body did not validate."}.get(status)
+        if errors
+        else None
+    )
     detail = detail or error.description
     if isinstance(error, CoreInputError):
         detail = error.description
@@ -159,4 +177,6 @@ def handle_http_exception(error: HTTPException) -> flask.Response:
 def internal_error(exc: BaseException | None) -> flask.Response:
     error_id = uuid.uuid4().hex
     log.error("internal error %s", error_id, exc_info=exc if isinstance(exc, BaseException) else None)
-    return problem_response(500, "An internal error occurred; quote the error id to the operator.", [], error_id=error_id)
+    return problem_response(
+        500, "An internal error occurred; quote the error id to the operator.", [], error_id=error_id
+    )

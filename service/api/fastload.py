@@ -91,56 +91,104 @@ def _bounds(field: fields.Field) -> tuple[float | None, float | None, tuple | No
     return lo, hi, choices, max_len
 
 
-def _field_check(field: fields.Field):
-    """(required, load_default, check) for one field; check(raw) returns the loaded value or raises Refused."""
-    default = field.load_default if field.load_default is not fields.missing_ else _MISSING
-    lo, hi, choices, length = _bounds(field)
+class _Limits:
+    """A field's bounds as its validators give them."""
 
-    def in_choices(value):
-        if choices is not None and value not in choices:
+    def __init__(self, field: fields.Field):
+        self.lo, self.hi, self.choices, length = _bounds(field)
+        self.min_len, self.max_len = length if length is not None else (None, None)
+
+    def in_range(self, value: float) -> bool:
+        return (self.lo is None or value >= self.lo) and (self.hi is None or value <= self.hi)
+
+    def in_length(self, value: Any) -> bool:
+        return (self.min_len is None or len(value) >= self.min_len) and (
+            self.max_len is None or len(value) <= self.max_len
+        )
+
+    def chosen(self, value: Any) -> Any:
+        if self.choices is not None and value not in self.choices:
             raise Refused
         return value
 
+
+def _number(field: fields.Field, limits: _Limits):
+    def check(raw):
+        if type(raw) is not float and type(raw) is not int:
+            raise Refused
+        value = float(raw)
+        if not math.isfinite(value) or not limits.in_range(value):
+            raise Refused
+        return limits.chosen(value)
+
+    return check
+
+
+def _whole_number(field: fields.Field, limits: _Limits):
+    def check(raw):
+        if type(raw) is not int or not limits.in_range(raw):
+            raise Refused
+        return limits.chosen(raw)
+
+    return check
+
+
+def _flag(field: fields.Field, limits: _Limits):
+    def check(raw):
+        if type(raw) is not bool:
+            raise Refused
+        return raw
+
+    return check
+
+
+def _text(field: fields.Field, limits: _Limits):
+    def check(raw):
+        if type(raw) is not str or not limits.in_length(raw):
+            raise Refused
+        return limits.chosen(raw)
+
+    return check
+
+
+def _nested(field: fields.Field, limits: _Limits):
+    return _Plan(field.schema).load
+
+
+def _nested_list(field: fields.Field, limits: _Limits):
+    inner = _Plan(field.inner.schema)
+
+    def check(raw):
+        if type(raw) is not list or not limits.in_length(raw):
+            raise Refused
+        return [inner.load(item) for item in raw]
+
+    return check
+
+
+def _kind(field: fields.Field):
+    """Which check builder serves this field (an exact list: a field type it does not know is refused)."""
+    if isinstance(field, Number):
+        return _number
+    if isinstance(field, WholeNumber):
+        return _whole_number
+    if isinstance(field, Flag):
+        return _flag
+    if type(field) in (fields.String, Text):
+        return _text
+    if isinstance(field, fields.Nested):
+        return _nested
+    if isinstance(field, fields.List) and isinstance(field.inner, fields.Nested):
+        return _nested_list
+    raise TypeError(f"fastload does not know the field {type(field).__name__}")
+
+
+def _field_check(field: fields.Field):
+    """(required, load_default, check) for one field; check(raw) returns the loaded value or raises Refused."""
     if field.allow_none:
         raise TypeError("fastload does not support nullable request fields")
-    if isinstance(field, Number):
-        def check(raw):
-            if type(raw) is not float and type(raw) is not int:
-                raise Refused
-            value = float(raw)
-            if not math.isfinite(value) or (lo is not None and value < lo) or (hi is not None and value > hi):
-                raise Refused
-            return in_choices(value)
-    elif isinstance(field, WholeNumber):
-        def check(raw):
-            if type(raw) is not int or (lo is not None and raw < lo) or (hi is not None and raw > hi):
-                raise Refused
-            return in_choices(raw)
-    elif isinstance(field, Flag):
-        def check(raw):
-            if type(raw) is not bool:
-                raise Refused
-            return raw
-    elif type(field) in (fields.String, Text):
-        min_len, max_len = length if length is not None else (None, None)
-
-        def check(raw):
-            if type(raw) is not str or (max_len is not None and len(raw) > max_len) or (min_len is not None and len(raw) < min_len):
-                raise Refused
-            return in_choices(raw)
-    elif isinstance(field, fields.Nested):
-        check = _Plan(field.schema).load
-    elif isinstance(field, fields.List) and isinstance(field.inner, fields.Nested):
-        inner = _Plan(field.inner.schema)
-        min_len, max_len = length if length is not None else (None, None)
-
-        def check(raw):
-            if type(raw) is not list or (min_len is not None and len(raw) < min_len) or (max_len is not None and len(raw) > max_len):
-                raise Refused
-            return [inner.load(item) for item in raw]
-    else:
-        raise TypeError(f"fastload does not know the field {type(field).__name__}")
-    return (field.required, default, check)
+    default = field.load_default if field.load_default is not fields.missing_ else _MISSING
+    return (field.required, default, _kind(field)(field, _Limits(field)))
 
 
 def _hooks_of(schema: Schema) -> dict:

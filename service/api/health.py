@@ -6,8 +6,8 @@ import flask
 from marshmallow import Schema, fields
 
 from ..electrical.circuit import check_circuit
-from ..electrical.model import Circuit, Conductors, DeviceSpec, Supply
 from ..electrical.devices.catalogue import catalogue
+from ..electrical.model import Circuit, Conductors, DeviceSpec, Supply
 from . import metrics
 from .base import Blueprint
 
@@ -23,8 +23,12 @@ def self_check() -> None:
     catalogue()
     check_circuit(
         Supply(earthing="TN-S", u0_v=230, ze_ohm=0.5),
-        Circuit(device=DeviceSpec(rating_a=16, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
-                conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 10), role="final", load="fixed-equipment"),
+        Circuit(
+            device=DeviceSpec(rating_a=16, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
+            conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 10),
+            role="final",
+            load="fixed-equipment",
+        ),
     )
 
 
@@ -48,7 +52,11 @@ def readyz():
 
 
 @blp.route("/metrics", methods=["GET"])
-@blp.doc(responses={"200": {"description": "Prometheus text exposition", "content": {"text/plain": {"schema": {"type": "string"}}}}})
+@blp.doc(
+    responses={
+        "200": {"description": "Prometheus text exposition", "content": {"text/plain": {"schema": {"type": "string"}}}}
+    }
+)
 def metrics_view():
     """Prometheus metrics: requests, latency histogram, verdict counts"""
     return metrics.exposition()

@@ -26,11 +26,16 @@ def svg_response(body: bytes, cache_seconds: int) -> flask.Response:
 
 def invalid_item(index: int, ident: str | None, messages: Any, base: str, what: str = "circuit") -> dict[str, Any]:
     """The record of a batch item that did not validate: its place, its id, and every field at fault."""
-    return {"index": index, "id": ident, "problem": problem_body(422, f"This {what} did not validate.", flatten(messages, base))}
+    return {
+        "index": index,
+        "id": ident,
+        "problem": problem_body(422, f"This {what} did not validate.", flatten(messages, base)),
+    }
 
 
-def failed_item(index: int, ident: str | None, failure: CircuitFailure, roots: Mapping[str, str],
-                what: str = "circuit") -> dict[str, Any]:
+def failed_item(
+    index: int, ident: str | None, failure: CircuitFailure, roots: Mapping[str, str], what: str = "circuit"
+) -> dict[str, Any]:
     """The record of a batch item the rules or the data do not cover, its path as a pointer."""
     detail = f"The rules or the data do not cover this {what}."
     return {"index": index, "id": ident, "problem": problem_body(422, detail, core_errors(failure, roots))}

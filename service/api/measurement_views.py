@@ -14,11 +14,18 @@ from .fields import Flag, Number, choice
 from .helpers import failed_item, invalid_item
 from .schemas import CircuitSchema, FastSchema, ItemProblem, PerItemList, SupplySchema, nullable_number
 
-blp = Blueprint("test_results", __name__, url_prefix="/v1/test-results", description="Measured test results against the design limits")
+blp = Blueprint(
+    "test_results",
+    __name__,
+    url_prefix="/v1/test-results",
+    description="Measured test results against the design limits",
+)
 
 
 class MeasuredSchema(Schema):
-    temperature_c = Number(minimum=-20, maximum=60, load_default=20.0, metadata={"description": "conductor temperature when measured"})
+    temperature_c = Number(
+        minimum=-20, maximum=60, load_default=20.0, metadata={"description": "conductor temperature when measured"}
+    )
     zs_ohm = Number(minimum=0.001, maximum=2000)
     r1_plus_r2_ohm = Number(minimum=0.0001, maximum=100)
     insulation_resistance_megohm = Number(minimum=0, maximum=100000)
@@ -98,7 +105,11 @@ def verify_results(body):
             continue
         outcome = next(outcomes)
         if isinstance(outcome, CircuitFailure):
-            roots = {"supply": "/supply", "circuit": f"/circuits/{index}/circuit", "measured": f"/circuits/{index}/measured"}
+            roots = {
+                "supply": "/supply",
+                "circuit": f"/circuits/{index}/circuit",
+                "measured": f"/circuits/{index}/measured",
+            }
             results.append(failed_item(index, item["circuit"].id, outcome, roots, "item"))
         else:
             results.append({"index": index, "id": outcome.id, "result": outcome})

@@ -7,22 +7,25 @@ import os
 import time
 
 import flask
-from prometheus_client import CONTENT_TYPE_LATEST, CollectorRegistry, Counter, Histogram, generate_latest
-from prometheus_client import multiprocess
+from prometheus_client import CONTENT_TYPE_LATEST, CollectorRegistry, Counter, Histogram, generate_latest, multiprocess
+
+from ..electrical.verdicts import VERDICTS
 
 REQUESTS = Counter("faultpath_requests_total", "HTTP requests answered", ["method", "endpoint", "status"])
 LATENCY = Histogram(
-    "faultpath_request_seconds", "Time to answer a request", ["endpoint"],
+    "faultpath_request_seconds",
+    "Time to answer a request",
+    ["endpoint"],
     buckets=(0.001, 0.0025, 0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5, 1, 2.5, 5, 10),
 )
-VERDICTS = Counter("faultpath_verdicts_total", "Circuit verdicts given", ["verdict"])
+VERDICT_COUNT = Counter("faultpath_verdicts_total", "Circuit verdicts given", ["verdict"])
 
 
 def count_verdicts(verdicts) -> None:
-    for verdict in ("pass", "fail", "not-verified"):
+    for verdict in VERDICTS:
         n = sum(1 for v in verdicts if v == verdict)
         if n:
-            VERDICTS.labels(verdict).inc(n)
+            VERDICT_COUNT.labels(str(verdict)).inc(n)
 
 
 def install(app: flask.Flask) -> None:

@@ -23,11 +23,21 @@ from .fields import Number, choice
 from .schemas import ConductorsSchema, DeviceSchema, DeviceSummarySchema, SupplySchema, nullable_number
 
 fault_blp = Blueprint("fault_current", __name__, url_prefix="/v1/fault-current", description="Earth fault current")
-disconnection_blp = Blueprint("disconnection_time", __name__, url_prefix="/v1/disconnection-time",
-                              description="Disconnection time of a device at a current")
-max_zs_blp = Blueprint("max_zs", __name__, url_prefix="/v1/max-zs", description="Maximum Zs for a device and a required time")
-protective_blp = Blueprint("protective_conductor", __name__, url_prefix="/v1/protective-conductor",
-                           description="Protective conductor size by the adiabatic equation")
+disconnection_blp = Blueprint(
+    "disconnection_time",
+    __name__,
+    url_prefix="/v1/disconnection-time",
+    description="Disconnection time of a device at a current",
+)
+max_zs_blp = Blueprint(
+    "max_zs", __name__, url_prefix="/v1/max-zs", description="Maximum Zs for a device and a required time"
+)
+protective_blp = Blueprint(
+    "protective_conductor",
+    __name__,
+    url_prefix="/v1/protective-conductor",
+    description="Protective conductor size by the adiabatic equation",
+)
 BLUEPRINTS = (fault_blp, disconnection_blp, max_zs_blp, protective_blp)
 
 
@@ -63,7 +73,9 @@ class FaultCurrentRequestSchema(Schema):
 class FaultCurrentResultSchema(Schema):
     zs_ohm = fields.Float(required=True)
     r1_plus_r2_ohm = nullable_number()
-    earth_fault_current_a = fields.Float(required=True, metadata={"description": "U0 x Cmin / Zs, Cmin 0.95 (IEC 60909-0)"})
+    earth_fault_current_a = fields.Float(
+        required=True, metadata={"description": "U0 x Cmin / Zs, Cmin 0.95 (IEC 60909-0)"}
+    )
     earth_fault_current_nominal_a = fields.Float(required=True, metadata={"description": "U0 / Zs"})
     prospective_fault_current_ka = nullable_number("largest at the origin, for breaking capacity")
     basis = fields.String(required=True)
@@ -107,11 +119,18 @@ def disconnection_time(body):
 
 class MaxZsRequestSchema(Schema):
     device = fields.Nested(DeviceSchema, required=True)
-    time_s = Number(minimum=0.01, maximum=100, required=True, metadata={"description": "the required disconnection time"})
+    time_s = Number(
+        minimum=0.01, maximum=100, required=True, metadata={"description": "the required disconnection time"}
+    )
     u0_v = Number(minimum=50, maximum=1000, required=True)
-    insulation = choice(cond.insulation_names(), load_default="thermoplastic-70",
-                        metadata={"description": "sets the operating temperature for the cold limit"})
-    ambient_c = Number(minimum=-20, maximum=60, load_default=20, metadata={"description": "conductor temperature when measured"})
+    insulation = choice(
+        cond.insulation_names(),
+        load_default="thermoplastic-70",
+        metadata={"description": "sets the operating temperature for the cold limit"},
+    )
+    ambient_c = Number(
+        minimum=-20, maximum=60, load_default=20, metadata={"description": "conductor temperature when measured"}
+    )
 
 
 class MaxZsResultSchema(Schema):
@@ -141,7 +160,9 @@ class ProtectiveRequestSchema(Schema):
     time_s = Number(minimum=0.001, maximum=100, metadata={"description": "disconnection time; or give the device"})
     device = fields.Nested(DeviceSchema, metadata={"description": "read the time off this device at fault_current_a"})
     material = choice(protective.CPC_MATERIALS, required=True)
-    insulation = choice(cond.insulation_names(), metadata={"description": "of the cable the cpc belongs to or touches; not for bare"})
+    insulation = choice(
+        cond.insulation_names(), metadata={"description": "of the cable the cpc belongs to or touches; not for bare"}
+    )
     arrangement = choice(protective.ARRANGEMENTS, required=True)
     bare_condition = choice(protective.BARE_CONDITIONS)
     cpc_csa_mm2 = Number(minimum=0.5, maximum=630, metadata={"description": "the cpc chosen, to get a verdict"})
@@ -184,5 +205,9 @@ class ProtectiveResultSchema(Schema):
 def protective_conductor(body):
     """k, the minimum protective conductor size and the standard size to use"""
     args = {key: body[key] for key in ("fault_current_a", "material", "arrangement")}
-    return _answer(protective.size_for_fault, **args, insulation=body.get("insulation"),
-                   **{key: value for key, value in body.items() if key not in args and key != "insulation"})
+    return _answer(
+        protective.size_for_fault,
+        **args,
+        insulation=body.get("insulation"),
+        **{key: value for key, value in body.items() if key not in args and key != "insulation"},
+    )

@@ -16,7 +16,7 @@ from ..electrical.checks import CHECKS
 from ..electrical.devices import catalogue, residual
 from ..electrical.devices.characteristic import BOUNDS
 from ..electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
-from ..electrical.verdicts import VERDICTS
+from ..electrical.verdicts import VERDICTS, Verdict
 from . import fastload
 from .errors import ProblemSchema
 from .fastload import Refused, fast_load
@@ -65,16 +65,25 @@ class RcdSchema(Schema):
 
 
 class DeviceSchema(Schema):
-    standard = choice(DEVICE_STANDARDS, metadata={"description": "omit, and give curve_points, for a device of your own"})
-    type = choice(DEVICE_TYPES, metadata={"description": "B, C or D for circuit-breakers; gG (or omit) for BS 88 fuses"})
+    standard = choice(
+        DEVICE_STANDARDS, metadata={"description": "omit, and give curve_points, for a device of your own"}
+    )
+    type = choice(
+        DEVICE_TYPES, metadata={"description": "B, C or D for circuit-breakers; gG (or omit) for BS 88 fuses"}
+    )
     rating_a = Number(minimum=0.1, maximum=1000, required=True, metadata={"description": "In, A"})
-    breaking_capacity_ka = Number(minimum=0.1, maximum=200, metadata={"description": "rated short-circuit capacity (Icn), kA"})
+    breaking_capacity_ka = Number(
+        minimum=0.1, maximum=200, metadata={"description": "rated short-circuit capacity (Icn), kA"}
+    )
     curve_points = fields.List(
-        fields.Nested(CurvePointSchema), validate=validate.Length(min=2, max=100),
+        fields.Nested(CurvePointSchema),
+        validate=validate.Length(min=2, max=100),
         metadata={"description": "maximum operating times, e.g. from the maker's curve"},
     )
     rcd = fields.Nested(RcdSchema, metadata={"description": "the residual part of an RCBO, or an RCD in the circuit"})
-    let_through_a2s = Number(minimum=1, maximum=1e10, metadata={"description": "maker's let-through I^2 t, A^2 s, for times below 0.1 s"})
+    let_through_a2s = Number(
+        minimum=1, maximum=1e10, metadata={"description": "maker's let-through I^2 t, A^2 s, for times below 0.1 s"}
+    )
 
     @validates_schema
     def standard_or_points(self, data, **kwargs):
@@ -93,14 +102,25 @@ class ConductorsSchema(Schema):
     material = choice(cond.MATERIALS, required=True)
     insulation = choice(cond.insulation_names(), required=True)
     line_csa_mm2 = Number(minimum=0.5, maximum=630, required=True)
-    cpc_csa_mm2 = Number(minimum=0.5, maximum=630, required=True, metadata={"description": "cpc size; for armour, its cross-section"})
-    length_m = Number(minimum=0, maximum=5000, required=True, metadata={"description": "route length; for a ring, the whole ring"})
+    cpc_csa_mm2 = Number(
+        minimum=0.5, maximum=630, required=True, metadata={"description": "cpc size; for armour, its cross-section"}
+    )
+    length_m = Number(
+        minimum=0, maximum=5000, required=True, metadata={"description": "route length; for a ring, the whole ring"}
+    )
     cpc_arrangement = choice(protective.ARRANGEMENTS, load_default="in-cable")
     ring = Flag(load_default=False)
     parallel_cables = WholeNumber(minimum=1, maximum=20, load_default=1)
-    conductor_class = WholeNumber(minimum=1, maximum=2, load_default=2, metadata={"description": "IEC 60228 class: 1 solid, 2 stranded"})
-    cpc_material = choice(protective.CPC_MATERIALS, metadata={"description": "default: the line material; steel for armour, sheath or conduit"})
-    cpc_resistance_mohm_per_m = Number(minimum=0.01, maximum=1000, metadata={"description": "maker's cpc (e.g. armour) resistance at 20 degC"})
+    conductor_class = WholeNumber(
+        minimum=1, maximum=2, load_default=2, metadata={"description": "IEC 60228 class: 1 solid, 2 stranded"}
+    )
+    cpc_material = choice(
+        protective.CPC_MATERIALS,
+        metadata={"description": "default: the line material; steel for armour, sheath or conduit"},
+    )
+    cpc_resistance_mohm_per_m = Number(
+        minimum=0.01, maximum=1000, metadata={"description": "maker's cpc (e.g. armour) resistance at 20 degC"}
+    )
     bare_condition = choice(protective.BARE_CONDITIONS, metadata={"description": "for a bare cpc (Table 54.6)"})
 
     @post_load
@@ -111,11 +131,28 @@ class ConductorsSchema(Schema):
 class SupplySchema(Schema):
     earthing = choice(disconnection.EARTHING, required=True)
     u0_v = Number(minimum=50, maximum=1000, required=True, metadata={"description": "nominal line to earth voltage"})
-    ze_ohm = Number(minimum=0.001, maximum=2000, required=True, metadata={"description": "external loop impedance; for TT including RA"})
-    prospective_fault_current_ka = Number(minimum=0.001, maximum=200, metadata={"description": "largest at the origin; if omitted, U0 x cmax / Ze"})
-    c_max = Number(minimum=1.05, maximum=1.10, validate=validate.OneOf([1.05, 1.10]), metadata={"description": "IEC 60909-0 cmax, 1.05 or 1.10 (default 1.10)"})
+    ze_ohm = Number(
+        minimum=0.001,
+        maximum=2000,
+        required=True,
+        metadata={"description": "external loop impedance; for TT including RA"},
+    )
+    prospective_fault_current_ka = Number(
+        minimum=0.001, maximum=200, metadata={"description": "largest at the origin; if omitted, U0 x cmax / Ze"}
+    )
+    c_max = Number(
+        minimum=1.05,
+        maximum=1.10,
+        validate=validate.OneOf([1.05, 1.10]),
+        metadata={"description": "IEC 60909-0 cmax, 1.05 or 1.10 (default 1.10)"},
+    )
     electrode_ohm = Number(minimum=0.01, maximum=10000, metadata={"description": "TT: earth electrode resistance RA"})
-    bonding_complete = Flag(load_default=False, metadata={"description": "TT: protective equipotential bonding complete (allows TN times for overcurrent devices)"})
+    bonding_complete = Flag(
+        load_default=False,
+        metadata={
+            "description": "TT: protective equipotential bonding complete (allows TN times for overcurrent devices)"
+        },
+    )
     current_kind = choice(disconnection.CURRENT_KINDS, load_default="ac")
     reduced_low_voltage = Flag(load_default=False, metadata={"description": "a reduced low voltage system (411.8)"})
 
@@ -131,7 +168,11 @@ class CircuitSchema(Schema):
     design_current_a = Number(minimum=0.01, maximum=10000, metadata={"description": "Ib, A"})
     device = fields.Nested(DeviceSchema, required=True)
     conductors = fields.Nested(ConductorsSchema)
-    r1_plus_r2_ohm = Number(minimum=0, maximum=100, metadata={"description": "a known R1+R2 at operating temperature, in place of the conductor calculation"})
+    r1_plus_r2_ohm = Number(
+        minimum=0,
+        maximum=100,
+        metadata={"description": "a known R1+R2 at operating temperature, in place of the conductor calculation"},
+    )
 
     @validates_schema
     def complete(self, data, **kwargs):
@@ -183,8 +224,12 @@ class PerItemList(fields.List):
 class BatchRequestSchema(FastSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuits = PerItemList(
-        fields.Nested(CircuitSchema), required=True, validate=validate.Length(min=1),
-        metadata={"description": "one result or one problem per item, in order; the size limit is the server's batch limit"},
+        fields.Nested(CircuitSchema),
+        required=True,
+        validate=validate.Length(min=1),
+        metadata={
+            "description": "one result or one problem per item, in order; the size limit is the server's batch limit"
+        },
     )
 
 
@@ -239,12 +284,16 @@ class CircuitResultSchema(Schema):
     disconnection_time_s = nullable_number("null where no disconnection is shown")
     disconnection_time_bound = fields.String(required=True, validate=validate.OneOf(BOUNDS))
     disconnection_region = fields.String(required=True)
-    disconnected_by = fields.String(allow_none=True, required=True, validate=validate.OneOf(["overcurrent-device", "rcd"]))
+    disconnected_by = fields.String(
+        allow_none=True, required=True, validate=validate.OneOf(["overcurrent-device", "rcd"])
+    )
     max_disconnection_time_s = nullable_number()
     max_disconnection_basis = fields.String(required=True)
     operating_current_a = nullable_number("Ia for the required time")
     operating_current_bound = fields.String(required=True, validate=validate.OneOf(BOUNDS))
-    max_zs_ohm = nullable_number("U0 x Cmin / Ia of the overcurrent device; null where its data show no Ia for the time")
+    max_zs_ohm = nullable_number(
+        "U0 x Cmin / Ia of the overcurrent device; null where its data show no Ia for the time"
+    )
     zs_margin_percent = nullable_number("(max_zs_ohm - zs_ohm) / max_zs_ohm x 100")
     rcd_max_zs_ohm = nullable_number("where an RCD is fitted: 50 V / IΔn, the largest Zs (TN) or RA (TT) it protects")
     protective_conductor = fields.Nested(ProtectiveConductorResultSchema, required=True)
@@ -262,9 +311,9 @@ class BatchItemSchema(Schema):
 
 class BatchSummarySchema(Schema):
     circuits = fields.Integer(required=True)
-    passed = fields.Integer(required=True, data_key="pass")
-    failed = fields.Integer(required=True, data_key="fail")
-    not_verified = fields.Integer(required=True, data_key="not-verified")
+    passed = fields.Integer(required=True, data_key=Verdict.PASS)
+    failed = fields.Integer(required=True, data_key=Verdict.FAIL)
+    not_verified = fields.Integer(required=True, data_key=Verdict.NOT_VERIFIED)
     invalid = fields.Integer(required=True)
 
 

@@ -13,9 +13,22 @@ from ..electrical.sizing import RULED_OUT_ORDER, Demand, Installation
 from .base import Blueprint
 from .errors import CoreInputError, json_response
 from .fields import Flag, Number, Text, WholeNumber, choice
-from .schemas import DEVICE_STANDARDS, DEVICE_TYPES, CircuitResultSchema, CircuitSchema, RcdSchema, SupplySchema, nullable_number
+from .schemas import (
+    DEVICE_STANDARDS,
+    DEVICE_TYPES,
+    CircuitResultSchema,
+    CircuitSchema,
+    RcdSchema,
+    SupplySchema,
+    nullable_number,
+)
 
-blp = Blueprint("sizing", __name__, url_prefix="/v1/circuits", description="Cable and device sizing, and the longest run that complies")
+blp = Blueprint(
+    "sizing",
+    __name__,
+    url_prefix="/v1/circuits",
+    description="Cable and device sizing, and the longest run that complies",
+)
 
 ALL_METHODS = sorted({m for cable in cap.CABLES for m in cap.methods(cable)})
 
@@ -26,9 +39,16 @@ class InstallationSchema(Schema):
     ambient_c = Number(minimum=-10, maximum=60, load_default=30.0)
     grouping = choice(cap.GROUPINGS, load_default="bunched")
     grouped_circuits = WholeNumber(minimum=1, maximum=60, load_default=1)
-    thermal_insulation_mm = Number(minimum=0, maximum=2000, load_default=0.0, metadata={"description": "length totally surrounded by insulation (Table 52.2)"})
+    thermal_insulation_mm = Number(
+        minimum=0,
+        maximum=2000,
+        load_default=0.0,
+        metadata={"description": "length totally surrounded by insulation (Table 52.2)"},
+    )
     ground_c = Number(minimum=0, maximum=40, metadata={"description": "method D: ground temperature (default 20)"})
-    soil_resistivity_k_m_per_w = Number(minimum=0.5, maximum=3, metadata={"description": "method D: soil thermal resistivity"})
+    soil_resistivity_k_m_per_w = Number(
+        minimum=0.5, maximum=3, metadata={"description": "method D: soil thermal resistivity"}
+    )
     in_duct = Flag(load_default=False)
     reactance_mohm_per_m = Number(minimum=0, maximum=1, metadata={"description": "for a drop computed from resistance"})
 
@@ -62,7 +82,9 @@ class SizeRequestSchema(Schema):
     voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
     length_m = Number(minimum=0.1, maximum=5000, required=True)
     installation = fields.Nested(InstallationSchema, required=True)
-    device = fields.Nested(SizeDeviceSchema, required=True, metadata={"description": "the family; the rating is chosen"})
+    device = fields.Nested(
+        SizeDeviceSchema, required=True, metadata={"description": "the family; the rating is chosen"}
+    )
 
     @validates_schema
     def complete(self, data, **kwargs):
@@ -107,7 +129,9 @@ class TriedSchema(Schema):
     line_csa_mm2 = fields.Float(required=True)
     cpc_csa_mm2 = fields.Float(required=True)
     verdict = fields.String(required=True)
-    ruled_out_by = fields.String(allow_none=True, required=True, metadata={"description": f"one of {list(RULED_OUT_ORDER)}, or a field"})
+    ruled_out_by = fields.String(
+        allow_none=True, required=True, metadata={"description": f"one of {list(RULED_OUT_ORDER)}, or a field"}
+    )
     value = nullable_number()
     limit = nullable_number()
     unit = fields.String(allow_none=True, required=True)
@@ -115,7 +139,9 @@ class TriedSchema(Schema):
 
 class MaxLengthResultSchema(Schema):
     max_length_m = nullable_number("null where no length passes")
-    limited_by = fields.String(allow_none=True, required=True, metadata={"description": "the check that fails just beyond it"})
+    limited_by = fields.String(
+        allow_none=True, required=True, metadata={"description": "the check that fails just beyond it"}
+    )
     closed_form_m = fields.Dict(keys=fields.String(), values=fields.Float(), required=True)
     method = fields.String(required=True)
 
@@ -130,7 +156,11 @@ class SizeResultSchema(Schema):
     design_current_a = fields.Float(required=True)
     device = fields.Nested(DeviceChosenSchema, required=True)
     selected = fields.Nested(SelectedSchema, allow_none=True, required=True)
-    tried = fields.List(fields.Nested(TriedSchema), required=True, metadata={"description": "each smaller size, with the check that ruled it out"})
+    tried = fields.List(
+        fields.Nested(TriedSchema),
+        required=True,
+        metadata={"description": "each smaller size, with the check that ruled it out"},
+    )
     max_length = fields.Nested(MaxLengthResultSchema, allow_none=True, required=True)
     cautions = fields.List(fields.String(), required=True)
 
@@ -146,23 +176,43 @@ def size(body):
     smaller size tried is listed with the check that ruled it out, and the longest run for the choice.
     """
     demand = Demand(
-        length_m=body["length_m"], phases=body["phases"], design_current_a=body.get("design_current_a"),
-        power_kw=body.get("power_kw"), power_factor=body["power_factor"], use=body["use"], supply_kind=body["supply_kind"],
-        voltage_drop_limit_percent=body.get("voltage_drop_limit_percent"), role=body["role"], load=body.get("load"), id=body.get("id"),
+        length_m=body["length_m"],
+        phases=body["phases"],
+        design_current_a=body.get("design_current_a"),
+        power_kw=body.get("power_kw"),
+        power_factor=body["power_factor"],
+        use=body["use"],
+        supply_kind=body["supply_kind"],
+        voltage_drop_limit_percent=body.get("voltage_drop_limit_percent"),
+        role=body["role"],
+        load=body.get("load"),
+        id=body.get("id"),
     )
     try:
         result, reach = size_with_reach(body["supply"], demand, body["installation"], body["device"])
     except ElectricalError as err:
         raise CoreInputError.of(err, {"supply": "/supply", "circuit": ""}) from None
-    out = {"design_current_a": result.design_current_a, "device": result.device, "selected": result.selected,
-           "tried": result.tried, "max_length": reach, "cautions": result.cautions}
+    out = {
+        "design_current_a": result.design_current_a,
+        "device": result.device,
+        "selected": result.selected,
+        "tried": result.tried,
+        "max_length": reach,
+        "cautions": result.cautions,
+    }
     return json_response(out)
 
 
 class MaxLengthRequestSchema(Schema):
     supply = fields.Nested(SupplySchema, required=True)
-    circuit = fields.Nested(CircuitSchema, required=True, metadata={"description": "with its conductors; the length given is where the search starts"})
-    installation = fields.Nested(InstallationSchema, metadata={"description": "adds the voltage drop rule (with the circuit's design_current_a)"})
+    circuit = fields.Nested(
+        CircuitSchema,
+        required=True,
+        metadata={"description": "with its conductors; the length given is where the search starts"},
+    )
+    installation = fields.Nested(
+        InstallationSchema, metadata={"description": "adds the voltage drop rule (with the circuit's design_current_a)"}
+    )
     phases = WholeNumber(minimum=1, maximum=3, validate=validate.OneOf([1, 3]), load_default=1)
     use = choice(cap.USES, load_default="other")
     supply_kind = choice(cap.SUPPLY_KINDS, load_default="public")
@@ -181,8 +231,14 @@ class MaxLengthRequestSchema(Schema):
 def longest(body):
     """The longest run that keeps every check passing, and the check that limits it"""
     circuit = body["circuit"]
-    demand = Demand(length_m=circuit.conductors.length_m, phases=body["phases"], design_current_a=circuit.design_current_a,
-                    use=body["use"], supply_kind=body["supply_kind"], voltage_drop_limit_percent=body.get("voltage_drop_limit_percent"))
+    demand = Demand(
+        length_m=circuit.conductors.length_m,
+        phases=body["phases"],
+        design_current_a=circuit.design_current_a,
+        use=body["use"],
+        supply_kind=body["supply_kind"],
+        voltage_drop_limit_percent=body.get("voltage_drop_limit_percent"),
+    )
     try:
         return json_response(max_length(body["supply"], circuit, body.get("installation"), demand))
     except ElectricalError as err:

@@ -10,8 +10,10 @@ import flask
 blp = flask.Blueprint("web", __name__)
 
 FILES = {"index.html": "text/html", "form.css": "text/css", "form.js": "text/javascript"}
-CSP = ("default-src 'none'; script-src 'self'; style-src 'self'; img-src 'self' blob:; connect-src 'self'; "
-       "base-uri 'none'; form-action 'self'; frame-ancestors 'none'")
+CSP = (
+    "default-src 'none'; script-src 'self'; style-src 'self'; img-src 'self' blob:; connect-src 'self'; "
+    "base-uri 'none'; form-action 'self'; frame-ancestors 'none'"
+)
 PATH = "/example/quote-form/"
 
 

@@ -11,7 +11,6 @@ from typing import Any, TypeVar
 
 import numpy as np
 
-
 F = TypeVar("F", bound=Callable[..., Any])
 
 

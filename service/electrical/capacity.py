@@ -53,9 +53,15 @@ def capacities(cable: str, method: str, phases: int) -> list[TabulatedCapacity]:
         raise InvalidInput("installation_method", f"{cable} has methods {list(table['capacity_a'])}, not {method!r}")
     column = table["capacity_a"][method].get(str(phases))
     if column is None:
-        raise InvalidInput("phases", f"{cable} is tabulated for phases {sorted(table['capacity_a'][method])}, not {phases}")
+        raise InvalidInput(
+            "phases", f"{cable} is tabulated for phases {sorted(table['capacity_a'][method])}, not {phases}"
+        )
     confidence = table["capacity_confidence"][method][str(phases)]
-    return [TabulatedCapacity(float(csa), float(it), str(conf)) for csa, it, conf in zip(table["csa_mm2"], column, confidence) if it is not None]
+    return [
+        TabulatedCapacity(float(csa), float(it), str(conf))
+        for csa, it, conf in zip(table["csa_mm2"], column, confidence, strict=True)
+        if it is not None
+    ]
 
 
 def ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
@@ -73,7 +79,9 @@ def ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
         return math.sqrt((theta_p - ambient_c) / (theta_p - 30)), "BS 7671 Table 4B1 (formula above 30 degC)"
     if ambient_c <= 25:
         confidence = "S" if insulation in ("thermoplastic-70", "thermosetting-90") else "M, from memory"
-        return float(table["below_reference"][insulation]["25"]), f"BS 7671 Table 4B1, 25 degC value, used at and below 25 degC (confidence {confidence})"
+        return float(
+            table["below_reference"][insulation]["25"]
+        ), f"BS 7671 Table 4B1, 25 degC value, used at and below 25 degC (confidence {confidence})"
     return 1.0, "BS 7671 Table 4B1: 1.00 taken between 25 and 30 degC (conservative)"
 
 
@@ -119,14 +127,16 @@ def thermal_insulation_factor(length_mm: float) -> tuple[float, str]:
     if length_mm <= 0:
         return 1.0, "no thermal insulation"
     table = core_table("correction_factors")["thermal_insulation"]
-    for length, factor, conf in zip(table["lengths_mm"], table["factors"], table["confidence"]):
+    for length, factor, conf in zip(table["lengths_mm"], table["factors"], table["confidence"], strict=True):
         if length_mm <= length:
             conf = "M, from memory" if conf == "M" else conf
             return float(factor), f"BS 7671 Table 52.2 at {length} mm (confidence {conf})"
     return float(table["factors"][-1]), "BS 7671 Table 52.2, 500 mm and more (confidence A)"
 
 
-def voltage_drop_mv_per_a_m(cable: str, csa_mm2: float, phases: int, reactance_mohm_per_m: float | None = None) -> tuple[float, str]:
+def voltage_drop_mv_per_a_m(
+    cable: str, csa_mm2: float, phases: int, reactance_mohm_per_m: float | None = None
+) -> tuple[float, str]:
     """Voltage drop per ampere per metre (mV/A/m) at the conductor's operating temperature.
 
     From the tabulated value where the table has one (BS 7671 Tables 4D5, 4E4B: z, or sqrt(r^2 + x^2));

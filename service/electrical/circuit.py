@@ -57,7 +57,9 @@ def check_columns(cols: CircuitColumns) -> Checked:
     return Checked(cols, loop, trip, checks, cautions)
 
 
-def check_circuits(supply: Supply | Sequence[Supply], circuits: Sequence[Circuit]) -> list[CircuitResult | CircuitFailure]:
+def check_circuits(
+    supply: Supply | Sequence[Supply], circuits: Sequence[Circuit]
+) -> list[CircuitResult | CircuitFailure]:
     """Check many circuits as arrays; one result or one failure per circuit, in order.
 
     ``supply`` is one supply for all, or one per circuit. A circuit the rules or the data do not cover
@@ -72,7 +74,7 @@ def check_circuits(supply: Supply | Sequence[Supply], circuits: Sequence[Circuit
         out[failure.index] = failure
     if good:
         cols = columns_of([supplies[i] for i in good], [circuits[i] for i in good])
-        for i, result in zip(good, assemble(check_columns(cols))):
+        for i, result in zip(good, assemble(check_columns(cols)), strict=True):
             out[i] = result
     return out  # type: ignore[return-value]
 

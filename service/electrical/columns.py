@@ -94,8 +94,10 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
     rcds = [c.device.rcd for c in circuits]
     earthing = np.array([s.earthing for s in supplies], dtype=object)
     return CircuitColumns(
-        supplies=supplies, circuits=circuits,
-        earthing=earthing, tt=earthing == "TT",
+        supplies=supplies,
+        circuits=circuits,
+        earthing=earthing,
+        tt=earthing == "TT",
         u0_v=np.array([s.u0_v for s in supplies], dtype=float),
         ze_ohm=np.array([s.ze_ohm for s in supplies], dtype=float),
         pfc_stated_ka=_optional([s.prospective_fault_current_ka for s in supplies]),
@@ -110,10 +112,13 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         design_current_a=_optional([c.design_current_a for c in circuits]),
         r1r2_given_ohm=_optional([c.r1_plus_r2_ohm for c in circuits]),
         conductors=cond.conductor_columns([c.conductors for c in circuits]),
-        devices=devices, device_groups=device_groups,
+        devices=devices,
+        device_groups=device_groups,
         has_rcd=np.array([r is not None for r in rcds], dtype=bool),
         residual_ma=np.array([np.inf if r is None else r.residual_current_ma for r in rcds], dtype=float),
-        rcd_groups={k: v for k, v in groups([(r.residual_current_ma, r.delay) if r else None for r in rcds]).items() if k},
+        rcd_groups={
+            k: v for k, v in groups([(r.residual_current_ma, r.delay) if r else None for r in rcds]).items() if k
+        },
         let_through_a2s=_optional([c.device.let_through_a2s for c in circuits]),
         breaking_capacity_ka=_optional([c.device.breaking_capacity_ka for c in circuits]),
     )
@@ -123,7 +128,7 @@ def prepare(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> tuple[li
     """Which circuits can be computed (their indices) and a failure for each of the others, in order."""
     good: list[int] = []
     failures: list[CircuitFailure] = []
-    for i, (s, c) in enumerate(zip(supplies, circuits)):
+    for i, (s, c) in enumerate(zip(supplies, circuits, strict=True)):
         problem = _problem(s, c)
         if problem is None:
             good.append(i)
@@ -181,9 +186,18 @@ def _rules_problem(supply: Supply, role: str, load: str | None, rating_a: float)
             return InvalidInput(("supply", name), "must be greater than zero")
     try:
         disconnection.max_disconnection_time_s(
-            supply.earthing, supply.u0_v, role, load, rating_a, supply.current_kind, False, supply.reduced_low_voltage,
+            supply.earthing,
+            supply.u0_v,
+            role,
+            load,
+            rating_a,
+            supply.current_kind,
+            False,
+            supply.reduced_low_voltage,
         )
-        faults.prospective_fault_current_ka(supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max)
+        faults.prospective_fault_current_ka(
+            supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max
+        )
     except ElectricalError as err:
         return err.within("supply" if err.path[0] in SUPPLY_PARAMETERS else "circuit")
     return None

@@ -53,7 +53,7 @@ def resistance_mohm_per_m(material: Any, csa_mm2: Any, conductor_class: Any = 2,
     n = len(csa)
     materials = map_column(material, n, lambda m: m, dtype=object)
     classes = map_column(conductor_class, n, lambda c: c, dtype=object)
-    keys = list(zip(materials, classes, csa.tolist()))
+    keys = list(zip(materials, classes, csa.tolist(), strict=True))
 
     def lookup(key: tuple[str, int, float]) -> float:
         mat, cls, size = key
@@ -138,8 +138,17 @@ def ring_factor(ring: Any, shape: tuple[int, ...]) -> np.ndarray:
 
 def arrangement(c: Conductors) -> tuple:
     """The fields of the conductors that do not depend on the length (the key of :func:`conductor_constants`)."""
-    return (c.material, c.insulation, c.line_csa_mm2, c.cpc_csa_mm2, c.cpc_arrangement, c.conductor_class,
-            c.cpc_material, c.cpc_resistance_mohm_per_m, c.bare_condition)
+    return (
+        c.material,
+        c.insulation,
+        c.line_csa_mm2,
+        c.cpc_csa_mm2,
+        c.cpc_arrangement,
+        c.conductor_class,
+        c.cpc_material,
+        c.cpc_resistance_mohm_per_m,
+        c.bare_condition,
+    )
 
 
 def conductor_constants(c: Conductors) -> tuple:
@@ -148,9 +157,17 @@ def conductor_constants(c: Conductors) -> tuple:
 
 
 @lru_cache(maxsize=4096)
-def constants_of(material: str, insulation: str, line_csa_mm2: float, cpc_csa_mm2: float, cpc_arrangement: str,
-                 conductor_class: int, cpc_material: str | None, cpc_resistance_mohm_per_m: float | None,
-                 bare_condition: str | None) -> tuple:
+def constants_of(
+    material: str,
+    insulation: str,
+    line_csa_mm2: float,
+    cpc_csa_mm2: float,
+    cpc_arrangement: str,
+    conductor_class: int,
+    cpc_material: str | None,
+    cpc_resistance_mohm_per_m: float | None,
+    bare_condition: str | None,
+) -> tuple:
     """What a conductor arrangement contributes whatever its length.
 
     Resistances at 20 degC (mohm/m), the temperatures the rules assume, k for the cpc and for the
@@ -224,7 +241,7 @@ def conductor_columns(items: Sequence[Conductors | None]) -> ConductorColumns:
         constants = [constants_of(*arrangement(c)) for c in cs]
         sel = np.asarray(idx)
         present[sel] = True
-        table = np.array([k[:len(_CONSTANTS)] for k in constants], dtype=float)
+        table = np.array([k[: len(_CONSTANTS)] for k in constants], dtype=float)
         for j, name in enumerate(_CONSTANTS):
             numbers[name][sel] = table[:, j]
         length = np.array([c.length_m for c in cs], dtype=float)

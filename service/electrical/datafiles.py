@@ -7,14 +7,14 @@ Tables are read once per process.
 from __future__ import annotations
 
 import json
-from functools import lru_cache
+from functools import cache
 from importlib import resources
 from typing import Any
 
 _REQUIRED = ("title", "source")
 
 
-@lru_cache(maxsize=None)
+@cache
 def load(package: str, name: str) -> dict[str, Any]:
     """Return the parsed table ``name`` (without ``.json``) from ``package``'s ``data`` folder."""
     text = resources.files(package).joinpath("data", f"{name}.json").read_text(encoding="utf-8")

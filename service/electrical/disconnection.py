@@ -57,18 +57,31 @@ def max_disconnection_time_s(
     cols = {
         name: as_objects(value, n)
         for name, value in (
-            ("earthing", earthing), ("role", role), ("load", load), ("current_kind", current_kind),
-            ("tn_times_in_tt", tn_times_in_tt), ("reduced_low_voltage", reduced_low_voltage),
+            ("earthing", earthing),
+            ("role", role),
+            ("load", load),
+            ("current_kind", current_kind),
+            ("tn_times_in_tt", tn_times_in_tt),
+            ("reduced_low_voltage", reduced_low_voltage),
         )
     }
     rating = np.broadcast_to(as_float(rating_a), u0.shape)
     bands = table["u0_bands_v"]
     scope = table["scope_411_3_2_2"]
     clauses = table["clauses"]
-    keys = list(zip(
-        cols["earthing"], u0.tolist(), cols["role"], cols["load"], rating.tolist(), cols["current_kind"],
-        (bool(v) for v in cols["tn_times_in_tt"]), (bool(v) for v in cols["reduced_low_voltage"]),
-    ))
+    keys = list(
+        zip(
+            cols["earthing"],
+            u0.tolist(),
+            cols["role"],
+            cols["load"],
+            rating.tolist(),
+            cols["current_kind"],
+            (bool(v) for v in cols["tn_times_in_tt"]),
+            (bool(v) for v in cols["reduced_low_voltage"]),
+            strict=True,
+        )
+    )
     answers = map_column(keys, n, lambda key: _one(table, bands, scope, clauses, *key), dtype=object)
     times = np.fromiter((a[0] for a in answers), dtype=float, count=n)
     basis = as_objects([a[1] for a in answers], n)
@@ -84,7 +97,9 @@ def _one(table, bands, scope, clauses, earthing, u0, role, load, rating, kind, t
     if rlv:
         return float(table["reduced_low_voltage_s"]), clauses["reduced_low_voltage"]
     if u0 <= bands[0]["above_v"]:
-        raise InvalidInput("u0_v", f"Table 41.1 covers U0 above {bands[0]['above_v']} V; below it the circuit is extra-low voltage")
+        raise InvalidInput(
+            "u0_v", f"Table 41.1 covers U0 above {bands[0]['above_v']} V; below it the circuit is extra-low voltage"
+        )
     if role == "final":
         if load not in LOADS:
             raise InvalidInput("load", f"a final circuit's load is one of {list(LOADS)}, not {load!r}")
@@ -110,6 +125,7 @@ def time_verdicts(time_s: np.ndarray, bound: np.ndarray, limit_s: np.ndarray) ->
         ok = time_s <= limit_s * (1 + 1e-9)
     verdict = np.select(
         [~np.isfinite(limit_s), bound == BEYOND_DATA, ok, bound == AT_MOST],
-        [verdicts.NOT_VERIFIED, verdicts.FAIL, verdicts.PASS, verdicts.NOT_VERIFIED], verdicts.FAIL,
+        [verdicts.NOT_VERIFIED, verdicts.FAIL, verdicts.PASS, verdicts.NOT_VERIFIED],
+        verdicts.FAIL,
     )
     return verdict.astype(np.int8)

@@ -8,8 +8,8 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from .arrays import as_float, groups, scalar_io
-from .datafiles import core_table
 from .conductors import conductor_columns
+from .datafiles import core_table
 from .errors import ElectricalError, InvalidInput
 from .model import Conductors, Supply
 
@@ -78,7 +78,8 @@ def prospective_fault_current_ka(
 PFC_STATED = "stated in the request"
 PFC_FROM_ZE = "U0 x cmax / Ze with cmax {c_max:g} (IEC 60909-0 Table 1)"
 CAUTION_PFC_FROM_ZE = (
-    "Prospective fault current calculated from Ze; the line-neutral (or three-phase) value may be higher: state the larger one."
+    "Prospective fault current calculated from Ze; the line-neutral (or three-phase) value may be higher: "
+    "state the larger one."
 )
 
 
@@ -102,8 +103,11 @@ class FaultLoop:
     def figures(self) -> dict[str, Any]:
         """The loop's figures under the names of the circuit result."""
         return {
-            "r1_plus_r2_ohm": self.r1r2_ohm, "zs_ohm": self.zs_ohm, "earth_fault_current_a": self.earth_fault_a,
-            "earth_fault_current_nominal_a": self.earth_fault_nominal_a, "prospective_fault_current_ka": self.pfc_ka,
+            "r1_plus_r2_ohm": self.r1r2_ohm,
+            "zs_ohm": self.zs_ohm,
+            "earth_fault_current_a": self.earth_fault_a,
+            "earth_fault_current_nominal_a": self.earth_fault_nominal_a,
+            "prospective_fault_current_ka": self.pfc_ka,
             "prospective_fault_current_basis": self.pfc_basis,
         }
 
@@ -119,14 +123,24 @@ def fault_loop(cols: CircuitColumns) -> FaultLoop:
         pfc[idx] = prospective_fault_current_ka(cols.u0_v[idx], cols.ze_ohm[idx], cols.pfc_stated_ka[idx], key)
     stated = ~np.isnan(cols.pfc_stated_ka)
     default = c_max_default()
-    basis = [PFC_STATED if s else PFC_FROM_ZE.format(c_max=cm or default) for s, cm in zip(stated.tolist(), cols.c_max)]
+    basis = [
+        PFC_STATED if s else PFC_FROM_ZE.format(c_max=cm or default)
+        for s, cm in zip(stated.tolist(), cols.c_max, strict=True)
+    ]
     return FaultLoop(
-        r1r2_ohm=r1r2, zs_ohm=zs, earth_fault_a=c_min() * i_nom, earth_fault_nominal_a=i_nom, pfc_ka=pfc,
-        pfc_basis=basis, cautions=[(~stated, CAUTION_PFC_FROM_ZE)],
+        r1r2_ohm=r1r2,
+        zs_ohm=zs,
+        earth_fault_a=c_min() * i_nom,
+        earth_fault_nominal_a=i_nom,
+        pfc_ka=pfc,
+        pfc_basis=basis,
+        cautions=[(~stated, CAUTION_PFC_FROM_ZE)],
     )
 
 
-FAULT_CURRENT_BASIS = "Zs = Ze + (R1+R2); If = U0 x Cmin / Zs with Cmin 0.95 (IEC 60909-0 Table 1; BS 7671:2018 411.4.4)"
+FAULT_CURRENT_BASIS = (
+    "Zs = Ze + (R1+R2); If = U0 x Cmin / Zs with Cmin 0.95 (IEC 60909-0 Table 1; BS 7671:2018 411.4.4)"
+)
 
 
 @dataclass
@@ -141,8 +155,12 @@ class FaultFigures:
     basis: str = FAULT_CURRENT_BASIS
 
 
-def fault_current(u0_v: float | None = None, zs_ohm: float | None = None, supply: Supply | None = None,
-                  conductors: Conductors | None = None) -> FaultFigures:
+def fault_current(
+    u0_v: float | None = None,
+    zs_ohm: float | None = None,
+    supply: Supply | None = None,
+    conductors: Conductors | None = None,
+) -> FaultFigures:
     """If from U0 and Zs, or from a supply and conductors (Zs = Ze + R1+R2 at the temperatures the rules assume).
 
     Errors about the conductors carry a path below ``conductors``.
@@ -155,11 +173,14 @@ def fault_current(u0_v: float | None = None, zs_ohm: float | None = None, supply
             raise err.within("conductors") from None
         r1r2 = float(cols.r1[0] + cols.r2[0])
         u0_v, zs_ohm = supply.u0_v, supply.ze_ohm + r1r2
-        pfc = prospective_fault_current_ka(supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max)
+        pfc = prospective_fault_current_ka(
+            supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max
+        )
     if u0_v is None or zs_ohm is None:
         raise InvalidInput("zs_ohm", "give u0_v and zs_ohm, or a supply and conductors")
     return FaultFigures(
-        zs_ohm=float(zs_ohm), r1_plus_r2_ohm=r1r2,
+        zs_ohm=float(zs_ohm),
+        r1_plus_r2_ohm=r1r2,
         earth_fault_current_a=earth_fault_current_a(u0_v, zs_ohm),
         earth_fault_current_nominal_a=earth_fault_current_a(u0_v, zs_ohm, voltage_factor=1.0),
         prospective_fault_current_ka=pfc,

@@ -67,8 +67,9 @@ class MaxZs:
     basis: str = MAX_ZS_BASIS
 
 
-def max_zs_for(spec: DeviceSpec, time_s: float, u0_v: float, insulation: str = "thermoplastic-70",
-               ambient_c: float = 20.0) -> MaxZs:
+def max_zs_for(
+    spec: DeviceSpec, time_s: float, u0_v: float, insulation: str = "thermoplastic-70", ambient_c: float = 20.0
+) -> MaxZs:
     """Ia for ``time_s``, max Zs = U0 x Cmin / Ia, its limit for a Zs measured at ``ambient_c``, and 50 V / IΔn.
 
     Errors carry a path below the device.
@@ -81,7 +82,11 @@ def max_zs_for(spec: DeviceSpec, time_s: float, u0_v: float, insulation: str = "
     cold, rule = measured_limit_ohm(zs, operating_temperature_c(insulation), ambient_c)
     rcd = None if spec.rcd is None else finite_or_none(rcd_max_loop_ohm(spec.rcd.residual_current_ma))
     return MaxZs(
-        operating_current_a=finite_or_none(ia), bound=str(bound), max_zs_ohm=finite_or_none(zs),
-        max_measured_zs_ohm=finite_or_none(cold), max_measured_zs_rule_of_thumb_ohm=finite_or_none(rule),
-        rcd_max_zs_ohm=rcd, device=dev.summary(),
+        operating_current_a=finite_or_none(ia),
+        bound=str(bound),
+        max_zs_ohm=finite_or_none(zs),
+        max_measured_zs_ohm=finite_or_none(cold),
+        max_measured_zs_rule_of_thumb_ohm=finite_or_none(rule),
+        rcd_max_zs_ohm=rcd,
+        device=dev.summary(),
     )

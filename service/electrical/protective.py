@@ -41,13 +41,17 @@ def k_formula(material: str, initial_c: Any, final_c: Any) -> np.ndarray:
     try:
         m = _table()["materials"][material]
     except KeyError:
-        raise InvalidInput("material", f"k needs a material among {sorted(_table()['materials'])}, not {material!r}") from None
+        raise InvalidInput(
+            "material", f"k needs a material among {sorted(_table()['materials'])}, not {material!r}"
+        ) from None
     beta, qc, rho = m["beta_c"], m["qc_j_per_c_mm3"], m["rho20_ohm_mm"]
     ti, tf = as_float(initial_c), as_float(final_c)
     return np.sqrt(qc * (beta + 20.0) / rho * np.log(1.0 + (tf - ti) / (beta + ti)))
 
 
-def k_case(material: str, arrangement: str, insulation: str | None, csa_mm2: float, condition: str | None = None) -> dict[str, Any]:
+def k_case(
+    material: str, arrangement: str, insulation: str | None, csa_mm2: float, condition: str | None = None
+) -> dict[str, Any]:
     """The rule for one protective conductor: temperatures, k by formula and by table, and the table.
 
     ``arrangement``: ``in-cable`` (a core of a cable, or bunched: Table 54.3, as Table 43.1),
@@ -69,7 +73,8 @@ def k_case(material: str, arrangement: str, insulation: str | None, csa_mm2: flo
         tabulated = case["tabulated_k_over_300mm2"] if large else case["tabulated_k"]
         if material not in finals:
             raise NoRule(
-                "cpc_material", f"no rule for a {material} protective conductor as {arrangement}; materials: {sorted(finals)}"
+                "cpc_material",
+                f"no rule for a {material} protective conductor as {arrangement}; materials: {sorted(finals)}",
             )
         formula = float(k_formula(material, case["initial_c"], finals[material]))
         table_k = tabulated.get(material)
@@ -146,7 +151,9 @@ def selection_csa_mm2(line_csa_mm2: Any, k_line: Any = None, k_cpc: Any = None) 
 
 
 @scalar_io
-def cpc_verdicts(csa_mm2: Any, min_csa_mm2: Any, selection_csa_mm2: Any = np.nan) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def cpc_verdicts(
+    csa_mm2: Any, min_csa_mm2: Any, selection_csa_mm2: Any = np.nan
+) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Verdict for each protective conductor, and whether it passes by calculation or by selection.
 
     pass where the cpc is at least sqrt(I^2 t) / k (BS 7671:2018 543.1.3) or at least the Table 54.7 size
@@ -160,7 +167,9 @@ def cpc_verdicts(csa_mm2: Any, min_csa_mm2: Any, selection_csa_mm2: Any = np.nan
     with np.errstate(invalid="ignore"):
         by_calculation = np.isfinite(s_min) & (csa >= s_min * (1 - 1e-9))
         by_selection = np.isfinite(selection) & (csa >= selection)
-    verdict = np.select([by_calculation | by_selection, np.isfinite(s_min)], [verdicts.PASS, verdicts.FAIL], verdicts.NOT_VERIFIED)
+    verdict = np.select(
+        [by_calculation | by_selection, np.isfinite(s_min)], [verdicts.PASS, verdicts.FAIL], verdicts.NOT_VERIFIED
+    )
     return verdict.astype(np.int8), by_calculation, by_selection
 
 
@@ -185,10 +194,20 @@ class CpcSizing:
     basis: str
 
 
-def size_for_fault(fault_current_a: float, material: str, arrangement: str, insulation: str | None = None, *,
-                   time_s: float | None = None, device: DeviceSpec | None = None, bare_condition: str | None = None,
-                   cpc_csa_mm2: float | None = None, line_csa_mm2: float | None = None, line_material: str | None = None,
-                   let_through_a2s: float | None = None) -> CpcSizing:
+def size_for_fault(
+    fault_current_a: float,
+    material: str,
+    arrangement: str,
+    insulation: str | None = None,
+    *,
+    time_s: float | None = None,
+    device: DeviceSpec | None = None,
+    bare_condition: str | None = None,
+    cpc_csa_mm2: float | None = None,
+    line_csa_mm2: float | None = None,
+    line_material: str | None = None,
+    let_through_a2s: float | None = None,
+) -> CpcSizing:
     """k, the minimum cpc S = sqrt(I^2 t) / k and the next standard size, with Table 54.7 and a verdict where asked.
 
     The time is ``time_s``, or read off ``device`` at the fault current. BS 7671:2018 543.1.3 and 543.1.4;
@@ -200,13 +219,7 @@ def size_for_fault(fault_current_a: float, material: str, arrangement: str, insu
         case = k_case(material, arrangement, insulation, cpc_csa_mm2 or line_csa_mm2 or 1.0, bare_condition)
     except ElectricalError as err:
         raise type(err)(names.get(str(err.path[0]), err.path[0]), err.message) from None
-    bound = "given"
-    if device is not None:
-        try:
-            time_s, bound = resolve(device).time_at(fault_current_a)
-        except ElectricalError as err:
-            raise err.within("device") from None
-        let_through_a2s = device.let_through_a2s if let_through_a2s is None else let_through_a2s
+    time_s, bound, let_through_a2s = _time_of(fault_current_a, time_s, device, let_through_a2s)
     energy, method = fault_energy_a2s(fault_current_a, time_s, let_through_a2s)
     s_min = finite_or_none(min_csa_mm2(energy, case["k"]))
     selection = None
@@ -216,16 +229,38 @@ def size_for_fault(fault_current_a: float, material: str, arrangement: str, insu
         selection = finite_or_none(selection_csa_mm2(line_csa_mm2, k_line, None if k_line is None else case["k"]))
     verdict = None
     if cpc_csa_mm2 is not None:
-        code = cpc_verdicts(cpc_csa_mm2, np.nan if s_min is None else s_min, np.nan if selection is None else selection)[0]
+        code = cpc_verdicts(
+            cpc_csa_mm2, np.nan if s_min is None else s_min, np.nan if selection is None else selection
+        )[0]
         verdict = verdicts.VERDICTS[code]
     return CpcSizing(
-        k=case["k"], k_formula=case["k_formula"], k_tabulated=case["k_tabulated"], k_basis=case["table"],
-        initial_c=case["initial_c"], final_c=case["final_c"], time_s=finite_or_none(time_s), time_bound=str(bound),
-        energy_a2s=finite_or_none(energy), energy_basis=str(method), min_csa_mm2=s_min,
+        k=case["k"],
+        k_formula=case["k_formula"],
+        k_tabulated=case["k_tabulated"],
+        k_basis=case["table"],
+        initial_c=case["initial_c"],
+        final_c=case["final_c"],
+        time_s=finite_or_none(time_s),
+        time_bound=str(bound),
+        energy_a2s=finite_or_none(energy),
+        energy_basis=str(method),
+        min_csa_mm2=s_min,
         csa_mm2=None if s_min is None else finite_or_none(next_standard_size_mm2(s_min)),
-        selection_csa_mm2=selection, verdict=verdict,
+        selection_csa_mm2=selection,
+        verdict=verdict,
         basis=ADIABATIC_BASIS + ("; Table 54.7 (543.1.4)" if selection is not None else ""),
     )
+
+
+def _time_of(current_a: float, time_s: float | None, device: DeviceSpec | None, let_through_a2s: float | None):
+    """The time (given, or read off the device at the current), its bound, and the let-through energy to use."""
+    if device is None:
+        return time_s, "given", let_through_a2s
+    try:
+        time_s, bound = resolve(device).time_at(current_a)
+    except ElectricalError as err:
+        raise err.within("device") from None
+    return time_s, bound, device.let_through_a2s if let_through_a2s is None else let_through_a2s
 
 
 ADIABATIC_BASIS = "BS 7671:2018 543.1.3, S = sqrt(I^2 t) / k; k from IEC 60364-5-54 Annex A"

@@ -21,36 +21,61 @@ from .errors import InvalidInput
 from .model import Circuit, Conductors, DeviceSpec, Supply
 from .results import CircuitResult
 from .sizing import (
-    RULED_OUT_ORDER, Demand, Installation, SizingResult, installation_paths, ruled_out_by, rules_out, size_circuit, voltage_drop,
+    RULED_OUT_ORDER,
+    Demand,
+    Installation,
+    SizingResult,
+    installation_paths,
+    ruled_out_by,
+    rules_out,
+    size_circuit,
+    voltage_drop,
 )
 from .verdicts import Verdict
 
 MAX_LENGTH_M = 5000.0
 
 
-def size_with_reach(supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec) -> tuple[SizingResult, dict | None]:
+def size_with_reach(
+    supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec
+) -> tuple[SizingResult, dict | None]:
     """:func:`size_circuit`, and the longest run of the size chosen (None where no size passes)."""
     result = size_circuit(supply, demand, inst, device)
     if result.selected is None:
         return result, None
     chosen = result.selected["check"]
-    conductors = Conductors("copper", result.selected["insulation"], result.selected["line_csa_mm2"],
-                            result.selected["cpc_csa_mm2"], demand.length_m)
-    circuit = Circuit(device=dataclasses.replace(device, rating_a=result.device["rating_a"]), conductors=conductors,
-                      role=demand.role, load=demand.load, id=chosen.id, design_current_a=result.design_current_a)
+    conductors = Conductors(
+        "copper",
+        result.selected["insulation"],
+        result.selected["line_csa_mm2"],
+        result.selected["cpc_csa_mm2"],
+        demand.length_m,
+    )
+    circuit = Circuit(
+        device=dataclasses.replace(device, rating_a=result.device["rating_a"]),
+        conductors=conductors,
+        role=demand.role,
+        load=demand.load,
+        id=chosen.id,
+        design_current_a=result.design_current_a,
+    )
     return result, max_length(supply, circuit, inst, demand)
 
 
-def ruling(supply: Supply, circuit: Circuit, lengths: Any, vd_at_1m: dict[str, Any] | None) -> list[tuple[str | None, float]]:
+def ruling(
+    supply: Supply, circuit: Circuit, lengths: Any, vd_at_1m: dict[str, Any] | None
+) -> list[tuple[str | None, float]]:
     """For each length (m): the first check that fails (None where all pass) and the smallest margin (%).
 
     The margin is positive where every check passes and negative where one fails (the failing check's
     margin, or -1 where it has none), so that it changes sign at the longest run.
     """
-    items = [dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=float(L)))
-             for L in np.atleast_1d(lengths)]
+    items = [
+        dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=float(L)))
+        for L in np.atleast_1d(lengths)
+    ]
     out = []
-    for L, outcome in zip(np.atleast_1d(lengths), check_circuits(supply, items)):
+    for L, outcome in zip(np.atleast_1d(lengths), check_circuits(supply, items), strict=True):
         if isinstance(outcome, CircuitFailure):
             out.append((outcome.field, -1.0))
             continue
@@ -74,7 +99,9 @@ def _smallest_margin(result: CircuitResult, vd: dict[str, Any] | None) -> float:
     return min(margins, default=100.0)
 
 
-def max_length(supply: Supply, circuit: Circuit, inst: Installation | None = None, demand: Demand | None = None) -> dict[str, Any]:
+def max_length(
+    supply: Supply, circuit: Circuit, inst: Installation | None = None, demand: Demand | None = None
+) -> dict[str, Any]:
     """The longest run (m) that keeps every check passing, and the check that limits it.
 
     Closed form for the loop impedance, L = (max Zs - Ze) / (r1+r2 per metre), and for the voltage
@@ -94,22 +121,41 @@ def max_length(supply: Supply, circuit: Circuit, inst: Installation | None = Non
     if not passes(start):
         grid = np.linspace(0.0, MAX_LENGTH_M, 257)
         names = ruling(supply, circuit, grid, vd_1m)
-        passing = [L for L, (name, _) in zip(grid, names) if name is None]
+        passing = [L for L, (name, _) in zip(grid, names, strict=True) if name is None]
         if not passing:
-            return {"max_length_m": None, "limited_by": names[0][0], "closed_form_m": candidates, "method": "no length passes"}
+            return {
+                "max_length_m": None,
+                "limited_by": names[0][0],
+                "closed_form_m": candidates,
+                "method": "no length passes",
+            }
         start = float(passing[0])
     guess = max(start, min([MAX_LENGTH_M] + list(candidates.values())))
-    (at_guess, _), (beyond, _) = ruling(supply, circuit, [guess * (1 - 1e-9), min(guess * 1.01, MAX_LENGTH_M * 1.01)], vd_1m)
+    (at_guess, _), (beyond, _) = ruling(
+        supply, circuit, [guess * (1 - 1e-9), min(guess * 1.01, MAX_LENGTH_M * 1.01)], vd_1m
+    )
     if at_guess is None and (beyond is not None or guess >= MAX_LENGTH_M):
-        return {"max_length_m": guess, "limited_by": beyond if guess < MAX_LENGTH_M else None,
-                "closed_form_m": candidates, "method": "closed form, confirmed by the whole check"}
+        return {
+            "max_length_m": guess,
+            "limited_by": beyond if guess < MAX_LENGTH_M else None,
+            "closed_form_m": candidates,
+            "method": "closed form, confirmed by the whole check",
+        }
     lo, hi = (start, guess) if at_guess is not None else (guess, MAX_LENGTH_M)
     if passes(hi):
-        return {"max_length_m": MAX_LENGTH_M, "limited_by": None, "closed_form_m": candidates,
-                "method": "every length up to the schema's limit passes"}
+        return {
+            "max_length_m": MAX_LENGTH_M,
+            "limited_by": None,
+            "closed_form_m": candidates,
+            "method": "every length up to the schema's limit passes",
+        }
     found = _boundary(lambda length: ruling(supply, circuit, [length], vd_1m)[0], lo, hi)
-    return {"max_length_m": found, "limited_by": ruling(supply, circuit, [found * 1.01], vd_1m)[0][0],
-            "closed_form_m": candidates, "method": "Brent's method on the smallest margin of the whole check"}
+    return {
+        "max_length_m": found,
+        "limited_by": ruling(supply, circuit, [found * 1.01], vd_1m)[0][0],
+        "closed_form_m": candidates,
+        "method": "Brent's method on the smallest margin of the whole check",
+    }
 
 
 LENGTH_TOLERANCE_M = 1e-4
@@ -117,6 +163,7 @@ LENGTH_TOLERANCE_M = 1e-4
 
 def _boundary(judge, lo: float, hi: float) -> float:
     """The longest length in [lo, hi] that passes, where ``lo`` passes and ``hi`` does not (Brent's method)."""
+
     def signed_margin(length: float) -> float:
         name, margin = judge(length)
         return margin if name is None else min(margin, -1e-9)
@@ -125,14 +172,16 @@ def _boundary(judge, lo: float, hi: float) -> float:
     for step in range(8):  # the root may sit a tolerance on the failing side of the step
         if judge(found)[0] is None:
             return float(found)
-        found = max(lo, found - LENGTH_TOLERANCE_M * 2 ** step)
+        found = max(lo, found - LENGTH_TOLERANCE_M * 2**step)
     return float(lo)
 
 
 def _closed_forms(supply: Supply, circuit: Circuit, inst: Installation | None, demand: Demand | None):
     """The closed-form lengths (max Zs, voltage drop) and the voltage drop of one metre, where asked for."""
     per_m, r2_per_m = loop_resistance_per_m(circuit.conductors)
-    at_zero = check_circuits(supply, [dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=0.0))])[0]
+    at_zero = check_circuits(
+        supply, [dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=0.0))]
+    )[0]
     if isinstance(at_zero, CircuitFailure):
         raise at_zero.error(at_zero.path, at_zero.message)
     candidates: dict[str, float] = {}
@@ -142,7 +191,9 @@ def _closed_forms(supply: Supply, circuit: Circuit, inst: Installation | None, d
         zs_limit = max(zs_limit or 0.0, rcd.limit)
     if zs_limit is not None:
         by_ra = supply.earthing == "TT" and rcd is not None and supply.electrode_ohm is not None
-        candidates["max-zs"] = (zs_limit - supply.electrode_ohm) / r2_per_m if by_ra else (zs_limit - supply.ze_ohm) / per_m
+        candidates["max-zs"] = (
+            (zs_limit - supply.electrode_ohm) / r2_per_m if by_ra else (zs_limit - supply.ze_ohm) / per_m
+        )
     ib = circuit.design_current_a if demand is None or demand.design_current_a is None else demand.design_current_a
     vd_1m = None
     if inst is not None and demand is not None and ib:

@@ -17,8 +17,8 @@ from .arrays import finite_or_none
 from .columns import CircuitColumns
 from .devices import residual
 from .devices.catalogue import resolve
-from .errors import ElectricalError
 from .devices.characteristic import BEYOND_DATA, ESTIMATED, bound_names
+from .errors import ElectricalError
 from .faults import FaultLoop
 from .limits import max_zs_for_current_ohm
 from .model import DeviceSpec
@@ -62,12 +62,17 @@ class DeviceResponse:
             margin = (self.max_zs_oc_ohm - self.zs_ohm) / self.max_zs_oc_ohm * 100.0
         by = np.where(self.by_rcd, "rcd", "overcurrent-device").astype(object)
         return {
-            "disconnection_time_s": self.time_s, "disconnection_time_bound": bound_names(self.bound),
+            "disconnection_time_s": self.time_s,
+            "disconnection_time_bound": bound_names(self.bound),
             "disconnection_region": np.where(self.by_rcd, "residual", self.region),
             "disconnected_by": np.where(self.bound == BEYOND_DATA, None, by),
-            "max_disconnection_time_s": self.required_s, "max_disconnection_basis": self.required_basis,
-            "operating_current_a": self.operating_current_a, "operating_current_bound": bound_names(self.operating_bound),
-            "max_zs_ohm": self.max_zs_oc_ohm, "zs_margin_percent": margin, "rcd_max_zs_ohm": self.rcd_limit_ohm,
+            "max_disconnection_time_s": self.required_s,
+            "max_disconnection_basis": self.required_basis,
+            "operating_current_a": self.operating_current_a,
+            "operating_current_bound": bound_names(self.operating_bound),
+            "max_zs_ohm": self.max_zs_oc_ohm,
+            "zs_margin_percent": margin,
+            "rcd_max_zs_ohm": self.rcd_limit_ohm,
         }
 
 
@@ -95,13 +100,27 @@ def device_response(cols: CircuitColumns, loop: FaultLoop) -> DeviceResponse:
     by_rcd = cols.has_rcd & (v_oc != verdicts.PASS) & (v_rcd == verdicts.PASS)
     bound = np.where(by_rcd, rcd_b, oc_b)
     return DeviceResponse(
-        required_oc_s=req_oc, required_oc_basis=basis_oc, required_rcd_s=req_rcd, required_rcd_basis=basis_rcd,
-        oc_time_s=oc_t, oc_bound=oc_b, oc_verdict=v_oc, region=region,
-        operating_current_a=ia, operating_bound=ia_b, max_zs_oc_ohm=max_zs_for_current_ohm(cols.u0_v, ia),
-        rcd_time_s=rcd_t, rcd_bound=rcd_b, rcd_verdict=v_rcd.astype(np.int8), rcd_limit_ohm=rcd_limit,
+        required_oc_s=req_oc,
+        required_oc_basis=basis_oc,
+        required_rcd_s=req_rcd,
+        required_rcd_basis=basis_rcd,
+        oc_time_s=oc_t,
+        oc_bound=oc_b,
+        oc_verdict=v_oc,
+        region=region,
+        operating_current_a=ia,
+        operating_bound=ia_b,
+        max_zs_oc_ohm=max_zs_for_current_ohm(cols.u0_v, ia),
+        rcd_time_s=rcd_t,
+        rcd_bound=rcd_b,
+        rcd_verdict=v_rcd.astype(np.int8),
+        rcd_limit_ohm=rcd_limit,
         rcd_loop_ohm=np.where(cols.tt, ra, loop.zs_ohm),
-        by_rcd=by_rcd, time_s=np.where(by_rcd, rcd_t, oc_t), bound=bound,
-        required_s=np.where(by_rcd, req_rcd, req_oc), required_basis=np.where(by_rcd, basis_rcd, basis_oc),
+        by_rcd=by_rcd,
+        time_s=np.where(by_rcd, rcd_t, oc_t),
+        bound=bound,
+        required_s=np.where(by_rcd, req_rcd, req_oc),
+        required_basis=np.where(by_rcd, basis_rcd, basis_oc),
         zs_ohm=loop.zs_ohm,
         cautions=[((bound == ESTIMATED) | (ia_b == ESTIMATED), CAUTION_ESTIMATED)],
     )
@@ -132,7 +151,10 @@ def operating_time(spec: DeviceSpec, current_a: float) -> OperatingTime:
     t, bound = dev.time_at(current_a)
     rcd_t, rcd_bound = (None, None) if rcd is None else rcd.time_at(current_a)
     return OperatingTime(
-        time_s=finite_or_none(t), bound=str(bound), region=str(dev.region_at(current_a)),
-        rcd_time_s=None if rcd_t is None else finite_or_none(rcd_t), rcd_bound=None if rcd_bound is None else str(rcd_bound),
+        time_s=finite_or_none(t),
+        bound=str(bound),
+        region=str(dev.region_at(current_a)),
+        rcd_time_s=None if rcd_t is None else finite_or_none(rcd_t),
+        rcd_bound=None if rcd_bound is None else str(rcd_bound),
         device=dev.summary(),
     )

@@ -85,22 +85,41 @@ def lists_of(columns: Mapping[str, Any]) -> dict[str, list[Any]]:
     if numeric:
         stacked = np.vstack([np.asarray(columns[name], dtype=float) for name in numeric])
         lists = stacked.tolist()
-        for r, c in zip(*np.nonzero(~np.isfinite(stacked))):
+        for r, c in zip(*np.nonzero(~np.isfinite(stacked)), strict=True):
             lists[r][c] = None
-        converted = dict(zip(numeric, lists))
-    return {name: converted[name] if name in converted else (col.tolist() if isinstance(col, np.ndarray) else list(col))
-            for name, col in columns.items()}
+        converted = dict(zip(numeric, lists, strict=True))
+    return {
+        name: converted[name] if name in converted else (col.tolist() if isinstance(col, np.ndarray) else list(col))
+        for name, col in columns.items()
+    }
 
 
 def _check_records(check: CheckColumns, n: int) -> list[Check | None]:
     """One :class:`Check` per circuit where the check applies (None elsewhere)."""
     v = verdicts.decode(check.verdict)
-    cells = lists_of({"value": check.value, "limit": check.limit, "margin": check.margin_percent,
-                      "basis": check.basis, "note": check.note})
+    cells = lists_of(
+        {
+            "value": check.value,
+            "limit": check.limit,
+            "margin": check.margin_percent,
+            "basis": check.basis,
+            "note": check.note,
+        }
+    )
     applies = [True] * n if check.applies is None else np.asarray(check.applies, dtype=bool).tolist()
     return [
-        Check(check.check, v[i], cells["value"][i], cells["limit"][i], check.unit, cells["margin"][i],
-              cells["basis"][i], cells["note"][i]) if applies[i] else None
+        Check(
+            check.check,
+            v[i],
+            cells["value"][i],
+            cells["limit"][i],
+            check.unit,
+            cells["margin"][i],
+            cells["basis"][i],
+            cells["note"][i],
+        )
+        if applies[i]
+        else None
         for i in range(n)
     ]
 
@@ -108,8 +127,9 @@ def _check_records(check: CheckColumns, n: int) -> list[Check | None]:
 def _detail_records(columns: Mapping[str, Any], n: int) -> list[dict[str, Any]]:
     cells = lists_of({k: v for k, v in columns.items() if k != "verdict"})
     names = list(cells)
-    rows = [dict(zip(names, row)) for row in zip(*(cells[name] for name in names))] or [{} for _ in range(n)]
-    for row, v in zip(rows, verdicts.decode(columns["verdict"])):
+    rows = [dict(zip(names, row, strict=True)) for row in zip(*(cells[name] for name in names), strict=True)]
+    rows = rows or [{} for _ in range(n)]
+    for row, v in zip(rows, verdicts.decode(columns["verdict"]), strict=True):
         row["verdict"] = v
     return rows
 
@@ -130,17 +150,22 @@ def assemble(checked: Checked) -> list[CircuitResult]:
     names = list(figures)
     per_check = [_check_records(c, n) for c in checked.checks]
     details = {c.detail[0]: _detail_records(c.detail[1], n) for c in checked.checks if c.detail is not None}
-    codes = np.vstack([np.where(c.applies if c.applies is not None else True, c.verdict, verdicts.PASS)
-                       for c in checked.checks]).max(axis=0)
+    codes = np.vstack(
+        [np.where(c.applies if c.applies is not None else True, c.verdict, verdicts.PASS) for c in checked.checks]
+    ).max(axis=0)
     overall = verdicts.decode(codes)
     summaries = {id(d): d.summary() for d in {id(d): d for d in cols.devices}.values()}
     cautions = _cautions(checked)
-    rows = zip(*(figures[name] for name in names))
+    rows = zip(*(figures[name] for name in names), strict=True)
     return [
         CircuitResult(
-            id=circuit.id, device=summaries[id(dev)], checks=[c[i] for c in per_check if c[i] is not None],
-            verdict=overall[i], cautions=cautions[i], **{key: details[key][i] for key in details},
-            **dict(zip(names, row)),
+            id=circuit.id,
+            device=summaries[id(dev)],
+            checks=[c[i] for c in per_check if c[i] is not None],
+            verdict=overall[i],
+            cautions=cautions[i],
+            **{key: details[key][i] for key in details},
+            **dict(zip(names, row, strict=True)),
         )
-        for i, (circuit, dev, row) in enumerate(zip(cols.circuits, cols.devices, rows))
+        for i, (circuit, dev, row) in enumerate(zip(cols.circuits, cols.devices, rows, strict=True))
     ]

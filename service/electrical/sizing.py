@@ -27,7 +27,15 @@ from .protective import selection_csa_mm2
 from .results import CircuitResult
 from .verdicts import Verdict
 
-RULED_OUT_ORDER = ("capacity", "voltage-drop", "disconnection-time", "max-zs", "protective-conductor", "rcd", "breaking-capacity")
+RULED_OUT_ORDER = (
+    "capacity",
+    "voltage-drop",
+    "disconnection-time",
+    "max-zs",
+    "protective-conductor",
+    "rcd",
+    "breaking-capacity",
+)
 
 
 @dataclass(frozen=True)
@@ -113,7 +121,9 @@ def design_current(demand: Demand, u0_v: float) -> float:
     return cap.design_current_a(demand.power_kw, demand.power_factor, demand.phases, u0_v)
 
 
-def installed_capacity(inst: Installation, it_a: float, insulation: str, device_standard: str | None) -> tuple[float, dict[str, dict[str, Any]]]:
+def installed_capacity(
+    inst: Installation, it_a: float, insulation: str, device_standard: str | None
+) -> tuple[float, dict[str, dict[str, Any]]]:
     """Iz = It x Ca x Cg x Ci x Cc (BS 7671 Appendix 4), with each factor's value and basis."""
     factors: dict[str, dict[str, Any]] = {}
     buried = inst.installation_method == "D"
@@ -129,7 +139,10 @@ def installed_capacity(inst: Installation, it_a: float, insulation: str, device_
     factors["grouping"] = {"factor": cg, "basis": basis}
     table = cap.cable_table(inst.cable)
     if inst.thermal_insulation_mm > 0 and inst.installation_method in table.get("methods_with_insulation_allowed", []):
-        factors["thermal_insulation"] = {"factor": 1.0, "basis": f"method {inst.installation_method} already allows for the insulation"}
+        factors["thermal_insulation"] = {
+            "factor": 1.0,
+            "basis": f"method {inst.installation_method} already allows for the insulation",
+        }
     else:
         ci, basis = cap.thermal_insulation_factor(inst.thermal_insulation_mm)
         factors["thermal_insulation"] = {"factor": ci, "basis": basis}
@@ -152,8 +165,9 @@ def cpc_for(cable: str, line_csa_mm2: float) -> float:
     return float(selection_csa_mm2(line_csa_mm2))
 
 
-def ruled_out_by(result: CircuitResult, iz: float | None, in_a: float,
-                 vd: dict[str, Any] | None) -> tuple[str | None, float | None, float | None, str | None]:
+def ruled_out_by(
+    result: CircuitResult, iz: float | None, in_a: float, vd: dict[str, Any] | None
+) -> tuple[str | None, float | None, float | None, str | None]:
     """The first check, in RULED_OUT_ORDER, that rules this circuit out (fail, or not-verified for fault checks).
 
     Returns ``(check, value, limit, unit)``, all None where nothing rules it out.
@@ -173,8 +187,13 @@ def rules_out(name: str, verdict: str) -> bool:
     return verdict == Verdict.FAIL or (verdict == Verdict.NOT_VERIFIED and name != "breaking-capacity")
 
 
-def voltage_drop(inst: Installation, demand: Demand, csa: float, ib: float, u0_v: float, length_m: float) -> dict[str, Any]:
-    """The voltage drop of the run: mV/A/m x Ib x L, in volts and percent of U0 (or of the line voltage), with its limit."""
+def voltage_drop(
+    inst: Installation, demand: Demand, csa: float, ib: float, u0_v: float, length_m: float
+) -> dict[str, Any]:
+    """The voltage drop of the run: mV/A/m x Ib x L, in volts and in percent of U0 (or of the line voltage).
+
+    The limit beside it is the request's, else Appendix 4 section 6.4's for the supply and use.
+    """
     mv, basis = cap.voltage_drop_mv_per_a_m(inst.cable, csa, demand.phases, inst.reactance_mohm_per_m)
     nominal = u0_v if demand.phases == 1 else math.sqrt(3) * u0_v
     drop = mv * ib * length_m / 1000.0
@@ -182,8 +201,14 @@ def voltage_drop(inst: Installation, demand: Demand, csa: float, ib: float, u0_v
         limit, limit_basis = float(demand.voltage_drop_limit_percent), "set in the request"
     else:
         limit, limit_basis = cap.voltage_drop_limit_percent(demand.supply_kind, demand.use)
-    return {"mv_per_a_m": mv, "basis": basis, "drop_v": drop, "percent": drop / nominal * 100.0,
-            "limit_percent": limit, "limit_basis": limit_basis}
+    return {
+        "mv_per_a_m": mv,
+        "basis": basis,
+        "drop_v": drop,
+        "percent": drop / nominal * 100.0,
+        "limit_percent": limit,
+        "limit_basis": limit_basis,
+    }
 
 
 def _candidates(supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec, ib: float):
@@ -198,8 +223,16 @@ def _candidates(supply: Supply, demand: Demand, inst: Installation, device: Devi
         except NoRule:
             continue
         conductors = Conductors("copper", insulation, size.csa_mm2, cpc, demand.length_m)
-        circuits.append(Circuit(device=spec, conductors=conductors, role=demand.role, load=demand.load, id=demand.id,
-                                design_current_a=ib))
+        circuits.append(
+            Circuit(
+                device=spec,
+                conductors=conductors,
+                role=demand.role,
+                load=demand.load,
+                id=demand.id,
+                design_current_a=ib,
+            )
+        )
         rows.append((size, cpc))
     return in_a, insulation, circuits, rows
 
@@ -224,7 +257,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: Dev
         derating, factors = installed_capacity(inst, 1.0, insulation, device.standard)  # the same for every size
     tried: list[SizeTried] = []
     selected = None
-    for (size, cpc), outcome in zip(rows, check_circuits(supply, circuits)):
+    for (size, cpc), outcome in zip(rows, check_circuits(supply, circuits), strict=True):
         if isinstance(outcome, CircuitFailure):
             tried.append(SizeTried(size.csa_mm2, cpc, Verdict.NOT_VERIFIED, outcome.field, None, None, None))
             continue
@@ -234,24 +267,36 @@ def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: Dev
         name, value, limit, unit = ruled_out_by(outcome, iz, in_a, vd)
         if name is None:
             selected = {
-                "line_csa_mm2": size.csa_mm2, "cpc_csa_mm2": cpc, "material": "copper", "insulation": insulation,
-                "capacity": Capacity(size.it_a, iz, factors, size.confidence), "voltage_drop": vd, "check": outcome,
+                "line_csa_mm2": size.csa_mm2,
+                "cpc_csa_mm2": cpc,
+                "material": "copper",
+                "insulation": insulation,
+                "capacity": Capacity(size.it_a, iz, factors, size.confidence),
+                "voltage_drop": vd,
+                "check": outcome,
             }
             break
         tried.append(SizeTried(size.csa_mm2, cpc, Verdict.FAIL, name, value, limit, unit))
     return SizingResult(
-        design_current_a=ib, device={"standard": device.standard, "type": device.type, "rating_a": in_a},
-        selected=selected, tried=tried, cautions=_sizing_cautions(selected, inst, factors),
+        design_current_a=ib,
+        device={"standard": device.standard, "type": device.type, "rating_a": in_a},
+        selected=selected,
+        tried=tried,
+        cautions=_sizing_cautions(selected, inst, factors),
     )
 
 
-def _sizing_cautions(selected: dict[str, Any] | None, inst: Installation, factors: dict[str, dict[str, Any]]) -> list[str]:
+def _sizing_cautions(
+    selected: dict[str, Any] | None, inst: Installation, factors: dict[str, dict[str, Any]]
+) -> list[str]:
     if selected is None:
         return ["No tabulated size passes every check for this load, length and installation."]
     out = []
     if "M" in selected["capacity"].confidence:
-        out.append(f"The capacity of {selected['line_csa_mm2']:g} mm2 by method {inst.installation_method} is from memory "
-                   "(unverified): confirm it in BS 7671 before relying on it.")
+        out.append(
+            f"The capacity of {selected['line_csa_mm2']:g} mm2 by method {inst.installation_method} is from memory "
+            "(unverified): confirm it in BS 7671 before relying on it."
+        )
     if any("from memory" in f["basis"] for f in factors.values()):
         out.append("A correction factor used is from memory (unverified): see the factors' bases.")
     return out

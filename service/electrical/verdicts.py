@@ -25,6 +25,7 @@ PASS = np.int8(0)
 NOT_VERIFIED = np.int8(1)
 FAIL = np.int8(2)
 CODE_OF = {v: np.int8(i) for i, v in enumerate(VERDICTS)}
+COUNTED = (Verdict.PASS, Verdict.FAIL, Verdict.NOT_VERIFIED)  # the order summaries count them in
 
 
 def codes(values: Any) -> np.ndarray:

@@ -66,6 +66,61 @@ class VerificationResult:
     cautions: list[str] = field(default_factory=list)
 
 
+@dataclass(frozen=True)
+class Context:
+    """What every judgement reads: the design's result, the supply, the circuit, the measurements and temperatures."""
+
+    design: CircuitResult
+    supply: Supply
+    circuit: Circuit
+    measured: Measured
+    operating_c: float
+    ratio: float  # resistance at the measuring temperature over resistance at the operating temperature
+    max_zs_ohm: float | None  # the limit the design's max-zs check applied (the RCD's where it protects)
+
+
+NO_MAX_ZS = "no maximum Zs follows from the design data"
+
+
+def judge_zs(ctx: Context) -> list[Judgement]:
+    """Zs measured cold against the design maximum scaled by the ratio of resistances, the 0.8 rule beside it."""
+    m = ctx.measured
+    if m.zs_ohm is None:
+        return []
+    if ctx.max_zs_ohm is None:
+        return [Judgement("zs", NOT_VERIFIED, m.zs_ohm, None, "ohm", NO_MAX_ZS)]
+    limit, rule = measured_limit_ohm(ctx.max_zs_ohm, ctx.operating_c, m.temperature_c)
+    basis = (
+        f"design maximum Zs {ctx.max_zs_ohm:.3f} ohm scaled by {ctx.ratio:.3f} for conductors at {m.temperature_c:g} "
+        f"degC instead of {ctx.operating_c:g} degC; the 0.8 rule (common practice) shown beside it"
+    )
+    return [
+        Judgement("zs", PASS if m.zs_ohm <= limit else FAIL, m.zs_ohm, limit, "ohm", basis, rule_of_thumb_limit=rule)
+    ]
+
+
+def judge_r1_plus_r2(ctx: Context) -> list[Judgement]:
+    """R1+R2 measured cold, corrected to the operating temperature and added to Ze, against the maximum Zs."""
+    m, ze = ctx.measured, ctx.supply.ze_ohm
+    if m.r1_plus_r2_ohm is None:
+        return []
+    corrected = m.r1_plus_r2_ohm / ctx.ratio
+    design = ctx.design.r1_plus_r2_ohm
+    note = (
+        f"{(corrected / design - 1) * 100:+.1f} % against the design R1+R2 at operating temperature" if design else None
+    )
+    if ctx.max_zs_ohm is None:
+        return [Judgement("r1-plus-r2", NOT_VERIFIED, m.r1_plus_r2_ohm, None, "ohm", NO_MAX_ZS, note, None, corrected)]
+    room = ctx.max_zs_ohm - ze  # what the loop leaves for R1+R2 at operating temperature
+    limit, rule = measured_limit_ohm(room, ctx.operating_c, m.temperature_c)
+    basis = (
+        f"corrected to {ctx.operating_c:g} degC ({corrected:.3f} ohm) and added to Ze {ze:g} ohm, against the "
+        f"maximum Zs {ctx.max_zs_ohm:.3f} ohm; the limit shown is for the value as measured at {m.temperature_c:g} degC"
+    )
+    verdict = PASS if ze + corrected <= ctx.max_zs_ohm else FAIL
+    return [Judgement("r1-plus-r2", verdict, m.r1_plus_r2_ohm, limit, "ohm", basis, note, rule, corrected)]
+
+
 def _insulation_row(circuit_voltage: str) -> dict[str, Any]:
     for row in core_table("insulation_resistance")["rows"]:
         if row["circuit"] == circuit_voltage:
@@ -73,77 +128,86 @@ def _insulation_row(circuit_voltage: str) -> dict[str, Any]:
     raise InvalidInput(("measured", "circuit_voltage"), f"circuit_voltage is one of {list(CIRCUIT_VOLTAGES)}")
 
 
-def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured) -> VerificationResult:
-    insulation = circuit.conductors.insulation if circuit.conductors is not None else "thermoplastic-70"
-    theta_op = operating_temperature_c(insulation)
-    ratio = temperature_multiplier(m.temperature_c) / temperature_multiplier(theta_op)
-    max_zs = design.check("max-zs").limit  # the limit the design's max-zs check applied (the RCD's where it protects)
-    out: list[Judgement] = []
-    cautions = list(design.cautions[:3])
-    if m.zs_ohm is not None:
-        if max_zs is None:
-            out.append(Judgement("zs", NOT_VERIFIED, m.zs_ohm, None, "ohm", "no maximum Zs follows from the design data"))
-        else:
-            limit, rule = measured_limit_ohm(max_zs, theta_op, m.temperature_c)
-            out.append(Judgement(
-                "zs", PASS if m.zs_ohm <= limit else FAIL, m.zs_ohm, limit, "ohm",
-                f"design maximum Zs {max_zs:.3f} ohm scaled by {ratio:.3f} for conductors at {m.temperature_c:g} degC "
-                f"instead of {theta_op:g} degC; the 0.8 rule (common practice) shown beside it",
-                rule_of_thumb_limit=rule,
-            ))
-    if m.r1_plus_r2_ohm is not None:
-        corrected = m.r1_plus_r2_ohm / ratio
-        zs = supply.ze_ohm + corrected
-        note = None
-        if design.r1_plus_r2_ohm:
-            note = f"{(corrected / design.r1_plus_r2_ohm - 1) * 100:+.1f} % against the design R1+R2 at operating temperature"
-        if max_zs is None:
-            out.append(Judgement("r1-plus-r2", NOT_VERIFIED, m.r1_plus_r2_ohm, None, "ohm", "no maximum Zs follows from the design data", note, None, corrected))
-        else:
-            room = max_zs - supply.ze_ohm  # what the loop leaves for R1+R2 at operating temperature
-            limit, rule = measured_limit_ohm(room, theta_op, m.temperature_c)
-            out.append(Judgement(
-                "r1-plus-r2", PASS if zs <= max_zs else FAIL, m.r1_plus_r2_ohm, limit, "ohm",
-                f"corrected to {theta_op:g} degC ({corrected:.3f} ohm) and added to Ze {supply.ze_ohm:g} ohm, against the "
-                f"maximum Zs {max_zs:.3f} ohm; the limit shown is for the value as measured at {m.temperature_c:g} degC",
-                note, rule, corrected,
-            ))
-    if m.insulation_resistance_megohm is not None:
-        row = _insulation_row(m.circuit_voltage)
-        basis = f"{core_table('insulation_resistance')['source']}: {row['description']}, at least {row['minimum_megohm']:g} megohm at {row['test_voltage_v']} V d.c. (from memory)"
-        if m.insulation_test_voltage_v is not None and m.insulation_test_voltage_v != row["test_voltage_v"]:
-            out.append(Judgement("insulation-resistance", NOT_VERIFIED, m.insulation_resistance_megohm, row["minimum_megohm"], "megohm", basis,
-                                 f"tested at {m.insulation_test_voltage_v:g} V; the table asks for {row['test_voltage_v']} V"))
-        else:
-            verdict = PASS if m.insulation_resistance_megohm >= row["minimum_megohm"] else FAIL
-            out.append(Judgement("insulation-resistance", verdict, m.insulation_resistance_megohm, row["minimum_megohm"], "megohm", basis))
-        cautions.append("The insulation resistance minimum is from memory (BS 7671 Table 64, unverified).")
-    rcd = circuit.device.rcd
-    for test, value, index in (("rcd-time-idn", m.rcd_time_ms_at_idn, 0), ("rcd-time-5idn", m.rcd_time_ms_at_5idn, 2)):
+def judge_insulation(ctx: Context) -> list[Judgement]:
+    """Insulation resistance at least the minimum for the circuit voltage, at its test voltage (Table 64, M)."""
+    m = ctx.measured
+    if m.insulation_resistance_megohm is None:
+        return []
+    row = _insulation_row(m.circuit_voltage)
+    least = row["minimum_megohm"]
+    basis = (
+        f"{core_table('insulation_resistance')['source']}: {row['description']}, at least {least:g} megohm "
+        f"at {row['test_voltage_v']} V d.c. (from memory)"
+    )
+    if m.insulation_test_voltage_v is not None and m.insulation_test_voltage_v != row["test_voltage_v"]:
+        note = f"tested at {m.insulation_test_voltage_v:g} V; the table asks for {row['test_voltage_v']} V"
+        return [
+            Judgement(
+                "insulation-resistance", NOT_VERIFIED, m.insulation_resistance_megohm, least, "megohm", basis, note
+            )
+        ]
+    verdict = PASS if m.insulation_resistance_megohm >= least else FAIL
+    return [Judgement("insulation-resistance", verdict, m.insulation_resistance_megohm, least, "megohm", basis)]
+
+
+RCD_TESTS = (("rcd-time-idn", "rcd_time_ms_at_idn", 0), ("rcd-time-5idn", "rcd_time_ms_at_5idn", 2))
+
+
+def judge_rcd_times(ctx: Context) -> list[Judgement]:
+    """RCD operating times at IΔn and 5 IΔn within the device's limits (BS EN 61008-1 / 61009-1 Table 1)."""
+    rcd, out = ctx.circuit.device.rcd, []
+    for test, name, index in RCD_TESTS:
+        value = getattr(ctx.measured, name)
         if value is None:
             continue
         if rcd is None:
-            raise InvalidInput(("measured", "rcd_time_ms_at_idn" if index == 0 else "rcd_time_ms_at_5idn"), "the circuit has no RCD")
+            raise InvalidInput(("measured", name), "the circuit has no RCD")
         row = device_table("residual")["delays"][rcd.delay]
         limit_ms = row["max_time_s"][index] * 1000
         least = row["min_time_s"][index]
         ok = value <= limit_ms and (least is None or value >= least * 1000)
-        basis = f"BS EN 61008-1 / 61009-1 Table 1: {rcd.delay} RCD at {row['multiples'][index]} x IΔn, at most {limit_ms:g} ms"
+        basis = (
+            f"BS EN 61008-1 / 61009-1 Table 1: {rcd.delay} RCD at {row['multiples'][index]} x IΔn, "
+            f"at most {limit_ms:g} ms"
+        )
         if least is not None:
             basis += f" and at least {least * 1000:g} ms"
         out.append(Judgement(test, PASS if ok else FAIL, value, limit_ms, "ms", basis))
-    if m.polarity_confirmed is not None:
-        out.append(Judgement("polarity", PASS if m.polarity_confirmed else FAIL, None, None, "", "BS 7671:2018 643.6, polarity"))
+    return out
+
+
+def judge_polarity(ctx: Context) -> list[Judgement]:
+    """Polarity confirmed (BS 7671:2018 643.6)."""
+    confirmed = ctx.measured.polarity_confirmed
+    if confirmed is None:
+        return []
+    return [Judgement("polarity", PASS if confirmed else FAIL, None, None, "", "BS 7671:2018 643.6, polarity")]
+
+
+JUDGES = (judge_zs, judge_r1_plus_r2, judge_insulation, judge_rcd_times, judge_polarity)
+CAUTION_TABLE_64 = "The insulation resistance minimum is from memory (BS 7671 Table 64, unverified)."
+
+
+def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured) -> VerificationResult:
+    insulation = circuit.conductors.insulation if circuit.conductors is not None else "thermoplastic-70"
+    theta_op = operating_temperature_c(insulation)
+    ratio = temperature_multiplier(m.temperature_c) / temperature_multiplier(theta_op)
+    ctx = Context(design, supply, circuit, m, theta_op, ratio, design.check("max-zs").limit)
+    out = [judgement for judge in JUDGES for judgement in judge(ctx)]
     if not out:
         raise InvalidInput("measured", "give at least one measured value")
-    return VerificationResult(circuit.id, max_zs, design.r1_plus_r2_ohm, theta_op, out, overall(j.verdict for j in out), cautions)
+    cautions = list(design.cautions[:3])
+    if m.insulation_resistance_megohm is not None:
+        cautions.append(CAUTION_TABLE_64)
+    verdict = overall(j.verdict for j in out)
+    return VerificationResult(circuit.id, ctx.max_zs_ohm, design.r1_plus_r2_ohm, theta_op, out, verdict, cautions)
 
 
 def verify(supply: Supply, items: list[tuple[Circuit, Measured]]) -> list[VerificationResult | CircuitFailure]:
     """Judge each circuit's measurements; the design limits come from the same whole check (array path)."""
     designs = check_circuits(supply, [c for c, _ in items])
     out: list[VerificationResult | CircuitFailure] = []
-    for index, ((circuit, measured), design) in enumerate(zip(items, designs)):
+    for index, ((circuit, measured), design) in enumerate(zip(items, designs, strict=True)):
         if isinstance(design, CircuitFailure):
             out.append(design)
             continue

@@ -6,6 +6,8 @@ from __future__ import annotations
 import json
 from pathlib import Path
 
+from tests.paths import EXAMPLES
+
 HOSTILE = Path(__file__).resolve().parent / "hostile"
 
 
@@ -31,7 +33,7 @@ def body_of(case: dict) -> bytes | None:
     if gen["kind"] == "pad":
         return b'{"supply": "' + b"x" * gen["bytes"] + b'"}'
     if gen["kind"] == "batch":
-        example = json.loads((HOSTILE.parents[2] / "schemas" / "examples" / "circuits-check.json").read_text())
+        example = json.loads((EXAMPLES / "circuits-check.json").read_text())
         return json.dumps({"supply": example["supply"], "circuits": [example["circuit"]] * gen["count"]}).encode()
     raise ValueError(f"unknown generator {gen['kind']}")
 
@@ -44,31 +46,35 @@ def judge(case: dict, status: int, content_type: str, payload: bytes) -> list[st
     if status >= 500:
         problems.append("a server error")
     if status >= 400:
-        if not content_type.startswith("application/problem+json"):
-            problems.append(f"content type {content_type}, expected application/problem+json")
-        try:
-            body = json.loads(payload)
-        except ValueError:
-            return problems + ["the problem is not JSON"]
-        for key in ("type", "title", "status", "errors"):
-            if key not in body:
-                problems.append(f"the problem lacks {key}")
-        if "expect_pointer" in case and case["expect_pointer"] not in [e.get("pointer") for e in body.get("errors", [])]:
-            problems.append(f"no error at {case['expect_pointer']!r}: {body.get('errors')}")
-    elif "expect_items" in case:
+        return problems + _problem_answer(case, content_type, payload)
+    if "expect_items" in case:
+        return problems + _items_answer(case["expect_items"], json.loads(payload)["results"])
+    if "expect_echo_id" in case and json.loads(payload).get("id") != case["expect_echo_id"]:
+        problems.append("the id did not come back unchanged")
+    return problems
+
+
+def _problem_answer(case: dict, content_type: str, payload: bytes) -> list[str]:
+    problems = []
+    if not content_type.startswith("application/problem+json"):
+        problems.append(f"content type {content_type}, expected application/problem+json")
+    try:
         body = json.loads(payload)
-        expect = case["expect_items"]
-        results = body["results"]
-        if len(results) != expect["count"] or [r["index"] for r in results] != list(range(expect["count"])):
-            problems.append("items lost or out of order")
-        for i in expect["results"]:
-            if "result" not in results[i]:
-                problems.append(f"item {i} has no result")
-        for i, pointer in expect["problems"].items():
-            item = results[int(i)]
-            if pointer not in [e["pointer"] for e in item.get("problem", {}).get("errors", [])]:
-                problems.append(f"item {i} lacks an error at {pointer}")
-    elif "expect_echo_id" in case:
-        if json.loads(payload).get("id") != case["expect_echo_id"]:
-            problems.append("the id did not come back unchanged")
+    except ValueError:
+        return problems + ["the problem is not JSON"]
+    problems.extend(f"the problem lacks {key}" for key in ("type", "title", "status", "errors") if key not in body)
+    pointers = [e.get("pointer") for e in body.get("errors", [])]
+    if "expect_pointer" in case and case["expect_pointer"] not in pointers:
+        problems.append(f"no error at {case['expect_pointer']!r}: {body.get('errors')}")
+    return problems
+
+
+def _items_answer(expect: dict, results: list) -> list[str]:
+    problems = []
+    if len(results) != expect["count"] or [r["index"] for r in results] != list(range(expect["count"])):
+        problems.append("items lost or out of order")
+    problems.extend(f"item {i} has no result" for i in expect["results"] if "result" not in results[i])
+    for i, pointer in expect["problems"].items():
+        if pointer not in [e["pointer"] for e in results[int(i)].get("problem", {}).get("errors", [])]:
+            problems.append(f"item {i} lacks an error at {pointer}")
     return problems

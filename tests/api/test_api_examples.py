@@ -4,11 +4,10 @@ Hand calculations are written beside each check (invented demo scenario: Larkspu
 """
 
 import json
-from pathlib import Path
 
 import pytest
 
-EXAMPLES = Path(__file__).resolve().parents[2] / "schemas" / "examples"
+from tests.paths import EXAMPLES
 
 
 def send(client, path, name):
@@ -20,9 +19,18 @@ def send(client, path, name):
 
 
 def test_every_example_is_sent_by_a_test():
-    sent = {"circuits-check.json", "circuits-check-batch.json", "fault-current.json", "fault-current-conductors.json",
-            "disconnection-time.json", "max-zs.json", "protective-conductor.json",
-            "circuits-size.json", "circuits-max-length.json", "test-results-verify.json"}
+    sent = {
+        "circuits-check.json",
+        "circuits-check-batch.json",
+        "fault-current.json",
+        "fault-current-conductors.json",
+        "disconnection-time.json",
+        "max-zs.json",
+        "protective-conductor.json",
+        "circuits-size.json",
+        "circuits-max-length.json",
+        "test-results-verify.json",
+    }
     assert {p.name for p in EXAMPLES.glob("*.json")} == sent
 
 
@@ -42,7 +50,12 @@ def test_circuit_check_example(client):
     pc = r["protective_conductor"]
     assert pc["k"] == 115 and pc["csa_mm2"] == 2.5 and pc["verdict"] == "pass"
     assert pc["min_csa_mm2"] == pytest.approx((431.32**2 * 0.1) ** 0.5 / 115, abs=1e-3)  # 1.186 mm2
-    assert [c["check"] for c in r["checks"]] == ["disconnection-time", "max-zs", "protective-conductor", "breaking-capacity"]
+    assert [c["check"] for c in r["checks"]] == [
+        "disconnection-time",
+        "max-zs",
+        "protective-conductor",
+        "breaking-capacity",
+    ]
     assert all(c["verdict"] == "pass" for c in r["checks"])
     assert r["verdict"] == "pass"
     assert any("competent person" in c for c in r["cautions"])
@@ -52,7 +65,12 @@ def test_batch_example(client):
     r = send(client, "/v1/circuits/check-batch", "circuits-check-batch.json")
     items = r["results"]
     assert [i["index"] for i in items] == [0, 1, 2, 3]
-    assert [i["id"] for i in items] == ["larkspur-oven", "larkspur-garden-lights", "larkspur-mixer", "larkspur-shop-ring"]
+    assert [i["id"] for i in items] == [
+        "larkspur-oven",
+        "larkspur-garden-lights",
+        "larkspur-mixer",
+        "larkspur-shop-ring",
+    ]
     assert items[0]["result"]["verdict"] == "pass"
     assert items[1]["result"]["verdict"] == "fail"  # Zs 1.68472 > 1.0925 (C20)
     assert items[2]["problem"]["status"] == 422  # no 17 A BS 88-2 fuse
@@ -137,7 +155,9 @@ def test_api_verify_example(client):
     ring, oven = r.get_json()["results"]
     judged = {j["test"]: j for j in ring["result"]["judgements"]}
     # ring: max Zs 1.3656 ohm x (1.0 / 1.2) = 1.1380 ohm for a value measured at 20 degC; 0.8 rule 1.0925 ohm
-    assert judged["zs"]["limit"] == pytest.approx(1.365625 / 1.2) and judged["zs"]["rule_of_thumb_limit"] == pytest.approx(1.0925)
+    assert judged["zs"]["limit"] == pytest.approx(1.365625 / 1.2) and judged["zs"][
+        "rule_of_thumb_limit"
+    ] == pytest.approx(1.0925)
     # R1+R2 0.30 ohm at 20 degC -> 0.36 ohm at 70 degC; + Ze 0.28 = 0.64 <= 1.3656
     assert judged["r1-plus-r2"]["corrected_value"] == pytest.approx(0.36) and judged["r1-plus-r2"]["verdict"] == "pass"
     assert judged["rcd-time-idn"]["limit"] == 300 and judged["rcd-time-5idn"]["limit"] == 40

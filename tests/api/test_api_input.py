@@ -1,14 +1,14 @@
 """Bad input always gets a clear 4xx problem+json naming the field and the reason, never a 500."""
 
 import json
-from pathlib import Path
 
 import pytest
 
 from service.app import create_app
 from service.settings import Settings
+from tests.paths import EXAMPLES
 
-EXAMPLE = json.loads((Path(__file__).resolve().parents[2] / "schemas" / "examples" / "circuits-check.json").read_text())
+EXAMPLE = json.loads((EXAMPLES / "circuits-check.json").read_text())
 
 
 def post_raw(client, data, content_type="application/json", path="/v1/circuits/check"):
@@ -25,11 +25,22 @@ def assert_problem(response, status, pointer=None):
     return body
 
 
-@pytest.mark.parametrize("text", [
-    '{"supply": NaN}', '{"supply": Infinity}', '{"supply": -Infinity}',
-    '{"a": 1, "a": 2}', '{"n": ' + "9" * 5000 + "}", '{"n": ' + "9" * 50 + "}", "[" * 100_000 + "]" * 100_000,
-    '{"n": 1e999}', "{", "\xff\xfe", '{"supply": {"u0_v": 230, "u0_v": 240}}',
-])
+@pytest.mark.parametrize(
+    "text",
+    [
+        '{"supply": NaN}',
+        '{"supply": Infinity}',
+        '{"supply": -Infinity}',
+        '{"a": 1, "a": 2}',
+        '{"n": ' + "9" * 5000 + "}",
+        '{"n": ' + "9" * 50 + "}",
+        "[" * 100_000 + "]" * 100_000,
+        '{"n": 1e999}',
+        "{",
+        "\xff\xfe",
+        '{"supply": {"u0_v": 230, "u0_v": 240}}',
+    ],
+)
 def test_strict_json_gives_400(client, text):
     data = text.encode("latin-1") if text.startswith("\xff") else text.encode()
     body = assert_problem(post_raw(client, data), 400, "")
@@ -48,12 +59,23 @@ def test_boolean_as_number_is_422(client):
     assert_problem(client.post("/v1/circuits/check", json=bad), 422, "/circuit/conductors/length_m")
 
 
-@pytest.mark.parametrize("pointer, value", [
-    ("/supply/ze_ohm", 0), ("/supply/ze_ohm", -1), ("/supply/ze_ohm", 5e-324), ("/supply/ze_ohm", 1e300),
-    ("/circuit/conductors/length_m", -5), ("/circuit/conductors/length_m", 1e9), ("/supply/u0_v", 20),
-    ("/circuit/device/rating_a", 0), ("/supply/earthing", "IT"), ("/circuit/device/type", "K"),
-    ("/circuit/conductors/parallel_cables", 1.5), ("/circuit/role", 7),
-])
+@pytest.mark.parametrize(
+    "pointer, value",
+    [
+        ("/supply/ze_ohm", 0),
+        ("/supply/ze_ohm", -1),
+        ("/supply/ze_ohm", 5e-324),
+        ("/supply/ze_ohm", 1e300),
+        ("/circuit/conductors/length_m", -5),
+        ("/circuit/conductors/length_m", 1e9),
+        ("/supply/u0_v", 20),
+        ("/circuit/device/rating_a", 0),
+        ("/supply/earthing", "IT"),
+        ("/circuit/device/type", "K"),
+        ("/circuit/conductors/parallel_cables", 1.5),
+        ("/circuit/role", 7),
+    ],
+)
 def test_out_of_range_or_unknown_values_are_422(client, pointer, value):
     bad = json.loads(json.dumps(EXAMPLE))
     target = bad
@@ -97,7 +119,9 @@ def test_wrong_or_missing_content_type_is_415(client):
 
 def test_body_over_the_limit_is_413():
     small = create_app({"SETTINGS": Settings(max_body_bytes=1000)}).test_client()
-    assert_problem(small.post("/v1/circuits/check", data=b"{" + b" " * 2000 + b"}", content_type="application/json"), 413)
+    assert_problem(
+        small.post("/v1/circuits/check", data=b"{" + b" " * 2000 + b"}", content_type="application/json"), 413
+    )
 
 
 def test_batch_over_the_limit_is_413(client, app):
@@ -107,7 +131,10 @@ def test_batch_over_the_limit_is_413(client, app):
 
 def test_batch_keeps_every_item(client):
     bad = dict(EXAMPLE["circuit"], conductors=dict(EXAMPLE["circuit"]["conductors"], length_m="far"))
-    body = {"supply": EXAMPLE["supply"], "circuits": [EXAMPLE["circuit"], bad, {"nonsense": 1}, "text", EXAMPLE["circuit"]]}
+    body = {
+        "supply": EXAMPLE["supply"],
+        "circuits": [EXAMPLE["circuit"], bad, {"nonsense": 1}, "text", EXAMPLE["circuit"]],
+    }
     r = client.post("/v1/circuits/check-batch", json=body)
     assert r.status_code == 200
     items = r.get_json()["results"]

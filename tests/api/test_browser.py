@@ -12,7 +12,10 @@ from service.settings import Settings
 
 CHROMIUM = shutil.which("chromium") or shutil.which("chromium-browser")
 DRIVER = shutil.which("chromedriver")
-pytestmark = pytest.mark.skipif(not (CHROMIUM and DRIVER), reason="Debian's chromium and chromium-driver are not installed (apt-get install chromium chromium-driver)")
+pytestmark = pytest.mark.skipif(
+    not (CHROMIUM and DRIVER),
+    reason="Debian's chromium and chromium-driver are not installed (apt-get install chromium chromium-driver)",
+)
 
 
 @pytest.fixture(scope="module")
@@ -34,9 +37,17 @@ def browser(tmp_path_factory):
 
     options = webdriver.ChromeOptions()
     options.binary_location = CHROMIUM
-    for flag in ("--headless=new", "--no-sandbox", "--disable-gpu", "--disable-background-networking", "--disable-component-update",
-                 "--no-first-run", "--disable-sync", "--window-size=1100,2200",
-                 f"--user-data-dir={tmp_path_factory.mktemp('chromium-profile')}"):
+    for flag in (
+        "--headless=new",
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--no-first-run",
+        "--disable-sync",
+        "--window-size=1100,2200",
+        f"--user-data-dir={tmp_path_factory.mktemp('chromium-profile')}",
+    ):
         options.add_argument(flag)
     driver = webdriver.Chrome(service=Service(executable_path=DRIVER), options=options)
     yield driver
@@ -61,7 +72,12 @@ def test_the_form_sizes_checks_and_draws(browser, base_url, tmp_path):
     assert "25 A" in browser.find_element(By.ID, "price-device").text  # 24 A of sockets: the next rating
     assert browser.find_element(By.ID, "price-cable").text.startswith("4 mm² line, 1.5 mm² cpc")
     assert "411.4.4" in browser.find_element(By.ID, "checks").text
-    wait_for(browser, lambda d: d.execute_script("const i = document.getElementById('picture'); return i.complete && i.naturalWidth > 0;"))
+    wait_for(
+        browser,
+        lambda d: d.execute_script(
+            "const i = document.getElementById('picture'); return i.complete && i.naturalWidth > 0;"
+        ),
+    )
     assert browser.find_element(By.ID, "cautions").text
     shot = tmp_path / "quote-form.png"
     browser.save_screenshot(str(shot))

@@ -1,13 +1,12 @@
 """The published contract: the committed file equals the code's spec, and it is valid OpenAPI 3.1."""
 
 import json
-from pathlib import Path
 
 from openapi_spec_validator import validate
 
 from service.app import spec_dict
+from tests.paths import CONTRACT
 
-CONTRACT = Path(__file__).resolve().parents[2] / "schemas" / "openapi.json"
 REGENERATE = "python -m service openapi schemas/openapi.json"
 
 
@@ -29,17 +28,37 @@ def test_contract_is_valid_openapi_3_1():
 
 def test_every_endpoint_of_the_sketch_is_in_the_contract():
     paths = json.loads(CONTRACT.read_text(encoding="utf-8"))["paths"]
-    for path in ("/v1/circuits/check", "/v1/circuits/check-batch", "/v1/fault-current", "/v1/disconnection-time",
-                 "/v1/max-zs", "/v1/protective-conductor", "/v1/devices", "/v1/devices/{device_id}/{rating_a}/characteristic",
-                 "/healthz", "/readyz", "/metrics"):
+    for path in (
+        "/v1/circuits/check",
+        "/v1/circuits/check-batch",
+        "/v1/fault-current",
+        "/v1/disconnection-time",
+        "/v1/max-zs",
+        "/v1/protective-conductor",
+        "/v1/devices",
+        "/v1/devices/{device_id}/{rating_a}/characteristic",
+        "/healthz",
+        "/readyz",
+        "/metrics",
+    ):
         assert path in paths, path
 
 
 def test_every_number_in_a_request_has_bounds():
     spec = json.loads(CONTRACT.read_text(encoding="utf-8"))
     schemas = spec["components"]["schemas"]
-    requests = {"Supply", "Device", "CurvePoint", "Rcd", "Conductors", "Circuit", "FaultCurrentRequest",
-                "DisconnectionRequest", "MaxZsRequest", "ProtectiveRequest"}
+    requests = {
+        "Supply",
+        "Device",
+        "CurvePoint",
+        "Rcd",
+        "Conductors",
+        "Circuit",
+        "FaultCurrentRequest",
+        "DisconnectionRequest",
+        "MaxZsRequest",
+        "ProtectiveRequest",
+    }
     for name in requests:
         for field, prop in schemas[name]["properties"].items():
             types = prop.get("type")

@@ -2,14 +2,14 @@
 
 import json
 import re
-from pathlib import Path
 
 import pytest
 
 from service.app import create_app
 from service.settings import Settings
+from tests.paths import EXAMPLES
 
-EXAMPLE = json.loads((Path(__file__).resolve().parents[2] / "schemas" / "examples" / "fault-current.json").read_text())
+EXAMPLE = json.loads((EXAMPLES / "fault-current.json").read_text())
 
 
 def test_docs_page_and_every_asset_are_served_from_this_process(client, monkeypatch):
@@ -66,7 +66,9 @@ def test_keys_never_reach_the_logs(caplog):
 
 def test_cors_allowlist():
     client = create_app({"SETTINGS": Settings(cors_origins=("https://quotes.example",))}).test_client()
-    pre = client.options("/v1/circuits/check", headers={"Origin": "https://quotes.example", "Access-Control-Request-Method": "POST"})
+    pre = client.options(
+        "/v1/circuits/check", headers={"Origin": "https://quotes.example", "Access-Control-Request-Method": "POST"}
+    )
     assert pre.status_code == 204
     assert pre.headers["Access-Control-Allow-Origin"] == "https://quotes.example"
     assert "X-API-Key" in pre.headers["Access-Control-Allow-Headers"]
@@ -77,7 +79,9 @@ def test_cors_allowlist():
 def test_request_id_is_echoed_or_made(client):
     r = client.post("/v1/fault-current", json=EXAMPLE, headers={"X-Request-ID": "job-42.a"})
     assert r.headers["X-Request-ID"] == "job-42.a"
-    made = client.post("/v1/fault-current", json=EXAMPLE, headers={"X-Request-ID": "bad id with spaces"}).headers["X-Request-ID"]
+    made = client.post("/v1/fault-current", json=EXAMPLE, headers={"X-Request-ID": "bad id with spaces"}).headers[
+        "X-Request-ID"
+    ]
     assert re.fullmatch(r"[0-9a-f]{32}", made)
 
 
@@ -100,4 +104,6 @@ def test_only_json_svg_and_the_two_pages_are_served(app):
             continue
         if rule.rule in html_routes or rule.rule.startswith("/docs/assets"):
             continue
-        assert rule.rule.startswith(("/v1/", "/healthz", "/readyz", "/metrics", "/openapi.json", "/example/quote-form")), rule.rule
+        assert rule.rule.startswith(
+            ("/v1/", "/healthz", "/readyz", "/metrics", "/openapi.json", "/example/quote-form")
+        ), rule.rule

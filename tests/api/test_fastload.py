@@ -1,23 +1,42 @@
-"""The batch's fast item loader agrees with marshmallow on every item (hypothesis)."""
+"""The fast loader agrees with marshmallow on every schema it serves (hypothesis), and refuses what it cannot serve."""
 
 import copy
 import json
-from pathlib import Path
 
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
-from marshmallow import ValidationError
+from marshmallow import Schema, ValidationError, fields
 
+from service.api import fastload
 from service.api.fastload import Refused, fast_load
-from service.api.schemas import CircuitSchema
+from service.api.fields import Number
+from service.api.measurement_views import VerifyItemSchema
+from service.api.schemas import CheckRequestSchema, CircuitSchema, SupplySchema
+from tests.paths import EXAMPLES
 
-EXAMPLES = json.loads((Path(__file__).resolve().parents[2] / "schemas" / "examples" / "circuits-check-batch.json").read_text())["circuits"]
-SCHEMA = CircuitSchema()
+
+def example(name):
+    return json.loads((EXAMPLES / name).read_text())
+
+
+# every registered schema, with the example items it is held to marshmallow on
+SAMPLES = {
+    SupplySchema: [example(n)["supply"] for n in ("circuits-check.json", "test-results-verify.json")]
+    + [{"earthing": "TT", "u0_v": 230, "ze_ohm": 21, "electrode_ohm": 20, "bonding_complete": True, "c_max": 1.05}],
+    CircuitSchema: example("circuits-check-batch.json")["circuits"] + [example("circuits-check.json")["circuit"]],
+    CheckRequestSchema: [example("circuits-check.json")],
+    VerifyItemSchema: example("test-results-verify.json")["circuits"],
+}
 
 values = st.one_of(
-    st.none(), st.booleans(), st.integers(-10, 10_000), st.floats(allow_nan=False, allow_infinity=False, width=32),
-    st.sampled_from(["", "final", "TN-S", "B", "gG", "copper", "in-cable", "S", "socket-outlets", "x" * 300]),
-    st.lists(st.integers(0, 5), max_size=3), st.builds(dict),
+    st.none(),
+    st.booleans(),
+    st.integers(-10, 10_000),
+    st.floats(allow_nan=False, allow_infinity=False, width=32),
+    st.sampled_from(["", "final", "TN-S", "TT", "B", "gG", "copper", "in-cable", "S", "socket-outlets", "x" * 300]),
+    st.lists(st.integers(0, 5), max_size=3),
+    st.builds(dict),
     st.fixed_dictionaries({"current_a": st.just(100), "time_s": st.just(1)}),
 )
 
@@ -30,40 +49,77 @@ def paths(node, prefix=()):
 
 
 @st.composite
-def items(draw):
-    item = copy.deepcopy(draw(st.sampled_from(EXAMPLES)))
+def mutated(draw, samples):
+    item = copy.deepcopy(draw(st.sampled_from(samples)))
     for _ in range(draw(st.integers(0, 3))):
         all_paths = list(paths(item))
-        action = draw(st.sampled_from(["set", "delete", "add"]))
+        if not all_paths:
+            break
         target_path = draw(st.sampled_from(all_paths))
         parent = item
         for key in target_path[:-1]:
             parent = parent[key]
         if not isinstance(parent, dict):
             continue
+        action = draw(st.sampled_from(["set", "delete", "add"]))
         if action == "set":
             parent[target_path[-1]] = draw(values)
         elif action == "delete":
             parent.pop(target_path[-1], None)
         else:
-            parent[draw(st.sampled_from(["extra", "ring", "rcd", "curve_points", "type", "r1_plus_r2_ohm"]))] = draw(values)
+            extra = draw(st.sampled_from(["extra", "ring", "rcd", "curve_points", "type", "r1_plus_r2_ohm", "c_max"]))
+            parent[extra] = draw(values)
     return item
 
 
-@given(items())
-@settings(max_examples=1500, deadline=None)
-def test_fast_loader_agrees_with_marshmallow(item):
-    try:
-        expected = SCHEMA.load(copy.deepcopy(item))
-    except ValidationError:
-        expected = None
-    try:
-        got = fast_load(SCHEMA, copy.deepcopy(item))
-    except Refused:
-        got = None
-    assert got == expected
+def test_every_registered_schema_has_samples():
+    served = {cls for cls in fastload.registered() if cls.__module__.startswith("service.")}
+    assert served == set(SAMPLES), "every schema the service registers is held to marshmallow on samples here"
 
 
-def test_every_example_item_takes_the_fast_path():
-    for item in EXAMPLES:
-        assert fast_load(SCHEMA, copy.deepcopy(item)) == SCHEMA.load(copy.deepcopy(item))
+@pytest.mark.parametrize("cls", list(SAMPLES), ids=lambda c: c.__name__)
+def test_fast_loader_agrees_with_marshmallow(cls):
+    schema = cls()
+
+    @given(mutated(SAMPLES[cls]))
+    @settings(max_examples=600, deadline=None)
+    def agree(item):
+        try:
+            expected = Schema.load(schema, copy.deepcopy(item))
+        except ValidationError:
+            expected = None
+        try:
+            got = fast_load(schema, copy.deepcopy(item))
+        except Refused:
+            got = None
+        assert got == expected
+
+    agree()
+
+
+@pytest.mark.parametrize("cls", list(SAMPLES), ids=lambda c: c.__name__)
+def test_every_sample_takes_the_fast_path(cls):
+    for item in SAMPLES[cls]:
+        assert fast_load(cls(), copy.deepcopy(item)) == Schema.load(cls(), copy.deepcopy(item))
+
+
+class WireNames(Schema):
+    """A schema whose input key differs from its attribute (data_key), as marshmallow loads it."""
+
+    rating = Number(minimum=0, maximum=100, data_key="rating_a", required=True)
+
+
+def test_a_data_key_field_comes_out_under_its_attribute():
+    fastload.register(WireNames)
+    assert fast_load(WireNames(), {"rating_a": 32}) == WireNames().load({"rating_a": 32}) == {"rating": 32.0}
+
+
+def test_only_and_exclude_are_refused():
+    with pytest.raises(Refused):
+        fast_load(CircuitSchema(only=("id",)), {"id": "a"})
+
+    class Partial(Schema):
+        inner = fields.Nested(SupplySchema(only=("earthing",)))
+
+    with pytest.raises(TypeError):
+        fastload.register(Partial)

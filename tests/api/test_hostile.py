@@ -18,8 +18,28 @@ def test_hostile_case(client, name, case):
 
 def test_the_corpus_covers_the_issue():
     names = {name.split("-", 1)[1] for name, _ in CASES}
-    for needed in ("nan", "infinity", "zero-ze", "negative-ze", "tiny-ze", "huge-ze", "unknown-standard", "unknown-type",
-                   "unknown-rating", "number-as-string", "missing-field", "unknown-field", "duplicate-keys", "deep-nesting",
-                   "body-over-limit", "wrong-content-type", "missing-content-type", "long-id", "non-ascii-id", "empty-body",
-                   "batch-over-limit", "batch-some-bad"):
+    for needed in (
+        "nan",
+        "infinity",
+        "zero-ze",
+        "negative-ze",
+        "tiny-ze",
+        "huge-ze",
+        "unknown-standard",
+        "unknown-type",
+        "unknown-rating",
+        "number-as-string",
+        "missing-field",
+        "unknown-field",
+        "duplicate-keys",
+        "deep-nesting",
+        "body-over-limit",
+        "wrong-content-type",
+        "missing-content-type",
+        "long-id",
+        "non-ascii-id",
+        "empty-body",
+        "batch-over-limit",
+        "batch-some-bad",
+    ):
         assert needed in names, needed

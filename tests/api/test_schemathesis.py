@@ -12,7 +12,10 @@ from hypothesis import HealthCheck, settings
 from schemathesis.checks import not_a_server_error
 from schemathesis.generation.modes import GenerationMode
 from schemathesis.specs.openapi.checks import (
-    content_type_conformance, negative_data_rejection, response_headers_conformance, response_schema_conformance,
+    content_type_conformance,
+    negative_data_rejection,
+    response_headers_conformance,
+    response_schema_conformance,
     status_code_conformance,
 )
 
@@ -21,7 +24,13 @@ from service.settings import Settings
 
 APP = create_app({"SETTINGS": Settings(batch_limit=50)})
 SCHEMA = schemathesis.openapi.from_wsgi("/openapi.json", APP)
-CHECKS = [not_a_server_error, status_code_conformance, content_type_conformance, response_schema_conformance, response_headers_conformance]
+CHECKS = [
+    not_a_server_error,
+    status_code_conformance,
+    content_type_conformance,
+    response_schema_conformance,
+    response_headers_conformance,
+]
 EXAMPLES = int(os.environ.get("FAULTPATH_SCHEMATHESIS_EXAMPLES", "25"))
 
 
@@ -35,7 +44,13 @@ def test_every_operation_conforms(case):
 # The API is stateless (pure computations, no resources to link), so there are no stateful links to follow.
 NEGATIVE = schemathesis.openapi.from_wsgi("/openapi.json", APP)
 NEGATIVE.config.generation.update(modes=[GenerationMode.NEGATIVE])
-NEGATIVE_CHECKS = [not_a_server_error, negative_data_rejection, status_code_conformance, content_type_conformance, response_schema_conformance]
+NEGATIVE_CHECKS = [
+    not_a_server_error,
+    negative_data_rejection,
+    status_code_conformance,
+    content_type_conformance,
+    response_schema_conformance,
+]
 
 
 PER_ITEM = ("/v1/circuits/check-batch", "/v1/test-results/verify")
@@ -52,7 +67,11 @@ def test_every_operation_rejects_invalid_input(case):
     response = case.call_and_validate(checks=[c for c in NEGATIVE_CHECKS if c is not negative_data_rejection])
     body = case.body if isinstance(case.body, dict) else {}
     content_type = (response.headers.get("content-type") or [""])[0]
-    if response.status_code == 200 and content_type.startswith("application/json") and isinstance(body.get("circuits"), list):
+    if (
+        response.status_code == 200
+        and content_type.startswith("application/json")
+        and isinstance(body.get("circuits"), list)
+    ):
         results = response.json()["results"]
         assert [r["index"] for r in results] == list(range(len(body["circuits"])))
         assert all(("result" in r) != ("problem" in r) for r in results)

@@ -26,8 +26,9 @@ def server():
     port = free_port()
     metrics_dir = tempfile.mkdtemp(prefix="faultpath-test-metrics-")
     env = dict(os.environ, FAULTPATH_PORT=str(port), FAULTPATH_WORKERS="2", PROMETHEUS_MULTIPROC_DIR=metrics_dir)
-    proc = subprocess.Popen([sys.executable, "-m", "service", "serve"], cwd=ROOT, env=env,
-                            stdout=subprocess.PIPE, stderr=subprocess.STDOUT)
+    proc = subprocess.Popen(
+        [sys.executable, "-m", "service", "serve"], cwd=ROOT, env=env, stdout=subprocess.PIPE, stderr=subprocess.STDOUT
+    )
     base = f"http://127.0.0.1:{port}"
     deadline = time.monotonic() + 30
     while time.monotonic() < deadline:
@@ -64,7 +65,8 @@ def test_gunicorn_serves_and_metrics_add_up_across_workers(server):
     assert headers["Server"] == "faultpath"
     with urllib.request.urlopen(base + "/metrics", timeout=5) as r:
         text = r.read().decode()
-    line = next(l for l in text.splitlines() if l.startswith("faultpath_requests_total") and 'endpoint="/v1/fault-current"' in l)
+    wanted = ("faultpath_requests_total", 'endpoint="/v1/fault-current"')
+    line = next(row for row in text.splitlines() if row.startswith(wanted[0]) and wanted[1] in row)
     assert float(line.rsplit(" ", 1)[1]) == 30.0  # whichever worker answered, the counts add up
 
 
@@ -73,6 +75,6 @@ def test_graceful_shutdown(server):
     proc.terminate()
     assert proc.wait(timeout=40) == 0
     output = proc.stdout.read().decode(errors="replace")
-    lines = [json.loads(l) for l in output.splitlines() if l.startswith("{")]
+    lines = [json.loads(row) for row in output.splitlines() if row.startswith("{")]
     assert lines, "the access log wrote no JSON line (the fixture's /readyz request should be there)"
-    assert all({"time", "request_id", "method", "path", "status", "duration_ms"} <= set(l) for l in lines)
+    assert all({"time", "request_id", "method", "path", "status", "duration_ms"} <= set(row) for row in lines)

@@ -1,4 +1,7 @@
-"""Current-carrying capacity, correction factors and voltage drop against BS 7671 Appendix 4 (sources beside each check)."""
+"""Current-carrying capacity, correction factors and voltage drop against BS 7671 Appendix 4.
+
+Sources beside each check.
+"""
 
 import math
 
@@ -24,20 +27,32 @@ def test_table_4e1a_and_4d5_cells_match_the_reference():
     held = {c.csa_mm2: c.it_a for c in cap.capacities("single-core-90c", "B", 1)}
     for row in rows("capacity/single-core-90c-copper.csv"):
         assert held[float(row["csa_mm2"])] == float(row["b_2c"])
-    twin = {(c.csa_mm2, m): (c.it_a, c.confidence) for m in ("C", "100", "102", "103")
-            for c in cap.capacities("flat-twin-earth-70c", m, 1)}
+    twin = {
+        (c.csa_mm2, m): (c.it_a, c.confidence)
+        for m in ("C", "100", "102", "103")
+        for c in cap.capacities("flat-twin-earth-70c", m, 1)
+    }
     assert twin[(2.5, "C")] == (27, "S") and twin[(1.0, "C")] == (16, "S")  # Table 4D5: 2.5 mm2 C 27 A, 1.0 mm2 C 16 A
     assert twin[(2.5, "102")] == (21, "S") and twin[(2.5, "103")] == (13.5, "S") and twin[(4.0, "100")] == (27, "S")
     assert "M" in twin[(6.0, "C")][1]  # everything else is marked from memory
 
 
-@pytest.mark.parametrize("insulation, ambient, published", [
-    # BS 7671:2018 Table 4B1 (reproduced by the formula within 0.01, tests/data/capacity/correction-factors.md, A)
-    ("thermoplastic-70", 35, 0.94), ("thermoplastic-70", 40, 0.87), ("thermoplastic-70", 45, 0.79),
-    ("thermoplastic-70", 50, 0.71), ("thermosetting-90", 35, 0.96), ("thermosetting-90", 40, 0.91),
-    ("thermosetting-90", 45, 0.87), ("thermosetting-90", 50, 0.82),
-    ("thermoplastic-70", 25, 1.03), ("thermosetting-90", 25, 1.02),  # tabulated below 30 degC (S)
-])
+@pytest.mark.parametrize(
+    "insulation, ambient, published",
+    [
+        # BS 7671:2018 Table 4B1 (reproduced by the formula within 0.01, tests/data/capacity/correction-factors.md, A)
+        ("thermoplastic-70", 35, 0.94),
+        ("thermoplastic-70", 40, 0.87),
+        ("thermoplastic-70", 45, 0.79),
+        ("thermoplastic-70", 50, 0.71),
+        ("thermosetting-90", 35, 0.96),
+        ("thermosetting-90", 40, 0.91),
+        ("thermosetting-90", 45, 0.87),
+        ("thermosetting-90", 50, 0.82),
+        ("thermoplastic-70", 25, 1.03),
+        ("thermosetting-90", 25, 1.02),  # tabulated below 30 degC (S)
+    ],
+)
 def test_ambient_factors(insulation, ambient, published):
     assert cap.ambient_factor(insulation, ambient)[0] == pytest.approx(published, abs=0.01)
 
@@ -56,7 +71,10 @@ def test_voltage_drop_values():
     # Table 4E4B r and x (S)
     assert cap.voltage_drop_mv_per_a_m("multicore-armoured-90c", 120, 3)[0] == pytest.approx(math.hypot(0.34, 0.130))
     assert cap.voltage_drop_mv_per_a_m("single-core-90c", 2.5, 1)[0] == pytest.approx(2 * 7.41 * 1.28)
-    assert cap.voltage_drop_limit_percent("public", "lighting")[0] == 3 and cap.voltage_drop_limit_percent("public", "other")[0] == 5
+    assert (
+        cap.voltage_drop_limit_percent("public", "lighting")[0] == 3
+        and cap.voltage_drop_limit_percent("public", "other")[0] == 5
+    )
 
 
 def test_design_current_from_a_load():

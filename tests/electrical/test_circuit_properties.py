@@ -8,8 +8,8 @@ from hypothesis import strategies as st
 
 from service.electrical.circuit import check_circuit, check_circuits
 from service.electrical.columns import CircuitFailure
-from service.electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
 from service.electrical.devices import fuses
+from service.electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
 
 SIZES = [1.0, 1.5, 2.5, 4, 6, 10, 16, 25, 35, 50]
 
@@ -19,9 +19,18 @@ def devices(draw):
     kind = draw(st.sampled_from(["breaker", "rcbo", "fuse", "user"]))
     if kind in ("breaker", "rcbo"):
         standard = "BS EN 60898" if kind == "breaker" else "BS EN 61009"
-        rcd = Rcd(draw(st.sampled_from([10, 30, 100, 300])), draw(st.sampled_from(["general", "S"]))) if kind == "rcbo" else None
-        return DeviceSpec(rating_a=draw(st.sampled_from([6, 10, 16, 20, 32, 40, 63, 100])), standard=standard,
-                          type=draw(st.sampled_from("BCD")), breaking_capacity_ka=draw(st.sampled_from([None, 3, 6, 10])), rcd=rcd)
+        rcd = (
+            Rcd(draw(st.sampled_from([10, 30, 100, 300])), draw(st.sampled_from(["general", "S"])))
+            if kind == "rcbo"
+            else None
+        )
+        return DeviceSpec(
+            rating_a=draw(st.sampled_from([6, 10, 16, 20, 32, 40, 63, 100])),
+            standard=standard,
+            type=draw(st.sampled_from("BCD")),
+            breaking_capacity_ka=draw(st.sampled_from([None, 3, 6, 10])),
+            rcd=rcd,
+        )
     if kind == "fuse":
         standard = draw(st.sampled_from(fuses.fuse_standards()))
         return DeviceSpec(rating_a=draw(st.sampled_from(fuses.fuse_ratings(standard))), standard=standard)
@@ -32,14 +41,20 @@ def devices(draw):
 @st.composite
 def circuits(draw):
     conductors = Conductors(
-        material="copper", insulation=draw(st.sampled_from(["thermoplastic-70", "thermosetting-90"])),
-        line_csa_mm2=draw(st.sampled_from(SIZES)), cpc_csa_mm2=draw(st.sampled_from(SIZES)),
-        length_m=draw(st.floats(0.5, 300)), ring=draw(st.booleans()), parallel_cables=draw(st.sampled_from([1, 2])),
+        material="copper",
+        insulation=draw(st.sampled_from(["thermoplastic-70", "thermosetting-90"])),
+        line_csa_mm2=draw(st.sampled_from(SIZES)),
+        cpc_csa_mm2=draw(st.sampled_from(SIZES)),
+        length_m=draw(st.floats(0.5, 300)),
+        ring=draw(st.booleans()),
+        parallel_cables=draw(st.sampled_from([1, 2])),
         cpc_arrangement=draw(st.sampled_from(["in-cable", "separate"])),
     )
     role = draw(st.sampled_from(["final", "distribution"]))
     return Circuit(
-        device=draws_device(draw), conductors=conductors, role=role,
+        device=draws_device(draw),
+        conductors=conductors,
+        role=role,
         load=draw(st.sampled_from(["socket-outlets", "fixed-equipment"])) if role == "final" else None,
         id=draw(st.text(max_size=8)),
     )
@@ -79,7 +94,7 @@ def finite_everywhere(value):
 def test_array_path_equals_scalar_path(supply, items):
     batch = check_circuits(supply, items)
     assert len(batch) == len(items)
-    for item, result in zip(items, batch):
+    for item, result in zip(items, batch, strict=False):
         if isinstance(result, CircuitFailure):
             continue
         assert plain(result) == plain(check_circuit(supply, item))
@@ -122,13 +137,24 @@ def test_max_zs_and_disconnection_time_agree_without_an_rcd(supply, item):
 
 def test_a_bad_item_never_sinks_the_others():
     supply = Supply(earthing="TN-S", u0_v=230, ze_ohm=0.8)
-    good = Circuit(device=DeviceSpec(rating_a=16, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
-                   conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 20), role="final", load="socket-outlets", id="a")
+    good = Circuit(
+        device=DeviceSpec(rating_a=16, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
+        conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 20),
+        role="final",
+        load="socket-outlets",
+        id="a",
+    )
     bad_size = dataclasses.replace(good, id="b", conductors=dataclasses.replace(good.conductors, line_csa_mm2=3))
     bad_fuse = dataclasses.replace(good, id="c", device=DeviceSpec(rating_a=17, standard="BS 88-2"))
     no_rcd = dataclasses.replace(good, id="d", device=DeviceSpec(rating_a=16, standard="BS EN 61009", type="B"))
     out = check_circuits(supply, [good, bad_size, bad_fuse, no_rcd, good])
-    assert [type(r).__name__ for r in out] == ["CircuitResult", "CircuitFailure", "CircuitFailure", "CircuitFailure", "CircuitResult"]
+    assert [type(r).__name__ for r in out] == [
+        "CircuitResult",
+        "CircuitFailure",
+        "CircuitFailure",
+        "CircuitFailure",
+        "CircuitResult",
+    ]
     assert out[1].path == ("circuit", "conductors", "line_csa_mm2")
     assert out[2].path == ("circuit", "device", "rating_a") and out[3].path == ("circuit", "device", "rcd")
     assert [r.id for r in out] == ["a", "b", "c", "d", "a"]

@@ -41,7 +41,11 @@ def test_every_iec60228_row_of_the_reference():
     # IEC 60228:2004 Tables 1 and 2 (tests/data/iec60228-resistance.csv, A)
     count = 0
     for row in rows("iec60228-resistance.csv"):
-        for column, material, cls in (("copper_class2", "copper", 2), ("copper_class1", "copper", 1), ("aluminium", "aluminium", 2)):
+        for column, material, cls in (
+            ("copper_class2", "copper", 2),
+            ("copper_class1", "copper", 1),
+            ("aluminium", "aluminium", 2),
+        ):
             if row.get(column):
                 assert cond.resistance_mohm_per_m(material, float(row["csa_mm2"]), cls) == float(row[column]), row
                 count += 1
@@ -64,8 +68,13 @@ def test_operating_temperatures():
 def test_ring_loop_value_is_a_quarter_of_the_end_to_end_sum():
     # common practice: a ring's R1+R2 at the mid-point is (r1 + r2) / 4, r1 and r2 end to end;
     # 2.5/1.5 mm2 round a 60 m ring at 70 degC: (7.41 + 12.1) x 1.20 x 60 / 1000 / 4 = 0.35118 ohm
-    cols = cond.conductor_columns([Conductors("copper", "thermoplastic-70", 2.5, 1.5, 60, ring=True),
-                                   Conductors("copper", "thermoplastic-70", 2.5, 1.5, 60), None])
+    cols = cond.conductor_columns(
+        [
+            Conductors("copper", "thermoplastic-70", 2.5, 1.5, 60, ring=True),
+            Conductors("copper", "thermoplastic-70", 2.5, 1.5, 60),
+            None,
+        ]
+    )
     loop = cols.r1 + cols.r2
     assert loop[0] == pytest.approx(19.51 * 1.2 * 60 / 1000 / 4)
     assert loop[1] == pytest.approx(4 * loop[0])

@@ -71,4 +71,10 @@ def test_time_verdicts():
     time = np.array([0.1, 0.1, np.inf, 0.3, 0.1])
     bound = np.array([AT_MOST, AT_MOST, BEYOND_DATA, INTERPOLATED, AT_MOST], dtype=np.int8)
     limit = np.array([0.4, 0.07, 0.4, 0.2, np.nan])
-    assert [VERDICTS[v] for v in time_verdicts(time, bound, limit)] == ["pass", "not-verified", "fail", "fail", "not-verified"]
+    assert [VERDICTS[v] for v in time_verdicts(time, bound, limit)] == [
+        "pass",
+        "not-verified",
+        "fail",
+        "fail",
+        "not-verified",
+    ]

@@ -34,10 +34,14 @@ def test_zero_loop_is_rejected():
 def test_fault_current_from_the_supply_and_the_conductors():
     # 6/2.5 mm2 twin and earth, 18 m, 70 degC: R1+R2 = (3.08 + 7.41) x 1.20 x 18 / 1000 = 0.226584 ohm (IEC 60228,
     # BS 7671 Appendix 3 multiplier); Zs = 0.28 + 0.226584; If = 0.95 x 230 / Zs; PFC 1.10 x 230 / 0.28 (IEC 60909-0)
-    figures = faults.fault_current(supply=Supply("TN-C-S", 230, 0.28), conductors=Conductors("copper", "thermoplastic-70", 6, 2.5, 18))
+    figures = faults.fault_current(
+        supply=Supply("TN-C-S", 230, 0.28), conductors=Conductors("copper", "thermoplastic-70", 6, 2.5, 18)
+    )
     assert figures.r1_plus_r2_ohm == pytest.approx(0.226584) and figures.zs_ohm == pytest.approx(0.506584)
     assert figures.earth_fault_current_a == pytest.approx(218.5 / 0.506584)
     assert figures.prospective_fault_current_ka == pytest.approx(1.1 * 230 / 0.28 / 1000)
     with pytest.raises(UnknownConductor) as err:
-        faults.fault_current(supply=Supply("TN-C-S", 230, 0.28), conductors=Conductors("copper", "thermoplastic-70", 3, 2.5, 18))
+        faults.fault_current(
+            supply=Supply("TN-C-S", 230, 0.28), conductors=Conductors("copper", "thermoplastic-70", 3, 2.5, 18)
+        )
     assert err.value.path == ("conductors", "line_csa_mm2")

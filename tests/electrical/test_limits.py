@@ -64,4 +64,6 @@ def test_max_zs_question_with_an_rcd():
     # B32 RCBO 30 mA at 0.4 s: Ia 160 A (Table 41.3), max Zs 1.3656 ohm; 50 V / 30 mA = 1666.7 ohm (Table 41.5)
     answer = max_zs_for(DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", rcd=Rcd(30)), 0.4, 230)
     assert answer.operating_current_a == 160 and answer.max_zs_ohm == pytest.approx(1.365625)
-    assert answer.max_measured_zs_ohm == pytest.approx(1.365625 / 1.2) and answer.rcd_max_zs_ohm == pytest.approx(1666.67, abs=0.01)
+    assert answer.max_measured_zs_ohm == pytest.approx(1.365625 / 1.2) and answer.rcd_max_zs_ohm == pytest.approx(
+        1666.67, abs=0.01
+    )

@@ -22,9 +22,13 @@ STORE = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.35, prospective_fault_curre
 def test_factor_cautions_name_only_unsourced_values():
     device = DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
     demand = Demand(length_m=10, design_current_a=10, load="fixed-equipment")
-    sourced = size_circuit(STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=3), device)
+    sourced = size_circuit(
+        STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=3), device
+    )
     assert not any("correction factor" in c for c in sourced.cautions)
-    recalled = size_circuit(STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=12), device)
+    recalled = size_circuit(
+        STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=12), device
+    )
     assert any("correction factor" in c for c in recalled.cautions)  # Table 4C1, 12 circuits: from memory
 
 
@@ -33,8 +37,12 @@ def test_store_sockets_sizing_by_hand():
     # 1.5 mm2: It 20 A < In 25 A -> capacity; 2.5 mm2: 18 mV/A/m x 24 A x 35 m = 15.12 V = 6.57 % > 5 % -> voltage drop
     # 4 mm2: 11 x 24 x 35 / 1000 = 9.24 V = 4.02 %; R1+R2 = (4.61 + 12.1) x 1.2 x 35 / 1000 = 0.70182 ohm
     # Zs = 1.05182 ohm <= 0.95 x 230 / 125 = 1.748 ohm; If = 207.7 A; cpc sqrt(207.7^2 x 0.1) / 115 = 0.571 <= 1.5 mm2
-    r = size_circuit(STORE, Demand(length_m=35, design_current_a=24, load="socket-outlets"),
-                     Installation("flat-twin-earth-70c", "C"), DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6))
+    r = size_circuit(
+        STORE,
+        Demand(length_m=35, design_current_a=24, load="socket-outlets"),
+        Installation("flat-twin-earth-70c", "C"),
+        DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
+    )
     assert r.device["rating_a"] == 25
     assert [(t.line_csa_mm2, t.ruled_out_by) for t in r.tried] == [(1.5, "capacity"), (2.5, "voltage-drop")]
     assert r.tried[1].value == pytest.approx(15.12 / 230 * 100)
@@ -42,21 +50,32 @@ def test_store_sockets_sizing_by_hand():
     assert (s["line_csa_mm2"], s["cpc_csa_mm2"]) == (4.0, 1.5)
     assert s["voltage_drop"]["percent"] == pytest.approx(9.24 / 230 * 100)
     assert s["check"].r1_plus_r2_ohm == pytest.approx(0.70182) and s["check"].verdict == "pass"
-    assert s["check"].protective_conductor["min_csa_mm2"] == pytest.approx(math.sqrt((218.5 / 1.05182) ** 2 * 0.1) / 115)
+    assert s["check"].protective_conductor["min_csa_mm2"] == pytest.approx(
+        math.sqrt((218.5 / 1.05182) ** 2 * 0.1) / 115
+    )
     assert any("from memory" in c for c in r.cautions)  # Table 4D5 4 mm2 C is not sourced
 
 
 DEVICES = [DeviceSpec(rating_a=1, standard="BS EN 60898", type=t, breaking_capacity_ka=10) for t in "BC"] + [
-    DeviceSpec(rating_a=1, standard="BS 88-3", type="gG"), DeviceSpec(rating_a=1, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30))]
+    DeviceSpec(rating_a=1, standard="BS 88-3", type="gG"),
+    DeviceSpec(rating_a=1, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30)),
+]
 
 
-@given(st.floats(2, 60), st.floats(2, 120), st.sampled_from(DEVICES), st.sampled_from([("flat-twin-earth-70c", "C"), ("multicore-armoured-90c", "E"), ("single-core-90c", "B")]),
-       st.floats(0.05, 0.8))
+@given(
+    st.floats(2, 60),
+    st.floats(2, 120),
+    st.sampled_from(DEVICES),
+    st.sampled_from([("flat-twin-earth-70c", "C"), ("multicore-armoured-90c", "E"), ("single-core-90c", "B")]),
+    st.floats(0.05, 0.8),
+)
 @settings(max_examples=60, deadline=None)
 def test_the_size_passes_and_the_next_smaller_fails(ib, length, device, cable, ze):
     supply = Supply(earthing="TN-S", u0_v=230, ze_ohm=ze, prospective_fault_current_ka=1.0)
     try:
-        r = size_circuit(supply, Demand(length_m=length, design_current_a=ib, load="fixed-equipment"), Installation(*cable), device)
+        r = size_circuit(
+            supply, Demand(length_m=length, design_current_a=ib, load="fixed-equipment"), Installation(*cable), device
+        )
     except Exception as err:  # no rating of the family reaches Ib
         assert "no standard rating" in str(err)
         return
@@ -73,10 +92,17 @@ def test_the_size_passes_and_the_next_smaller_fails(ib, length, device, cable, z
         it = {c.csa_mm2: c.it_a for c in cap.capacities(*cable, 1)}[smaller.line_csa_mm2]
         iz = it * r.selected["capacity"].iz_a / r.selected["capacity"].it_a
         drop = cap.voltage_drop_mv_per_a_m(cable[0], smaller.line_csa_mm2, 1)[0] * ib * length / 1000 / 230 * 100
-        again = check_circuit(supply, Circuit(
-            device=dataclasses.replace(device, rating_a=r.device["rating_a"]),
-            conductors=Conductors("copper", cap.cable_table(cable[0])["insulation"], smaller.line_csa_mm2, smaller.cpc_csa_mm2, length),
-            role="final", load="fixed-equipment"))
+        again = check_circuit(
+            supply,
+            Circuit(
+                device=dataclasses.replace(device, rating_a=r.device["rating_a"]),
+                conductors=Conductors(
+                    "copper", cap.cable_table(cable[0])["insulation"], smaller.line_csa_mm2, smaller.cpc_csa_mm2, length
+                ),
+                role="final",
+                load="fixed-equipment",
+            ),
+        )
         fault_fails = any(c.verdict != "pass" for c in again.checks if c.check != "breaking-capacity")
         assert r.device["rating_a"] > iz or drop > 5 or fault_fails
 
@@ -84,21 +110,30 @@ def test_the_size_passes_and_the_next_smaller_fails(ib, length, device, cable, z
 def test_installed_capacity_applies_every_factor():
     # Iz = It x Ca x Cg x Ci x Cc (BS 7671 Appendix 4): 40 degC thermoplastic 0.87 (Table 4B1), 3 bunched 0.70
     # (Table 4C1), BS 3036 0.725; It 27 A -> 27 x 0.87 x 0.70 x 0.725
-    iz, factors = installed_capacity(Installation("flat-twin-earth-70c", "C", ambient_c=40, grouped_circuits=3), 27,
-                                     "thermoplastic-70", "BS 3036")
+    iz, factors = installed_capacity(
+        Installation("flat-twin-earth-70c", "C", ambient_c=40, grouped_circuits=3), 27, "thermoplastic-70", "BS 3036"
+    )
     assert iz == pytest.approx(27 * factors["ambient"]["factor"] * 0.70 * 0.725)
     assert factors["ambient"]["factor"] == pytest.approx(0.87, abs=0.01) and factors["device"]["factor"] == 0.725
 
 
 def test_no_rating_reaches_the_design_current():
     with pytest.raises(InvalidInput) as err:
-        size_circuit(STORE, Demand(length_m=10, design_current_a=140, load="fixed-equipment"), Installation("flat-twin-earth-70c", "C"),
-                     DeviceSpec(rating_a=1, standard="BS 88-3"))
+        size_circuit(
+            STORE,
+            Demand(length_m=10, design_current_a=140, load="fixed-equipment"),
+            Installation("flat-twin-earth-70c", "C"),
+            DeviceSpec(rating_a=1, standard="BS 88-3"),
+        )
     assert err.value.path == ("device", "rating_a")
 
 
 def test_an_installation_error_names_the_installation_field():
     with pytest.raises(InvalidInput) as err:
-        size_circuit(STORE, Demand(length_m=10, design_current_a=10, load="fixed-equipment"), Installation("flat-twin-earth-70c", "E"),
-                     DeviceSpec(rating_a=1, standard="BS 88-3"))
+        size_circuit(
+            STORE,
+            Demand(length_m=10, design_current_a=10, load="fixed-equipment"),
+            Installation("flat-twin-earth-70c", "E"),
+            DeviceSpec(rating_a=1, standard="BS 88-3"),
+        )
     assert err.value.path == ("installation", "installation_method")

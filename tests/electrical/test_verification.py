@@ -10,12 +10,20 @@ from service.electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Suppl
 from service.electrical.verification import Measured, verify
 
 BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)
-OVEN = Circuit(id="oven", role="final", load="fixed-equipment",
-               device=DeviceSpec(rating_a=32, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
-               conductors=Conductors("copper", "thermoplastic-70", 6, 2.5, 18))
-RING = Circuit(id="ring", role="final", load="socket-outlets",
-               device=DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30)),
-               conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 64, ring=True))
+OVEN = Circuit(
+    id="oven",
+    role="final",
+    load="fixed-equipment",
+    device=DeviceSpec(rating_a=32, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
+    conductors=Conductors("copper", "thermoplastic-70", 6, 2.5, 18),
+)
+RING = Circuit(
+    id="ring",
+    role="final",
+    load="socket-outlets",
+    device=DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30)),
+    conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 64, ring=True),
+)
 
 
 def judged(result):
@@ -40,8 +48,13 @@ def test_r1_plus_r2_corrected_to_operating_temperature():
 
 def test_rcd_times_insulation_and_polarity():
     # BS EN 61008-1 / 61009-1 Table 1: general 300 ms at IΔn, 40 ms at 5 IΔn; Table 64 (from memory) 1 megohm at 500 V
-    m = Measured(rcd_time_ms_at_idn=22, rcd_time_ms_at_5idn=12, insulation_resistance_megohm=200,
-                 insulation_test_voltage_v=500, polarity_confirmed=True)
+    m = Measured(
+        rcd_time_ms_at_idn=22,
+        rcd_time_ms_at_5idn=12,
+        insulation_resistance_megohm=200,
+        insulation_test_voltage_v=500,
+        polarity_confirmed=True,
+    )
     (out,) = verify(BAKERY, [(RING, m)])
     j = judged(out)
     assert j["rcd-time-idn"].limit == 300 and j["rcd-time-5idn"].limit == 40

@@ -18,7 +18,9 @@ NOTES = {
     "not-given": "State the device's rated short-circuit capacity (breaking_capacity_ka).",
     "default": "Rated breaking capacity not given: taken as the {basis}.",
 }
-CAUTION_MEMORY = "Breaking capacity taken from a standard minimum that is from memory: confirm it from the maker's data."
+CAUTION_MEMORY = (
+    "Breaking capacity taken from a standard minimum that is from memory: confirm it from the maker's data."
+)
 
 
 @check_step("breaking-capacity")
@@ -38,6 +40,12 @@ def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
     note = np.where(from_default, note, np.where(np.isnan(icn), NOTES["not-given"], None)).astype(object)
     basis = np.full(cols.n, BASIS, dtype=object)
     return CheckColumns(
-        "breaking-capacity", "kA", verdict.astype(np.int8), loop.pfc_ka, icn, basis, note,
+        "breaking-capacity",
+        "kA",
+        verdict.astype(np.int8),
+        loop.pfc_ka,
+        icn,
+        basis,
+        note,
         cautions=[(from_default, CAUTION_MEMORY)],
     )

@@ -16,7 +16,9 @@ from .base import CheckColumns, check_step, pick
 
 NOTES = {
     "estimated": "Time read from an estimated part of the curve (see the device notes).",
-    "no-time-set": "Table 41.1 sets no disconnection time for this case; disconnection may still be required for other reasons.",
+    "no-time-set": (
+        "Table 41.1 sets no disconnection time for this case; disconnection may still be required for other reasons."
+    ),
     "below-data": "The fault current is below the device's data: no disconnection is shown.",
     "at-most-only": (
         "The device's data show operation only within 'at most' this time; the shorter time required cannot be shown "
@@ -31,7 +33,12 @@ def disconnection_time(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespon
     unsure = cols.has_rcd & ((trip.oc_verdict == verdicts.NOT_VERIFIED) | (trip.rcd_verdict == verdicts.NOT_VERIFIED))
     verdict = verdicts.where(trip.by_rcd, verdicts.PASS, verdicts.where(unsure, verdicts.NOT_VERIFIED, trip.oc_verdict))
     note = pick(
-        [trip.bound == ESTIMATED, ~np.isfinite(trip.required_s), trip.bound == BEYOND_DATA, verdict == verdicts.NOT_VERIFIED],
+        [
+            trip.bound == ESTIMATED,
+            ~np.isfinite(trip.required_s),
+            trip.bound == BEYOND_DATA,
+            verdict == verdicts.NOT_VERIFIED,
+        ],
         [NOTES["estimated"], NOTES["no-time-set"], NOTES["below-data"], NOTES["at-most-only"]],
     )
     return CheckColumns("disconnection-time", "s", verdict, trip.time_s, trip.required_s, trip.required_basis, note)

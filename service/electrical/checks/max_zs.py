@@ -38,14 +38,17 @@ def max_zs(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> Check
     use_rcd = ~oc_ok & cols.has_rcd
     rcd_ok = trip.rcd_loop_ohm <= trip.rcd_limit_ohm
     verdict = np.select(
-        [oc_ok, use_rcd & rcd_ok, use_rcd, has_limit], [verdicts.PASS, verdicts.PASS, verdicts.FAIL, verdicts.FAIL],
+        [oc_ok, use_rcd & rcd_ok, use_rcd, has_limit],
+        [verdicts.PASS, verdicts.PASS, verdicts.FAIL, verdicts.FAIL],
         verdicts.NOT_VERIFIED,
     ).astype(np.int8)
     basis = np.where(
         use_rcd, np.where(cols.tt, BASES["tt-by-rcd"], BASES["tn-by-rcd"]), np.where(cols.tt, BASES["tt"], BASES["tn"])
     ).astype(object)
-    note = pick([oc_ok & (trip.operating_bound == ESTIMATED), use_rcd, ~has_limit],
-                [NOTES["ia-estimated"], NOTES["rcd-protects"], NOTES["no-ia"]])
+    note = pick(
+        [oc_ok & (trip.operating_bound == ESTIMATED), use_rcd, ~has_limit],
+        [NOTES["ia-estimated"], NOTES["rcd-protects"], NOTES["no-ia"]],
+    )
     value = np.where(use_rcd, trip.rcd_loop_ohm, loop.zs_ohm)
     limit = np.where(use_rcd, trip.rcd_limit_ohm, limit_oc)
     return CheckColumns("max-zs", "ohm", verdict, value, limit, basis, note)

@@ -24,7 +24,9 @@ NOTES = {
     "let-through": "Energy from the device's let-through I^2 t given in the request.",
     "selection": "The cpc meets Table 54.7 by selection.",
     "selection-no-adiabatic": "The cpc meets Table 54.7 by selection; the adiabatic check does not apply at this time.",
-    "outside-adiabatic": "The adiabatic equation applies from 0.1 s to 5 s; at this fault the device's time is outside it.",
+    "outside-adiabatic": (
+        "The adiabatic equation applies from 0.1 s to 5 s; at this fault the device's time is outside it."
+    ),
 }
 CAUTION_ENERGY = (
     "Below 0.1 s the cpc check uses I^2 x 0.1 s, a conservative stand-in for the device's let-through energy "
@@ -53,15 +55,28 @@ def protective_conductor(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResp
         energy_note,
     ).astype(object)
     detail = {
-        "k": c.k, "k_formula": c.k_formula, "k_basis": c.k_table, "min_csa_mm2": s_min, "csa_mm2": c.cpc_csa,
-        "next_standard_csa_mm2": protective.next_standard_size_mm2(s_min), "selection_csa_mm2": selection,
+        "k": c.k,
+        "k_formula": c.k_formula,
+        "k_basis": c.k_table,
+        "min_csa_mm2": s_min,
+        "csa_mm2": c.cpc_csa,
+        "next_standard_csa_mm2": protective.next_standard_size_mm2(s_min),
+        "selection_csa_mm2": selection,
         "energy_a2s": np.where(c.present, energy, np.nan),
         "energy_basis": np.where(c.present, method, None).astype(object),
-        "verdict": verdict, "basis": basis,
+        "verdict": verdict,
+        "basis": basis,
     }
     return CheckColumns(
-        "protective-conductor", "mm2", verdict, c.cpc_csa, s_min, basis, note,
-        margin_percent=_size_margin(s_min, c.cpc_csa), detail=("protective_conductor", detail),
+        "protective-conductor",
+        "mm2",
+        verdict,
+        c.cpc_csa,
+        s_min,
+        basis,
+        note,
+        margin_percent=_size_margin(s_min, c.cpc_csa),
+        detail=("protective_conductor", detail),
         cautions=[(c.present & conservative, CAUTION_ENERGY)],
     )
 

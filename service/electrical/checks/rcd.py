@@ -21,7 +21,9 @@ BASES = {
 }
 NOTES = {"ra-not-given": "RA not given: Zs used in its place (larger, so on the safe side)."}
 CAUTIONS = {
-    "electrode-unstable": "Earth electrode resistance above 200 ohm may not be stable (note to BS 7671:2018 Table 41.5).",
+    "electrode-unstable": (
+        "Earth electrode resistance above 200 ohm may not be stable (note to BS 7671:2018 Table 41.5)."
+    ),
     "additional-protection": (
         "Socket-outlets rated up to 32 A need additional protection by a 30 mA RCD (BS 7671:2018 411.3.3), "
         "unless an exception applies."
@@ -39,7 +41,14 @@ def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckCol
     with np.errstate(invalid="ignore"):
         unstable = cols.tt & cols.has_rcd & (cols.electrode_ohm > residual.stable_resistance_limit_ohm())
     return CheckColumns(
-        "rcd", "ohm", verdict, trip.rcd_loop_ohm, trip.rcd_limit_ohm, basis, note, applies=cols.has_rcd,
+        "rcd",
+        "ohm",
+        verdict,
+        trip.rcd_loop_ohm,
+        trip.rcd_limit_ohm,
+        basis,
+        note,
+        applies=cols.has_rcd,
         cautions=[
             (unstable, CAUTIONS["electrode-unstable"]),
             (sockets & (cols.residual_ma > residual.additional_protection_max_ma()), CAUTIONS["additional-protection"]),

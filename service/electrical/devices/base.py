@@ -45,8 +45,13 @@ class Device:
 
     def summary(self) -> dict[str, Any]:
         """Who the device is and where its data come from, as results and answers show it."""
-        return {"device_id": self.device_id, "label": self.label, "source": self.source,
-                "confidence": self.confidence, "notes": list(self.notes)}
+        return {
+            "device_id": self.device_id,
+            "label": self.label,
+            "source": self.source,
+            "confidence": self.confidence,
+            "notes": list(self.notes),
+        }
 
     def region_codes(self, current_a: Any) -> np.ndarray:
         """The region of each current as a position in :meth:`region_names` (0: below the data)."""

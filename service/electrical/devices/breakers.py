@@ -35,7 +35,9 @@ def circuit_breaker(standard: str, type_: str, rating_a: float) -> Device:
     """The device for a breaker of ``standard`` ('BS EN 60898' or 'BS EN 61009'), type and rating."""
     table = _table()
     if standard not in table["standards"]:
-        raise UnknownDevice("standard", f"unknown circuit-breaker standard {standard!r}; use one of {breaker_standards()}")
+        raise UnknownDevice(
+            "standard", f"unknown circuit-breaker standard {standard!r}; use one of {breaker_standards()}"
+        )
     if type_ not in table["types"]:
         raise UnknownDevice("type", f"circuit-breakers to {standard} are type B, C or D, not {type_!r}")
     rmin, rmax = table["rating_range_a"]["min"], table["rating_range_a"]["max"]
@@ -99,12 +101,21 @@ class Breakers:
         table = _table()
         return [
             {
-                "device_id": device_id(standard, type_), "kind": self.kind, "standard": standard, "type": type_,
-                "title": info["title"], "ratings_a": self.ratings(standard),
-                "any_rating": {"min_a": float(table["rating_range_a"]["min"]), "max_a": float(table["rating_range_a"]["max"])},
-                "residual": bool(info["residual"]), "data": provenance(table),
+                "device_id": device_id(standard, type_),
+                "kind": self.kind,
+                "standard": standard,
+                "type": type_,
+                "title": info["title"],
+                "ratings_a": self.ratings(standard),
+                "any_rating": {
+                    "min_a": float(table["rating_range_a"]["min"]),
+                    "max_a": float(table["rating_range_a"]["max"]),
+                },
+                "residual": bool(info["residual"]),
+                "data": provenance(table),
             }
-            for standard, info in table["standards"].items() for type_ in table["types"]
+            for standard, info in table["standards"].items()
+            for type_ in table["types"]
         ]
 
     def overload_factor(self, standard: str) -> tuple[float, str]:

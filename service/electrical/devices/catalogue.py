@@ -76,4 +76,6 @@ def device_by_id(device_id: str, rating_a: float) -> Device:
     for entry in catalogue():
         if entry["device_id"] == device_id:
             return resolve(DeviceSpec(rating_a=float(rating_a), standard=entry["standard"], type=entry["type"]))
-    raise UnknownDevice("device_id", f"unknown device {device_id!r}; use one of {[e['device_id'] for e in catalogue()]}")
+    raise UnknownDevice(
+        "device_id", f"unknown device {device_id!r}; use one of {[e['device_id'] for e in catalogue()]}"
+    )

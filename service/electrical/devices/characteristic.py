@@ -56,7 +56,11 @@ class Characteristic:
         est = np.zeros(current.shape, dtype=bool) if self.estimated is None else np.asarray(self.estimated, bool)
         if current.ndim != 1 or current.shape != time.shape or est.shape != current.shape or len(current) < 1:
             raise InvalidInput("curve_points", "a characteristic needs (current, time) points")
-        if not (np.all(np.isfinite(current)) and np.all(np.isfinite(time))) or np.any(current <= 0) or np.any(time <= 0):
+        if (
+            not (np.all(np.isfinite(current)) and np.all(np.isfinite(time)))
+            or np.any(current <= 0)
+            or np.any(time <= 0)
+        ):
             raise InvalidInput("curve_points", "currents and times must be finite and greater than zero")
         d_current = np.diff(current)
         d_time = np.diff(time)
@@ -69,9 +73,15 @@ class Characteristic:
         object.__setattr__(self, "_ly", np.log(time))
 
     @classmethod
-    def from_points(cls, points: Sequence[tuple[float, float]], estimated: Sequence[bool] | None = None) -> Characteristic:
-        current, time = zip(*points) if points else ((), ())
-        return cls(np.asarray(current, float), np.asarray(time, float), None if estimated is None else np.asarray(estimated, bool))
+    def from_points(
+        cls, points: Sequence[tuple[float, float]], estimated: Sequence[bool] | None = None
+    ) -> Characteristic:
+        current, time = zip(*points, strict=True) if points else ((), ())
+        return cls(
+            np.asarray(current, float),
+            np.asarray(time, float),
+            None if estimated is None else np.asarray(estimated, bool),
+        )
 
     @property
     def min_time_s(self) -> float:
@@ -135,7 +145,8 @@ class Characteristic:
         # exactly on a point: the tabulated value itself, not its round trip through logarithms
         time = np.select(
             [below, above, (frac >= 1) | (ly[hi] == ly[lo]), frac <= 0],
-            [np.inf, self.time_s[-1], self.time_s[hi], self.time_s[lo]], np.exp(y),
+            [np.inf, self.time_s[-1], self.time_s[hi], self.time_s[lo]],
+            np.exp(y),
         )
         seg_est = (est[lo] & (frac < 1)) | (est[hi] & (frac > 0))
         # an answer that rests on an estimated end point keeps saying so
@@ -166,15 +177,18 @@ class Characteristic:
         first = (j == 0) | too_long  # at or beyond the first point's time
         current = np.select(
             [too_short, first, (frac >= 1) | (lx[hi] == lx[lo]), frac <= 0],
-            [np.nan, self.current_a[0], self.current_a[hi], self.current_a[lo]], np.exp(x),
+            [np.nan, self.current_a[0], self.current_a[hi], self.current_a[lo]],
+            np.exp(x),
         )
         seg_est = np.where(first, est[0], (est[lo] & (frac < 1)) | (est[hi] & (frac > 0)))
-        code = np.select([too_short, too_long & ~est[0]], [BEYOND_DATA, AT_MOST], np.where(seg_est, ESTIMATED, INTERPOLATED))
+        code = np.select(
+            [too_short, too_long & ~est[0]], [BEYOND_DATA, AT_MOST], np.where(seg_est, ESTIMATED, INTERPOLATED)
+        )
         return current, code.astype(np.int8)
 
     def points(self) -> list[dict[str, Any]]:
         """The points as plain records, for an API answer or a picture."""
         return [
             {"current_a": float(c), "time_s": float(t), "estimated": bool(e)}
-            for c, t, e in zip(self.current_a, self.time_s, self.estimated)
+            for c, t, e in zip(self.current_a, self.time_s, self.estimated, strict=True)
         ]

@@ -85,7 +85,7 @@ def fuse(standard: str, type_: str | None, rating_a: float) -> Device:
             f"Long-time point at the conventional fusing current {conv['multiple']:g} In within "
             f"{conv['time_s']:g} s (IEC 60269-1, confidence {conv['confidence']}): estimated, for pictures."
         )
-    for time_s, key in zip(PUBLISHED_TIMES_S, ("ia_5s_a", "ia_0_4s_a")):
+    for time_s, key in zip(PUBLISHED_TIMES_S, ("ia_5s_a", "ia_0_4s_a"), strict=True):
         if row[key] is not None:
             points.append((float(row[key]), time_s))
             estimated.append(False)
@@ -148,12 +148,20 @@ class Fuses:
     def entries(self) -> list[dict[str, Any]]:
         out = []
         for standard, info in _families().items():
-            out.append({
-                "device_id": device_id(standard), "kind": self.kind, "standard": standard, "type": info["type"],
-                "title": info["title"], "ratings_a": fuse_ratings(standard), "any_rating": None, "residual": False,
-                "data": provenance(device_table("fuse_operating_currents")),
-                "estimates": provenance(device_table("gg_gates")) if info["gates"] else None,
-            })
+            out.append(
+                {
+                    "device_id": device_id(standard),
+                    "kind": self.kind,
+                    "standard": standard,
+                    "type": info["type"],
+                    "title": info["title"],
+                    "ratings_a": fuse_ratings(standard),
+                    "any_rating": None,
+                    "residual": False,
+                    "data": provenance(device_table("fuse_operating_currents")),
+                    "estimates": provenance(device_table("gg_gates")) if info["gates"] else None,
+                }
+            )
         return out
 
     def overload_factor(self, standard: str) -> tuple[float, str]:

@@ -40,7 +40,7 @@ def rcd_characteristic(residual_current_ma: float, delay: str = "general") -> Ch
     row = table["delays"][delay]
     idn = residual_current_ma / 1000.0
     points: list[tuple[float, float]] = []
-    for k, (multiple, time) in enumerate(zip(row["multiples"], row["max_time_s"])):
+    for k, (multiple, time) in enumerate(zip(row["multiples"], row["max_time_s"], strict=True)):
         if k > 0:
             points.append((multiple * idn, points[-1][1]))
         points.append((multiple * idn, time))

@@ -3,7 +3,6 @@
 import numpy as np
 import pytest
 
-from service.electrical.devices import breakers
 from service.electrical.devices.catalogue import resolve
 from service.electrical.errors import UnknownDevice
 from service.electrical.model import DeviceSpec
@@ -20,6 +19,7 @@ def test_breaker_envelope_from_bs_en_60898_limits():
     assert np.isnan(ia[0]) and ia[1:].tolist() == [160] * 5  # BS 7671 Table 41.3 takes Ia = 5 In
     big = resolve(DeviceSpec(rating_a=80, standard="BS EN 60898", type="C"))
     assert big.time_at(80 * 2.55)[0] == 120 and big.time_at(80 * 1.45)[0] == 7200  # In > 32 A / > 63 A
+
 
 def test_any_breaker_rating_within_the_standard_range():
     # BS EN 60898-1 Table 7: type C trips within 0.1 s at 10 In, so Ia = 130 A for 13 A at 0.4 s

@@ -16,7 +16,9 @@ def all_builtin_devices():
             out.append(device_by_id(family["device_id"], rating))
     return out
 
+
 DEVICES = all_builtin_devices()
+
 
 def test_catalogue_lists_every_family_with_sources():
     ids = {f["device_id"] for f in catalogue()}
@@ -24,6 +26,7 @@ def test_catalogue_lists_every_family_with_sources():
     for family in catalogue():
         assert family["data"]["source"] and family["data"]["confidence"]
         assert family["ratings_a"]
+
 
 def test_fuse_ratings_are_only_the_published_ones():
     with pytest.raises(UnknownDevice) as err:
@@ -34,6 +37,7 @@ def test_fuse_ratings_are_only_the_published_ones():
     with pytest.raises(UnknownDevice):
         resolve(DeviceSpec(rating_a=30, standard="BS 9999"))
 
+
 @pytest.mark.parametrize("dev", DEVICES, ids=lambda d: d.label)
 def test_time_falls_as_current_rises_for_every_builtin_device(dev):
     lo = dev.characteristic.min_current_a
@@ -41,6 +45,7 @@ def test_time_falls_as_current_rises_for_every_builtin_device(dev):
     t, _ = dev.time_at(currents)
     assert np.all(t[1:] <= t[:-1])
     assert np.all(np.isinf(t[currents < lo]))
+
 
 @pytest.mark.parametrize("dev", DEVICES, ids=lambda d: d.label)
 def test_inverse_returns_the_current_on_strictly_falling_segments(dev):

@@ -4,7 +4,13 @@ import numpy as np
 import pytest
 
 from service.electrical.devices.characteristic import (
-    AT_MOST, BEYOND_DATA, ESTIMATED, INTERPOLATED, Bound, Characteristic, bound_names,
+    AT_MOST,
+    BEYOND_DATA,
+    ESTIMATED,
+    INTERPOLATED,
+    Bound,
+    Characteristic,
+    bound_names,
 )
 from service.electrical.errors import InvalidInput
 
@@ -14,7 +20,7 @@ CURVE = Characteristic.from_points([(100, 10), (1000, 0.1)])
 
 def test_log_log_interpolation_between_points():
     # straight on log-log axes: at 316.23 A (half a decade) the time is 1 s (half of two decades), common practice
-    t, bound = CURVE.time_at(10 ** 2.5)
+    t, bound = CURVE.time_at(10**2.5)
     assert t == pytest.approx(1.0) and bound == Bound.INTERPOLATED
 
 
@@ -27,7 +33,7 @@ def test_nothing_is_extrapolated():
 
 def test_inverse():
     ia, bound = CURVE.current_for([20, 10, 1, 0.1, 0.05])
-    assert ia[:4] == pytest.approx([100, 100, 10 ** 2.5, 1000]) and np.isnan(ia[4])
+    assert ia[:4] == pytest.approx([100, 100, 10**2.5, 1000]) and np.isnan(ia[4])
     assert bound.tolist() == ["at-most", "interpolated", "interpolated", "interpolated", "beyond-data"]
 
 

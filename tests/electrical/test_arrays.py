@@ -1,0 +1,37 @@
+"""Column helpers: scalars in and out, one lookup per distinct key, groups."""
+
+import gc
+
+import numpy as np
+
+from service.electrical.arrays import finite_or_none, groups, map_column, paused_gc, scalar_io
+
+
+@scalar_io
+def doubled(values, factor=2):
+    return np.asarray(values, dtype=float) * factor, np.array(["x"] * np.size(values), dtype=object)
+
+
+def test_scalars_in_scalars_out_and_arrays_stay_arrays():
+    value, label = doubled(1.5)
+    assert value == 3.0 and isinstance(value, float) and label == "x"
+    values, labels = doubled([1.0, 2.0])
+    assert values.tolist() == [2.0, 4.0] and labels.tolist() == ["x", "x"]
+
+
+def test_map_column_looks_each_key_up_once():
+    seen = []
+    out = map_column(["a", "b", "a", "a"], 4, lambda k: seen.append(k) or len(seen))
+    assert out.tolist() == [1, 2, 1, 1] and seen == ["a", "b"]
+
+
+def test_groups_keep_the_order_of_first_appearance():
+    found = groups(["b", "a", "b", None])
+    assert list(found) == ["b", "a", None] and found["b"].tolist() == [0, 2]
+
+
+def test_finite_or_none_and_the_paused_collector():
+    assert finite_or_none(np.inf) is None and finite_or_none(np.float64(2.5)) == 2.5
+    with paused_gc():
+        assert not gc.isenabled()
+    assert gc.isenabled()

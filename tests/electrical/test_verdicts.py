@@ -1,0 +1,23 @@
+"""Verdicts and their codes: the worse verdict has the larger code."""
+
+import numpy as np
+
+from service.electrical import verdicts
+from service.electrical.verdicts import Verdict
+
+
+def test_codes_order_the_verdicts():
+    assert verdicts.VERDICTS == (Verdict.PASS, Verdict.NOT_VERIFIED, Verdict.FAIL)
+    assert verdicts.PASS < verdicts.NOT_VERIFIED < verdicts.FAIL
+
+
+def test_overall_is_the_worst():
+    assert verdicts.overall(["pass", "not-verified"]) == "not-verified"
+    assert verdicts.overall(["not-verified", "fail", "pass"]) == "fail"
+    assert verdicts.overall([]) == "pass"
+
+
+def test_decode_and_where():
+    codes = verdicts.where(np.array([True, False]), verdicts.PASS, verdicts.FAIL)
+    assert codes.dtype == np.int8 and verdicts.decode(codes) == ["pass", "fail"]
+    assert Verdict.NOT_VERIFIED == "not-verified"  # a StrEnum: equal to its text
