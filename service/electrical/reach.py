@@ -12,7 +12,6 @@ import dataclasses
 from typing import Any
 
 import numpy as np
-from scipy.optimize import brentq
 
 from .circuit import check_circuits
 from .columns import CircuitFailure
@@ -163,6 +162,8 @@ LENGTH_TOLERANCE_M = 1e-4
 
 def _boundary(judge, lo: float, hi: float) -> float:
     """The longest length in [lo, hi] that passes, where ``lo`` passes and ``hi`` does not (Brent's method)."""
+
+    from scipy.optimize import brentq  # imported here: scipy.optimize costs half a second at worker start
 
     def signed_margin(length: float) -> float:
         name, margin = judge(length)
