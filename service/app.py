@@ -100,7 +100,7 @@ def spec_dict(api: Api) -> dict[str, Any]:
                             'then {"summary": BatchSummary}'
                         ),
                         "type": "string",
-                    },
+                    }
                 }
             if path.endswith("/characteristic"):
                 responses["200"]["content"]["image/svg+xml"] = {
@@ -128,7 +128,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
                     "Earth fault loop, disconnection time and protective conductor checks to BS 7671 / IEC 60364. "
                     "Results support a competent person and do not replace one; "
                     "the current standard and local codes prevail."
-                ),
+                )
             },
             "servers": [{"url": "/"}],
         },

@@ -4,8 +4,9 @@ JSON: the body of POST /v1/circuits/check-batch (``{"supply": {...}, "circuits":
 CSV: one row a circuit, each with its own supply, in the columns of :data:`CSV_COLUMNS`.
 Input goes through the same schemas as the HTTP API, so a bad row gets the same messages.
 
-Exit status: 0 when every circuit passes (not-verified too, unless ``--strict``), 1 when any fails,
-3 when some rows could not be checked (and none failed), 2 for a file that cannot be read.
+Exit status: 0 only when every circuit passes; 1 when any fails; 3 when some rows could not be checked
+(and none failed); 4 when some circuits are not-verified (and none failed or could not be checked); 2 for a
+file that cannot be read.
 """
 
 from __future__ import annotations
@@ -38,6 +39,7 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
     "prospective_fault_current_ka": ("supply", "prospective_fault_current_ka", "number"),
     "electrode_ohm": ("supply", "electrode_ohm", "number"),
     "bonding_complete": ("supply", "bonding_complete", "flag"),
+    "line_neutral_loop_ohm": ("supply", "line_neutral_loop_ohm", "number"),
     "role": ("circuit", "role", "text"),
     "load": ("circuit", "load", "text"),
     "design_current_a": ("circuit", "design_current_a", "number"),
@@ -45,6 +47,8 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
     "device_type": ("device", "type", "text"),
     "rating_a": ("device", "rating_a", "number"),
     "breaking_capacity_ka": ("device", "breaking_capacity_ka", "number"),
+    "energy_limiting_class": ("device", "energy_limiting_class", "integer"),
+    "conditional_short_circuit_ka": ("circuit", "conditional_short_circuit_ka", "number"),
     "rcd_residual_current_ma": ("rcd", "residual_current_ma", "number"),
     "rcd_delay": ("rcd", "delay", "text"),
     "material": ("conductors", "material", "text"),
@@ -56,6 +60,13 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
     "ring": ("conductors", "ring", "flag"),
     "parallel_cables": ("conductors", "parallel_cables", "integer"),
     "r1_plus_r2_ohm": ("circuit", "r1_plus_r2_ohm", "number"),
+    "neutral_csa_mm2": ("circuit", "neutral_csa_mm2", "number"),
+    "cable": ("installation", "cable", "text"),
+    "installation_method": ("installation", "installation_method", "text"),
+    "ambient_c": ("installation", "ambient_c", "number"),
+    "grouping": ("installation", "grouping", "text"),
+    "grouped_circuits": ("installation", "grouped_circuits", "integer"),
+    "thermal_insulation_mm": ("installation", "thermal_insulation_mm", "number"),
 }
 RESULT_COLUMNS = (
     "index",
@@ -140,6 +151,7 @@ _POINTER_OF = {
     "device": "/circuit/device",
     "rcd": "/circuit/device/rcd",
     "conductors": "/circuit/conductors",
+    "installation": "/circuit/installation",
 }
 CSV_ROOTS = {"supply": "/supply", "circuit": "/circuit"}
 _COLUMN_OF = {f"{_POINTER_OF[where]}/{name}": column for column, (where, name, _) in CSV_COLUMNS.items()}
@@ -177,8 +189,9 @@ def _read_rows(reader: csv.DictReader, rows: list[Row]) -> None:
         circuit = dict(parts["circuit"], device=dict(parts["device"]))
         if parts["rcd"]:
             circuit["device"]["rcd"] = parts["rcd"]
-        if parts["conductors"]:
-            circuit["conductors"] = parts["conductors"]
+        for nested in ("conductors", "installation"):
+            if parts[nested]:
+                circuit[nested] = parts[nested]
         row = _validated(index, parts["supply"], circuit, "", "/supply", "/circuit")
         if row.problem:
             row.problem = [{"pointer": _as_column(e["pointer"], index), "message": e["message"]} for e in row.problem]
@@ -317,7 +330,7 @@ def main(args: argparse.Namespace) -> int:
             rows = read_csv(stream) if kind == "csv" else read_json(stream)
     except (OSError, UnicodeDecodeError, json.JSONDecodeError, ScheduleError) as err:
         print(f"cannot read {path}: {err}", file=sys.stderr)
-        return 2
+        return EXIT_UNREADABLE
     out_format = args.format or ("csv" if args.output and args.output.lower().endswith(".csv") else "json")
     tally = Tally()
     sink = open(args.output, "wb") if args.output else sys.stdout.buffer
@@ -346,13 +359,21 @@ def main(args: argparse.Namespace) -> int:
             sink.flush()
     counts = tally.counts
     print(" ".join(f"{k}={v}" for k, v in counts.items()), file=sys.stderr)
+    return exit_status(counts)
+
+
+EXIT_PASS, EXIT_FAIL, EXIT_UNREADABLE, EXIT_INVALID, EXIT_NOT_VERIFIED = 0, 1, 2, 3, 4
+
+
+def exit_status(counts: dict[str, int]) -> int:
+    """0 only when every circuit passes; 1 any fails; else 3 some could not be checked; else 4 some not-verified."""
     if counts[Verdict.FAIL]:
-        return 1
+        return EXIT_FAIL
     if counts["invalid"]:
-        return 3
-    if args.strict and counts[Verdict.NOT_VERIFIED]:
-        return 1
-    return 0
+        return EXIT_INVALID
+    if counts[Verdict.NOT_VERIFIED]:
+        return EXIT_NOT_VERIFIED
+    return EXIT_PASS
 
 
 def add_parser(sub) -> None:
@@ -361,5 +382,7 @@ def add_parser(sub) -> None:
     p.add_argument("--input-format", choices=["json", "csv"], help="default: from the file's extension")
     p.add_argument("--format", choices=["json", "csv"], help="output format (default: json, or csv for a .csv output)")
     p.add_argument("-o", "--output", help="write the results here (default: standard output)")
-    p.add_argument("--strict", action="store_true", help="exit 1 also when a circuit is not-verified")
+    p.add_argument(
+        "--strict", action="store_true", help="no effect: not-verified circuits always exit 4 (kept for scripts)"
+    )
     p.set_defaults(func=main)

@@ -9,12 +9,15 @@ from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
 HEADER = (
-    "id,earthing,u0_v,ze_ohm,prospective_fault_current_ka,role,load,device_standard,device_type,rating_a,"
-    "breaking_capacity_ka,material,insulation,line_csa_mm2,cpc_csa_mm2,length_m,ring"
+    "id,earthing,u0_v,ze_ohm,prospective_fault_current_ka,line_neutral_loop_ohm,role,load,design_current_a,"
+    "device_standard,device_type,rating_a,breaking_capacity_ka,energy_limiting_class,material,insulation,"
+    "line_csa_mm2,cpc_csa_mm2,length_m,ring,cable,installation_method"
 )
-OVEN = "oven,TN-C-S,230,0.28,2.1,final,fixed-equipment,BS EN 60898,B,32,6,copper,thermoplastic-70,6,2.5,18,false"
-LIGHTS = "lights,TN-C-S,230,0.28,2.1,final,fixed-equipment,BS EN 60898,C,20,6,copper,thermoplastic-70,2.5,1.5,60,false"
-BAD = "bad,TN-C-S,230,0.28,2.1,final,fixed-equipment,BS EN 60898,B,32,6,copper,thermoplastic-70,6,2.5,far,false"
+SUPPLY = "TN-C-S,230,0.28,2.1,0.19"
+ROW = "final,fixed-equipment,26,BS EN 60898,B,32,6,3,copper,thermoplastic-70,6,2.5,{length},false,flat-twin-earth-70c,C"
+OVEN = f"oven,{SUPPLY}," + ROW.format(length=18)
+BAD = f"bad,{SUPPLY}," + ROW.format(length="far")
+NO_IB = OVEN.replace(",26,", ",,")  # no design current: overload cannot be checked
 
 
 def run(*args, cwd=ROOT):
@@ -39,18 +42,17 @@ def test_csv_in_csv_out(tmp_path):
     assert r.returncode == 3  # one row could not be checked, none failed
     rows = list(csv.DictReader(io.StringIO(out.read_text())))
     assert [row["verdict"] for row in rows] == ["pass", "invalid"]
-    assert abs(float(rows[0]["zs_ohm"]) - 0.506584) < 1e-9  # Ze 0.28 + R1+R2 0.226584
+    assert float(rows[0]["zs_ohm"]) == 0.5066  # Ze 0.28 + R1+R2 0.226584, to 4 decimals
     assert rows[1]["problem"] == "/1/length_m: Not a number."
 
 
-def test_all_pass_exits_0_and_strict_counts_not_verified(tmp_path):
+def test_all_pass_exits_0_and_not_verified_exits_4(tmp_path):
     source = tmp_path / "board.csv"
     source.write_text("\n".join([HEADER, OVEN]) + "\n")
     assert run(str(source)).returncode == 0
-    unverified = OVEN.replace(",6,copper", ",,copper").replace("BS EN 60898,B,32", "BS EN 60898,B,32")
-    source.write_text("\n".join([HEADER, unverified]) + "\n")  # no breaking capacity: not-verified
-    assert run(str(source)).returncode == 0
-    assert run(str(source), "--strict").returncode == 1
+    source.write_text("\n".join([HEADER, NO_IB]) + "\n")
+    r = run(str(source))
+    assert r.returncode == 4 and b"not-verified=1" in r.stderr  # every circuit must pass for 0
 
 
 def test_unreadable_file_exits_2(tmp_path):

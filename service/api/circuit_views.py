@@ -14,7 +14,8 @@ from . import metrics
 from .base import Blueprint
 from .errors import CoreInputError, json_bytes, json_response
 from .helpers import failed_item, invalid_item, svg_response
-from .schemas import BatchRequestSchema, BatchResultSchema, CheckRequestSchema, CircuitResultSchema, ItemProblem
+from .result_schemas import BatchResultSchema, CircuitResultSchema
+from .schemas import BatchRequestSchema, CheckRequestSchema, ItemProblem
 
 blp = Blueprint(
     "circuits",
@@ -29,7 +30,7 @@ CHUNK = 2000
 
 
 def _checked_one(body):
-    result = check_circuits(body["supply"], [body["circuit"]])[0]
+    result = check_circuits(body["supply"], [body["circuit"]], body.get("checks"))[0]
     if isinstance(result, CircuitFailure):
         raise CoreInputError.of(result, SINGLE)
     return result
@@ -93,12 +94,12 @@ def check_batch(body):
     if len(items) > limit:
         flask.abort(413, description=f"a batch holds at most {limit} circuits")
     if flask.request.accept_mimetypes.best_match(["application/json", NDJSON]) == NDJSON:
-        return flask.Response(flask.stream_with_context(_ndjson(body["supply"], items)), mimetype=NDJSON)
+        return flask.Response(flask.stream_with_context(_ndjson(body, items)), mimetype=NDJSON)
     results = []
     counts = Counts()
     with paused_gc():
         for start in range(0, len(items), CHUNK):
-            results.extend(_checked(body["supply"], items[start : start + CHUNK], start, counts))
+            results.extend(_checked(body, items[start : start + CHUNK], start, counts))
         return json_response({"results": results, "summary": counts.summary(len(items))})
 
 
@@ -121,10 +122,10 @@ class Counts:
         }
 
 
-def _checked(supply, items, offset, counts):
+def _checked(body, items, offset, counts):
     """One record per item of a chunk, in order: a result, or a problem naming the fields."""
     valid = [item for item in items if not isinstance(item, ItemProblem)]
-    outcomes = iter(check_circuits(supply, valid) if valid else [])
+    outcomes = iter(check_circuits(body["supply"], valid, body.get("checks")) if valid else [])
     out = []
     verdicts = []
     for local, item in enumerate(items):
@@ -142,11 +143,11 @@ def _checked(supply, items, offset, counts):
     return out
 
 
-def _ndjson(supply, items):
+def _ndjson(body, items):
     """One JSON line per item, in order, computed a chunk at a time; the last line is the summary."""
     counts = Counts()
     for start in range(0, len(items), CHUNK):
         yield b"".join(
-            json_bytes(record) + b"\n" for record in _checked(supply, items[start : start + CHUNK], start, counts)
+            json_bytes(record) + b"\n" for record in _checked(body, items[start : start + CHUNK], start, counts)
         )
     yield json_bytes({"summary": counts.summary(len(items))}) + b"\n"

@@ -166,6 +166,17 @@ def _nested_list(field: fields.Field, limits: _Limits):
     return check
 
 
+def _text_list(field: fields.Field, limits: _Limits):
+    inner = _text(field.inner, _Limits(field.inner))
+
+    def check(raw):
+        if type(raw) is not list or not limits.in_length(raw):
+            raise Refused
+        return [inner(item) for item in raw]
+
+    return check
+
+
 def _kind(field: fields.Field):
     """Which check builder serves this field (an exact list: a field type it does not know is refused)."""
     if isinstance(field, Number):
@@ -180,6 +191,8 @@ def _kind(field: fields.Field):
         return _nested
     if isinstance(field, fields.List) and isinstance(field.inner, fields.Nested):
         return _nested_list
+    if isinstance(field, fields.List) and type(field.inner) in (fields.String, Text):
+        return _text_list
     raise TypeError(f"fastload does not know the field {type(field).__name__}")
 
 

@@ -12,7 +12,8 @@ from .base import Blueprint
 from .errors import json_response
 from .fields import Flag, Number, choice
 from .helpers import failed_item, invalid_item
-from .schemas import CircuitSchema, FastSchema, ItemProblem, PerItemList, SupplySchema, nullable_number
+from .result_schemas import nullable_number
+from .schemas import CircuitSchema, FastSchema, ItemProblem, PerItemList, SupplySchema
 
 blp = Blueprint(
     "test_results",

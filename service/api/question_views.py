@@ -20,7 +20,8 @@ from ..electrical.verdicts import VERDICTS
 from .base import Blueprint
 from .errors import CoreInputError
 from .fields import Number, choice
-from .schemas import ConductorsSchema, DeviceSchema, DeviceSummarySchema, SupplySchema, nullable_number
+from .result_schemas import DeviceSummarySchema, nullable_number
+from .schemas import ConductorsSchema, DeviceSchema, SupplySchema
 
 fault_blp = Blueprint("fault_current", __name__, url_prefix="/v1/fault-current", description="Earth fault current")
 disconnection_blp = Blueprint(

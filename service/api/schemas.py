@@ -1,4 +1,4 @@
-"""Request and response schemas shared by the resources.
+"""Request schemas shared by the resources (responses: result_schemas.py).
 
 Every number has physically plausible bounds, so that no valid input can overflow a formula;
 every choice is an enum; unknown fields are refused (marshmallow's default, RAISE).
@@ -7,27 +7,24 @@ Requests load into the core's dataclasses; responses dump the core's results.
 
 from __future__ import annotations
 
+import dataclasses
+
 from marshmallow import Schema, ValidationError, fields, post_load, validate, validates_schema
 
+from ..electrical import capacity, disconnection, protective
 from ..electrical import conductors as cond
-from ..electrical import disconnection, protective
 from ..electrical.arrays import paused_gc
 from ..electrical.checks import CHECKS
 from ..electrical.devices import catalogue, residual
-from ..electrical.devices.characteristic import BOUNDS
-from ..electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
-from ..electrical.verdicts import VERDICTS, Verdict
+from ..electrical.devices.let_through import ENERGY_CLASSES
+from ..electrical.model import Circuit, Conductors, DeviceSpec, Installation, Rcd, Supply
 from . import fastload
-from .errors import ProblemSchema
 from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
 
 DEVICE_STANDARDS = catalogue.standards()
+ALL_METHODS = sorted({m for cable in capacity.CABLES for m in capacity.methods(cable)})
 DEVICE_TYPES = catalogue.types()
-
-
-def nullable_number(description: str = "", **kwargs) -> fields.Float:
-    return fields.Float(allow_none=True, required=True, metadata={"description": description}, **kwargs)
 
 
 # ---------------------------------------------------------------- requests
@@ -84,6 +81,14 @@ class DeviceSchema(Schema):
     let_through_a2s = Number(
         minimum=1, maximum=1e10, metadata={"description": "maker's let-through I^2 t, A^2 s, for times below 0.1 s"}
     )
+    energy_limiting_class = WholeNumber(
+        minimum=min(ENERGY_CLASSES),
+        maximum=max(ENERGY_CLASSES),
+        metadata={
+            "description": "1, 2 or 3 as marked on a BS EN 60898 / 61009 breaker of type B or C up to 32 A "
+            "(BS EN 60898-1 Annex ZA); default 3, said in the result"
+        },
+    )
 
     @validates_schema
     def standard_or_points(self, data, **kwargs):
@@ -138,13 +143,24 @@ class SupplySchema(Schema):
         metadata={"description": "external loop impedance; for TT including RA"},
     )
     prospective_fault_current_ka = Number(
-        minimum=0.001, maximum=200, metadata={"description": "largest at the origin; if omitted, U0 x cmax / Ze"}
+        minimum=0.001,
+        maximum=200,
+        metadata={
+            "description": "the larger of line-neutral and line-earth at the origin (434.1), measured or declared; "
+            "if omitted: from the line-neutral loop, or (TN only) U0 x cmax / Ze"
+        },
+    )
+    line_neutral_loop_ohm = Number(
+        minimum=0.001,
+        maximum=100,
+        metadata={
+            "description": "line-neutral loop impedance at the origin, measured or declared (for short circuits)"
+        },
     )
     c_max = Number(
         minimum=1.05,
         maximum=1.10,
-        validate=validate.OneOf([1.05, 1.10]),
-        metadata={"description": "IEC 60909-0 cmax, 1.05 or 1.10 (default 1.10)"},
+        metadata={"description": "IEC 60909-0 cmax: 1.05 (+6 % systems) to 1.10 (+10 %, the default)"},
     )
     electrode_ohm = Number(minimum=0.01, maximum=10000, metadata={"description": "TT: earth electrode resistance RA"})
     bonding_complete = Flag(
@@ -156,9 +172,41 @@ class SupplySchema(Schema):
     current_kind = choice(disconnection.CURRENT_KINDS, load_default="ac")
     reduced_low_voltage = Flag(load_default=False, metadata={"description": "a reduced low voltage system (411.8)"})
 
+    @validates_schema
+    def electrode_within_ze(self, data, **kwargs):
+        if data.get("earthing") == "TT" and data.get("electrode_ohm", 0) > data.get("ze_ohm", float("inf")):
+            message = (
+                "in TT, ze_ohm is the whole external loop including the electrode: it cannot be below electrode_ohm"
+            )
+            raise ValidationError({"ze_ohm": [message], "electrode_ohm": [message]})
+
     @post_load
     def make(self, data, **kwargs):
         return Supply(**data)
+
+
+class InstallationSchema(Schema):
+    cable = choice(capacity.CABLES, required=True, metadata={"description": "which BS 7671 table: 4D5, 4E4A or 4E1A"})
+    installation_method = choice(ALL_METHODS, required=True, metadata={"description": "a method of that table"})
+    ambient_c = Number(minimum=-10, maximum=60, load_default=30.0)
+    grouping = choice(capacity.GROUPINGS, load_default="bunched")
+    grouped_circuits = WholeNumber(minimum=1, maximum=60, load_default=1)
+    thermal_insulation_mm = Number(
+        minimum=0,
+        maximum=2000,
+        load_default=0.0,
+        metadata={"description": "length totally surrounded by insulation (Table 52.2)"},
+    )
+    ground_c = Number(minimum=0, maximum=40, metadata={"description": "method D: ground temperature (default 20)"})
+    soil_resistivity_k_m_per_w = Number(
+        minimum=0.5, maximum=3, metadata={"description": "method D: soil thermal resistivity"}
+    )
+    in_duct = Flag(load_default=False)
+    reactance_mohm_per_m = Number(minimum=0, maximum=1, metadata={"description": "for a drop computed from resistance"})
+
+    @post_load
+    def make(self, data, **kwargs):
+        return Installation(**data)
 
 
 class CircuitSchema(Schema):
@@ -173,6 +221,22 @@ class CircuitSchema(Schema):
         maximum=100,
         metadata={"description": "a known R1+R2 at operating temperature, in place of the conductor calculation"},
     )
+    neutral_csa_mm2 = Number(
+        minimum=0.5,
+        maximum=630,
+        metadata={"description": "for line-neutral faults; default: the line conductor's size"},
+    )
+    installation = fields.Nested(
+        InstallationSchema, metadata={"description": "how the cable is run: with design_current_a, the overload check"}
+    )
+    conditional_short_circuit_ka = Number(
+        minimum=0.1,
+        maximum=200,
+        metadata={
+            "description": "the board's conditional short-circuit rating with its upstream device "
+            "(a consumer unit to BS EN 61439-3 Annex ZB, e.g. 16 kA behind a BS 88-3 cut-out fuse)"
+        },
+    )
 
     @validates_schema
     def complete(self, data, **kwargs):
@@ -180,13 +244,42 @@ class CircuitSchema(Schema):
             raise ValidationError("give the conductors, or a known r1_plus_r2_ohm", "conductors")
         if data.get("role") == "final" and "load" not in data:
             raise ValidationError("a final circuit needs its load: socket-outlets or fixed-equipment", "load")
+        if "neutral_csa_mm2" in data and "conductors" not in data:
+            raise ValidationError("a neutral size needs the conductors", "neutral_csa_mm2")
 
     @post_load
     def make(self, data, **kwargs):
+        neutral = data.pop("neutral_csa_mm2", None)
+        if neutral is not None:
+            data["conductors"] = dataclasses.replace(data["conductors"], neutral_csa_mm2=neutral)
         return Circuit(**data)
 
 
-class CheckRequestSchema(FastSchema):
+def checks_field() -> fields.List:
+    """The request's optional list of the checks the overall verdict must cover."""
+    return fields.List(
+        choice(CHECKS),
+        validate=validate.Length(min=1, max=len(CHECKS)),
+        metadata={
+            "description": "the checks the overall verdict covers (default: every check); the result says which "
+            "in verdict_scope, e.g. an earth-fault-only question: disconnection-time, max-zs, protective-conductor"
+        },
+    )
+
+
+class ScopedSchema(FastSchema):
+    """A request that may name the checks its overall verdict covers."""
+
+    checks = checks_field()
+
+    @validates_schema
+    def checks_once(self, data, **kwargs):
+        repeated = sorted({c for c in data.get("checks", []) if data["checks"].count(c) > 1})
+        if repeated:
+            raise ValidationError(f"each check is named once; repeated: {repeated}", "checks")
+
+
+class CheckRequestSchema(ScopedSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuit = fields.Nested(CircuitSchema, required=True)
 
@@ -221,7 +314,7 @@ class PerItemList(fields.List):
         return out
 
 
-class BatchRequestSchema(FastSchema):
+class BatchRequestSchema(ScopedSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuits = PerItemList(
         fields.Nested(CircuitSchema),
@@ -233,90 +326,4 @@ class BatchRequestSchema(FastSchema):
     )
 
 
-# ---------------------------------------------------------------- responses
-
-
 fastload.register(SupplySchema, CircuitSchema, CheckRequestSchema)
-
-
-class CheckResultSchema(Schema):
-    check = fields.String(required=True, validate=validate.OneOf(CHECKS))
-    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
-    value = nullable_number()
-    limit = nullable_number()
-    unit = fields.String(required=True)
-    margin_percent = nullable_number("(limit - value) / limit x 100; for the cpc, (size - minimum) / size x 100")
-    basis = fields.String(required=True, metadata={"description": "the clause or table the verdict rests on"})
-    note = fields.String(allow_none=True, required=True)
-
-
-class DeviceSummarySchema(Schema):
-    device_id = fields.String(required=True)
-    label = fields.String(required=True)
-    source = fields.String(required=True)
-    confidence = fields.String(required=True)
-    notes = fields.List(fields.String(), required=True)
-
-
-class ProtectiveConductorResultSchema(Schema):
-    k = nullable_number("the k used: tabulated where the case is a table row, else the formula")
-    k_formula = nullable_number("IEC 60364-5-54 Annex A")
-    k_basis = fields.String(allow_none=True, required=True)
-    min_csa_mm2 = nullable_number()
-    csa_mm2 = nullable_number("the cpc in the circuit")
-    next_standard_csa_mm2 = nullable_number()
-    selection_csa_mm2 = nullable_number("BS 7671 Table 54.7")
-    energy_a2s = nullable_number()
-    energy_basis = fields.String(allow_none=True, required=True)
-    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
-    basis = fields.String(required=True)
-
-
-class CircuitResultSchema(Schema):
-    id = fields.String(allow_none=True, required=True)
-    r1_plus_r2_ohm = nullable_number()
-    zs_ohm = fields.Float(required=True)
-    earth_fault_current_a = fields.Float(required=True, metadata={"description": "U0 x Cmin / Zs, Cmin 0.95"})
-    earth_fault_current_nominal_a = fields.Float(required=True, metadata={"description": "U0 / Zs"})
-    prospective_fault_current_ka = fields.Float(required=True)
-    prospective_fault_current_basis = fields.String(required=True)
-    device = fields.Nested(DeviceSummarySchema, required=True)
-    disconnection_time_s = nullable_number("null where no disconnection is shown")
-    disconnection_time_bound = fields.String(required=True, validate=validate.OneOf(BOUNDS))
-    disconnection_region = fields.String(required=True)
-    disconnected_by = fields.String(
-        allow_none=True, required=True, validate=validate.OneOf(["overcurrent-device", "rcd"])
-    )
-    max_disconnection_time_s = nullable_number()
-    max_disconnection_basis = fields.String(required=True)
-    operating_current_a = nullable_number("Ia for the required time")
-    operating_current_bound = fields.String(required=True, validate=validate.OneOf(BOUNDS))
-    max_zs_ohm = nullable_number(
-        "U0 x Cmin / Ia of the overcurrent device; null where its data show no Ia for the time"
-    )
-    zs_margin_percent = nullable_number("(max_zs_ohm - zs_ohm) / max_zs_ohm x 100")
-    rcd_max_zs_ohm = nullable_number("where an RCD is fitted: 50 V / IΔn, the largest Zs (TN) or RA (TT) it protects")
-    protective_conductor = fields.Nested(ProtectiveConductorResultSchema, required=True)
-    checks = fields.List(fields.Nested(CheckResultSchema), required=True)
-    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
-    cautions = fields.List(fields.String(), required=True)
-
-
-class BatchItemSchema(Schema):
-    index = fields.Integer(required=True)
-    id = fields.String(allow_none=True, required=True)
-    result = fields.Nested(CircuitResultSchema, metadata={"description": "present when the item was checked"})
-    problem = fields.Nested(ProblemSchema, metadata={"description": "present when the item could not be checked"})
-
-
-class BatchSummarySchema(Schema):
-    circuits = fields.Integer(required=True)
-    passed = fields.Integer(required=True, data_key=Verdict.PASS)
-    failed = fields.Integer(required=True, data_key=Verdict.FAIL)
-    not_verified = fields.Integer(required=True, data_key=Verdict.NOT_VERIFIED)
-    invalid = fields.Integer(required=True)
-
-
-class BatchResultSchema(Schema):
-    results = fields.List(fields.Nested(BatchItemSchema), required=True)
-    summary = fields.Nested(BatchSummarySchema, required=True)

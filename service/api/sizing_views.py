@@ -9,19 +9,12 @@ from ..electrical import disconnection
 from ..electrical.errors import ElectricalError
 from ..electrical.model import DeviceSpec
 from ..electrical.reach import max_length, size_with_reach
-from ..electrical.sizing import RULED_OUT_ORDER, Demand, Installation
+from ..electrical.sizing import RULED_OUT_ORDER, Demand
 from .base import Blueprint
 from .errors import CoreInputError, json_response
-from .fields import Flag, Number, Text, WholeNumber, choice
-from .schemas import (
-    DEVICE_STANDARDS,
-    DEVICE_TYPES,
-    CircuitResultSchema,
-    CircuitSchema,
-    RcdSchema,
-    SupplySchema,
-    nullable_number,
-)
+from .fields import Number, Text, WholeNumber, choice
+from .result_schemas import CircuitResultSchema, nullable_number
+from .schemas import DEVICE_STANDARDS, DEVICE_TYPES, CircuitSchema, InstallationSchema, RcdSchema, SupplySchema
 
 blp = Blueprint(
     "sizing",
@@ -29,32 +22,6 @@ blp = Blueprint(
     url_prefix="/v1/circuits",
     description="Cable and device sizing, and the longest run that complies",
 )
-
-ALL_METHODS = sorted({m for cable in cap.CABLES for m in cap.methods(cable)})
-
-
-class InstallationSchema(Schema):
-    cable = choice(cap.CABLES, required=True, metadata={"description": "which BS 7671 table: 4D5, 4E4A or 4E1A"})
-    installation_method = choice(ALL_METHODS, required=True, metadata={"description": "a method of that table"})
-    ambient_c = Number(minimum=-10, maximum=60, load_default=30.0)
-    grouping = choice(cap.GROUPINGS, load_default="bunched")
-    grouped_circuits = WholeNumber(minimum=1, maximum=60, load_default=1)
-    thermal_insulation_mm = Number(
-        minimum=0,
-        maximum=2000,
-        load_default=0.0,
-        metadata={"description": "length totally surrounded by insulation (Table 52.2)"},
-    )
-    ground_c = Number(minimum=0, maximum=40, metadata={"description": "method D: ground temperature (default 20)"})
-    soil_resistivity_k_m_per_w = Number(
-        minimum=0.5, maximum=3, metadata={"description": "method D: soil thermal resistivity"}
-    )
-    in_duct = Flag(load_default=False)
-    reactance_mohm_per_m = Number(minimum=0, maximum=1, metadata={"description": "for a drop computed from resistance"})
-
-    @post_load
-    def make(self, data, **kwargs):
-        return Installation(**data)
 
 
 class SizeDeviceSchema(Schema):
@@ -85,6 +52,9 @@ class SizeRequestSchema(Schema):
     device = fields.Nested(
         SizeDeviceSchema, required=True, metadata={"description": "the family; the rating is chosen"}
     )
+    conditional_short_circuit_ka = Number(
+        minimum=0.1, maximum=200, metadata={"description": "the board's conditional short-circuit rating, if any"}
+    )
 
     @validates_schema
     def complete(self, data, **kwargs):
@@ -94,15 +64,10 @@ class SizeRequestSchema(Schema):
             raise ValidationError("a final circuit needs its load: socket-outlets or fixed-equipment", "load")
 
 
-class FactorSchema(Schema):
-    factor = fields.Float(required=True)
-    basis = fields.String(required=True)
-
-
 class CapacitySchema(Schema):
     it_a = fields.Float(required=True, metadata={"description": "tabulated capacity"})
     iz_a = fields.Float(required=True, metadata={"description": "It x Ca x Cg x Ci x Cc"})
-    factors = fields.Dict(keys=fields.String(), values=fields.Nested(FactorSchema), required=True)
+    factors = fields.Dict(keys=fields.String(), values=fields.Nested("FactorSchema"), required=True)
     confidence = fields.String(required=True)
 
 
@@ -187,6 +152,7 @@ def size(body):
         role=body["role"],
         load=body.get("load"),
         id=body.get("id"),
+        conditional_short_circuit_ka=body.get("conditional_short_circuit_ka"),
     )
     try:
         result, reach = size_with_reach(body["supply"], demand, body["installation"], body["device"])

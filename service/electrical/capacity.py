@@ -14,7 +14,9 @@ from typing import Any
 
 from . import conductors as cond
 from .datafiles import core_table
+from .devices import catalogue
 from .errors import InvalidInput, UnknownConductor
+from .model import Installation
 
 CABLES = {
     "flat-twin-earth-70c": "capacity_flat_twin_earth_70c",
@@ -62,6 +64,12 @@ def capacities(cable: str, method: str, phases: int) -> list[TabulatedCapacity]:
         for csa, it, conf in zip(table["csa_mm2"], column, confidence, strict=True)
         if it is not None
     ]
+
+
+@lru_cache(maxsize=256)
+def tabulated(cable: str, method: str, phases: int, csa_mm2: float) -> TabulatedCapacity | None:
+    """The tabulated capacity It of one size (None where the table has no cell for it)."""
+    return next((c for c in capacities(cable, method, phases) if c.csa_mm2 == float(csa_mm2)), None)
 
 
 def ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
@@ -122,11 +130,16 @@ def grouping_factor(arrangement: str, circuits: int) -> tuple[float, str]:
     return float(value), f"BS 7671 Table 4C1, {arrangement}, {circuits} circuits (confidence {confidence})"
 
 
-def thermal_insulation_factor(length_mm: float) -> tuple[float, str]:
-    """Ci for a cable totally surrounded by thermal insulation over ``length_mm`` (BS 7671 Table 52.2)."""
+def thermal_insulation_factor(length_mm: float, csa_mm2: float = 0.0) -> tuple[float, str]:
+    """Ci for a cable totally surrounded by thermal insulation over ``length_mm`` (BS 7671 Table 52.2).
+
+    Table 52.2 covers cables up to 10 mm2; a larger cable totally surrounded takes 0.5 (Appendix 4, from memory).
+    """
     if length_mm <= 0:
         return 1.0, "no thermal insulation"
     table = core_table("correction_factors")["thermal_insulation"]
+    if csa_mm2 > table["largest_csa_mm2"]:
+        return float(table["above_largest_factor"]), table["above_largest_basis"]
     for length, factor, conf in zip(table["lengths_mm"], table["factors"], table["confidence"], strict=True):
         if length_mm <= length:
             conf = "M, from memory" if conf == "M" else conf
@@ -183,3 +196,42 @@ def design_current_a(power_kw: float, power_factor: float, phases: int, u0_v: fl
     if not 0 < power_factor <= 1:
         raise InvalidInput("power_factor", "the power factor is above 0 and at most 1")
     return power_kw * 1000.0 / ((1 if phases == 1 else 3) * u0_v * power_factor)
+
+
+@lru_cache(maxsize=1024)
+def derating(inst: Installation, insulation: str, device_standard: str | None, csa_mm2: float):
+    """Ca x Cg x Ci x Cc for a cable run as ``inst`` (BS 7671 Appendix 4), with each factor's value and basis.
+
+    Ca from the air (Table 4B1) or ground (Table 4B2) temperature, with the soil (Table 4B3) for method D;
+    Cg Table 4C1; Ci Table 52.2 (or 0.5 above 10 mm2); Cc for the device (0.725 for BS 3036).
+    """
+    factors: dict[str, dict[str, Any]] = {}
+    buried = inst.installation_method == "D"
+    if buried:
+        ca, basis = ground_factor(insulation, 20.0 if inst.ground_c is None else inst.ground_c)
+    else:
+        ca, basis = ambient_factor(insulation, inst.ambient_c)
+    factors["ambient"] = {"factor": ca, "basis": basis}
+    if buried and inst.soil_resistivity_k_m_per_w is not None:
+        cs, basis = soil_factor(inst.soil_resistivity_k_m_per_w, inst.in_duct)
+        factors["soil"] = {"factor": cs, "basis": basis}
+    cg, basis = grouping_factor(inst.grouping, inst.grouped_circuits)
+    factors["grouping"] = {"factor": cg, "basis": basis}
+    if inst.thermal_insulation_mm > 0 and inst.installation_method in cable_table(inst.cable).get(
+        "methods_with_insulation_allowed", []
+    ):
+        ci, basis = 1.0, f"method {inst.installation_method} already allows for the insulation"
+    else:
+        ci, basis = thermal_insulation_factor(inst.thermal_insulation_mm, csa_mm2)
+    factors["thermal_insulation"] = {"factor": ci, "basis": basis}
+    cc, basis = catalogue.overload_factor(device_standard)
+    factors["device"] = {"factor": cc, "basis": basis}
+    return math.prod(f["factor"] for f in factors.values()), factors
+
+
+def installed_capacity(
+    inst: Installation, it_a: float, insulation: str, device_standard: str | None, csa_mm2: float = 0.0
+) -> tuple[float, dict[str, dict[str, Any]]]:
+    """Iz = It x Ca x Cg x Ci x Cc (BS 7671 Appendix 4), A, with each factor's value and basis."""
+    product, factors = derating(inst, insulation, device_standard, float(csa_mm2))
+    return it_a * product, factors

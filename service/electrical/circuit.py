@@ -19,6 +19,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from . import verdicts
 from .checks import STEPS, CheckColumns
 from .columns import CircuitColumns, CircuitFailure, columns_of, prepare
 from .errors import InvalidInput
@@ -27,10 +28,7 @@ from .model import Circuit, Supply
 from .response import DeviceResponse, device_response
 from .results import CircuitResult, assemble
 
-CAUTIONS = {
-    "ib-over-in": "The design current exceeds the device rating (Ib <= In, BS 7671:2018 433.1.1).",
-    "r1r2-given": "R1+R2 taken as given: it must be the value at the conductors' operating temperature.",
-}
+CAUTIONS = {"r1r2-given": "R1+R2 taken as given: it must be the value at the conductors' operating temperature."}
 
 
 @dataclass
@@ -48,22 +46,42 @@ def check_columns(cols: CircuitColumns) -> Checked:
     """Run every step of the check over the columns (one formula per step for all circuits)."""
     loop = fault_loop(cols)
     trip = device_response(cols, loop)
-    checks = [step(cols, loop, trip) for step in STEPS]
+    done: dict[str, CheckColumns] = {}
+    for step in STEPS:
+        check = step(cols, loop, trip, done)
+        if check.device_data:
+            _without_dc_data(check, trip.no_dc_data)
+        done[check.check] = check
+    checks = list(done.values())
     cautions = list(loop.cautions) + list(trip.cautions)
     for check in checks:
         cautions.extend(check.cautions)
-    cautions.append((cols.design_current_a > cols.rating_a, CAUTIONS["ib-over-in"]))
     cautions.append((~np.isnan(cols.r1r2_given_ohm), CAUTIONS["r1r2-given"]))
     return Checked(cols, loop, trip, checks, cautions)
 
 
+NO_DC_DATA = "d.c.: the device's data are for a.c.; give the maker's d.c. curve (curve_points) to check this."
+
+
+def _without_dc_data(check: CheckColumns, mask: np.ndarray) -> None:
+    """A check that rests on the device's a.c. data cannot be made on d.c.: not-verified, saying why."""
+    if mask.any():
+        check.verdict = verdicts.where(mask, verdicts.NOT_VERIFIED, check.verdict)
+        check.note = np.where(mask, NO_DC_DATA, check.note).astype(object)
+
+
 def check_circuits(
-    supply: Supply | Sequence[Supply], circuits: Sequence[Circuit]
+    supply: Supply | Sequence[Supply],
+    circuits: Sequence[Circuit],
+    scope: Sequence[str] | None = None,
+    exact: bool = False,
 ) -> list[CircuitResult | CircuitFailure]:
     """Check many circuits as arrays; one result or one failure per circuit, in order.
 
     ``supply`` is one supply for all, or one per circuit. A circuit the rules or the data do not cover
     becomes a :class:`~service.electrical.columns.CircuitFailure` naming its path; the others go on.
+    ``scope`` names the checks the overall verdict covers (all by default); ``exact`` keeps numbers unrounded
+    (for searches that need fine margins).
     """
     supplies = [supply] * len(circuits) if isinstance(supply, Supply) else list(supply)
     if len(supplies) != len(circuits):
@@ -74,18 +92,18 @@ def check_circuits(
         out[failure.index] = failure
     if good:
         cols = columns_of([supplies[i] for i in good], [circuits[i] for i in good])
-        for i, result in zip(good, assemble(check_columns(cols)), strict=True):
+        for i, result in zip(good, assemble(check_columns(cols), scope, exact), strict=True):
             out[i] = result
     return out  # type: ignore[return-value]
 
 
-def check_circuit(supply: Supply, circuit: Circuit) -> CircuitResult:
+def check_circuit(supply: Supply, circuit: Circuit, scope: Sequence[str] | None = None) -> CircuitResult:
     """Check one circuit: :func:`check_circuits` with one element.
 
     Raises the core's typed error (the subclass that stopped it) with its path rooted at ``supply``
     or ``circuit``.
     """
-    result = check_circuits(supply, [circuit])[0]
+    result = check_circuits(supply, [circuit], scope)[0]
     if isinstance(result, CircuitFailure):
         raise result.error(result.path, result.message)
     return result

@@ -16,17 +16,19 @@ from functools import lru_cache
 
 import numpy as np
 
+from . import capacity, disconnection, faults
 from . import conductors as cond
-from . import disconnection, faults
 from .arrays import groups
-from .devices import residual
+from .devices import let_through, residual
 from .devices.base import Device
 from .devices.catalogue import resolve
 from .errors import ElectricalError, InvalidInput
 from .model import Circuit, Supply
 
 # parameters of the rules that come from the supply (the others come from the circuit)
-SUPPLY_PARAMETERS = frozenset({"earthing", "u0_v", "ze_ohm", "c_max", "current_kind", "reduced_low_voltage", "zs_ohm"})
+SUPPLY_PARAMETERS = frozenset(
+    {"earthing", "u0_v", "ze_ohm", "c_max", "current_kind", "reduced_low_voltage", "zs_ohm", "electrode_ohm"}
+)
 
 
 @dataclass(frozen=True)
@@ -42,6 +44,9 @@ class CircuitFailure:
     @property
     def field(self) -> str:
         return ".".join(str(p) for p in self.path)
+
+
+TT_ZE_BELOW_RA = "in TT, ze_ohm is the whole external loop including the electrode: it cannot be below electrode_ohm"
 
 
 def _optional(values: Sequence[float | None]) -> np.ndarray:
@@ -72,11 +77,18 @@ class CircuitColumns:
     conductors: cond.ConductorColumns
     devices: list[Device]
     device_groups: Mapping[Hashable, np.ndarray]
+    energy_groups: Mapping[Hashable, np.ndarray]  # by device and energy-limiting class
+    standard_device: np.ndarray  # a built-in device (its data are the standard's, for a.c.), not a user's curve
+    is_fuse: np.ndarray
+    standard: np.ndarray  # the device's standard (None for a user's curve)
     has_rcd: np.ndarray
     residual_ma: np.ndarray
     rcd_groups: Mapping[Hashable, np.ndarray]
     let_through_a2s: np.ndarray
+    energy_class: list[int | None]
     breaking_capacity_ka: np.ndarray
+    conditional_ka: np.ndarray
+    line_neutral_loop_ohm: np.ndarray
 
     @property
     def n(self) -> int:
@@ -114,13 +126,20 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         conductors=cond.conductor_columns([c.conductors for c in circuits]),
         devices=devices,
         device_groups=device_groups,
+        energy_groups=groups([(c.device.curve_key, c.device.energy_limiting_class) for c in circuits]),
+        standard_device=np.array([d.standard is not None for d in devices], dtype=bool),
+        is_fuse=np.array([d.kind == "fuse" for d in devices], dtype=bool),
+        standard=np.array([d.standard for d in devices], dtype=object),
         has_rcd=np.array([r is not None for r in rcds], dtype=bool),
         residual_ma=np.array([np.inf if r is None else r.residual_current_ma for r in rcds], dtype=float),
         rcd_groups={
             k: v for k, v in groups([(r.residual_current_ma, r.delay) if r else None for r in rcds]).items() if k
         },
         let_through_a2s=_optional([c.device.let_through_a2s for c in circuits]),
+        energy_class=[c.device.energy_limiting_class for c in circuits],
         breaking_capacity_ka=_optional([c.device.breaking_capacity_ka for c in circuits]),
+        conditional_ka=_optional([c.conditional_short_circuit_ka for c in circuits]),
+        line_neutral_loop_ohm=_optional([s.line_neutral_loop_ohm for s in supplies]),
     )
 
 
@@ -150,6 +169,7 @@ def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
         _device_problem(circuit.device),
         None if c is None else _conductor_problem(cond.arrangement(c), c.parallel_cables),
         _rules_problem(supply, circuit.role, circuit.load, circuit.device.rating_a),
+        None if circuit.installation is None else _installation_problem(circuit.installation, circuit.phases),
     ):
         if problem is not None:
             return problem
@@ -160,6 +180,8 @@ def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
 def _device_problem(spec) -> ElectricalError | None:
     try:
         dev = resolve(spec)
+        if spec.energy_limiting_class is not None and spec.energy_limiting_class not in let_through.ENERGY_CLASSES:
+            raise InvalidInput("energy_limiting_class", f"the class is one of {list(let_through.ENERGY_CLASSES)}")
         if spec.rcd is not None:
             residual.rcd_characteristic(spec.rcd.residual_current_ma, spec.rcd.delay)
         if dev.residual and spec.rcd is None:
@@ -179,25 +201,33 @@ def _conductor_problem(arrangement: tuple, parallel_cables: int) -> ElectricalEr
     return None
 
 
+@lru_cache(maxsize=1024)
+def _installation_problem(inst, phases: int) -> ElectricalError | None:
+    """The installation's table, method and factors exist (the overload check reads them)."""
+    try:
+        if phases not in (1, 3):
+            raise InvalidInput("phases", "phases is 1 or 3")
+        capacity.capacities(inst.cable, inst.installation_method, phases)
+        capacity.derating(inst, capacity.cable_table(inst.cable)["insulation"], None, 0.0)
+    except ElectricalError as err:
+        if err.path[0] == "phases":
+            return err.within("circuit")
+        return err.within("circuit", "installation")
+    return None
+
+
 @lru_cache(maxsize=4096)
 def _rules_problem(supply: Supply, role: str, load: str | None, rating_a: float) -> ElectricalError | None:
     for name in ("ze_ohm", "u0_v"):
         if not getattr(supply, name) > 0:
             return InvalidInput(("supply", name), "must be greater than zero")
+    if supply.earthing == "TT" and supply.electrode_ohm is not None and supply.electrode_ohm > supply.ze_ohm:
+        return InvalidInput(("supply", "ze_ohm"), TT_ZE_BELOW_RA)
     try:
         disconnection.max_disconnection_time_s(
-            supply.earthing,
-            supply.u0_v,
-            role,
-            load,
-            rating_a,
-            supply.current_kind,
-            False,
-            supply.reduced_low_voltage,
+            supply.earthing, supply.u0_v, role, load, rating_a, supply.current_kind, False, supply.reduced_low_voltage
         )
-        faults.prospective_fault_current_ka(
-            supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max
-        )
+        faults.check_c_max(faults.c_max_default() if supply.c_max is None else supply.c_max)
     except ElectricalError as err:
         return err.within("supply" if err.path[0] in SUPPLY_PARAMETERS else "circuit")
     return None

@@ -148,6 +148,7 @@ def arrangement(c: Conductors) -> tuple:
         c.cpc_material,
         c.cpc_resistance_mohm_per_m,
         c.bare_condition,
+        c.neutral_csa_mm2,
     )
 
 
@@ -167,6 +168,7 @@ def constants_of(
     cpc_material: str | None,
     cpc_resistance_mohm_per_m: float | None,
     bare_condition: str | None,
+    neutral_csa_mm2: float | None = None,
 ) -> tuple:
     """What a conductor arrangement contributes whatever its length.
 
@@ -174,7 +176,8 @@ def constants_of(
     line conductor, and the k table. The line conductor is taken at its insulation's operating
     temperature; the cpc at the initial temperature of its k case (BS 7671 Tables 54.2-54.6), which is
     the same for a core of the cable. Raises the core's typed errors with a path below the conductors.
-    One lookup per distinct arrangement (the length is not part of the answer).
+    The neutral (for line-neutral faults) is of the line conductor's material and temperature, of
+    ``neutral_csa_mm2`` or the line size. One lookup per distinct arrangement (the length is not part of it).
     """
     cpc_mat = cpc_material or (material if cpc_arrangement in ("in-cable", "separate", "bare") else "steel")
     line_r20 = resistance_mohm_per_m(material, line_csa_mm2, conductor_class, field="line_csa_mm2")
@@ -189,31 +192,50 @@ def constants_of(
             "cpc_resistance_mohm_per_m",
             f"a {cpc_mat} {cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
         )
+    neutral_r20 = line_r20
+    if neutral_csa_mm2 is not None:
+        neutral_r20 = resistance_mohm_per_m(material, neutral_csa_mm2, conductor_class, field="neutral_csa_mm2")
     line_temp = operating_temperature_c(insulation, field="insulation")
     tabulated = np.nan if case["k_tabulated"] is None else case["k_tabulated"]
-    numbers = (line_r20, cpc_r20, line_temp, case["initial_c"], case["k"], case["k_formula"], tabulated, k_line)
+    numbers = (
+        line_r20,
+        cpc_r20,
+        neutral_r20,
+        line_temp,
+        case["initial_c"],
+        case["k"],
+        case["k_formula"],
+        tabulated,
+        k_line,
+    )
     return tuple(float(v) for v in numbers) + (case["table"], cpc_mat)
 
 
-_CONSTANTS = ("line_r20", "cpc_r20", "line_temp", "cpc_temp", "k", "k_formula", "k_tabulated", "k_line")
+_CONSTANTS = ("line_r20", "cpc_r20", "neutral_r20", "line_temp", "cpc_temp", "k", "k_formula", "k_tabulated", "k_line")
 
 
 @dataclass
 class ConductorColumns:
     """The conductors of N circuits as columns (NaN, or None for texts, where a circuit has none).
 
-    ``r1`` and ``r2`` are ohm at the temperatures the rules assume (a quarter of the end-to-end value on
-    a ring); ``line_r20`` and ``cpc_r20`` mohm/m at 20 degC; temperatures degC; ``k`` the cpc's k as used
-    (tabulated where the case is a table row) and ``k_line`` the line conductor's.
+    ``r1``, ``r2`` and ``rn`` (the neutral) are ohm at the temperatures the rules assume (a quarter of the
+    end-to-end value on a ring); ``*_r20`` mohm/m at 20 degC; temperatures degC; ``k`` the cpc's k as used
+    (tabulated where the case is a table row) and ``k_line`` the line conductor's (Table 43.1); sizes
+    mm2 of one cable, ``parallel`` the number of cables, ``length_m`` the route (the whole ring on a ring).
     """
 
     present: np.ndarray
     r1: np.ndarray
     r2: np.ndarray
+    rn: np.ndarray
     line_csa: np.ndarray
     cpc_csa: np.ndarray
+    length_m: np.ndarray
+    parallel: np.ndarray
+    ring: np.ndarray
     line_r20: np.ndarray
     cpc_r20: np.ndarray
+    neutral_r20: np.ndarray
     line_temp: np.ndarray
     cpc_temp: np.ndarray
     k: np.ndarray
@@ -233,9 +255,11 @@ def conductor_columns(items: Sequence[Conductors | None]) -> ConductorColumns:
     """
     n = len(items)
     idx = [i for i, c in enumerate(items) if c is not None]
-    numbers = {name: np.full(n, np.nan) for name in ("r1", "r2", "line_csa", "cpc_csa") + _CONSTANTS}
+    numbers = {name: np.full(n, np.nan) for name in ("r1", "r2", "rn", "line_csa", "cpc_csa", "length_m") + _CONSTANTS}
+    numbers["parallel"] = np.ones(n)
     texts = {name: np.full(n, None, dtype=object) for name in ("k_table", "cpc_material", "line_material")}
     present = np.zeros(n, dtype=bool)
+    ring_flags = np.zeros(n, dtype=bool)
     if idx:
         cs = [items[i] for i in idx]
         constants = [constants_of(*arrangement(c)) for c in cs]
@@ -246,15 +270,19 @@ def conductor_columns(items: Sequence[Conductors | None]) -> ConductorColumns:
             numbers[name][sel] = table[:, j]
         length = np.array([c.length_m for c in cs], dtype=float)
         parallel = np.array([c.parallel_cables for c in cs], dtype=float)
-        ring = ring_factor(np.array([c.ring for c in cs], dtype=bool), length.shape)
-        numbers["r1"][sel] = _resistance(table[:, 0], length, table[:, 2], parallel) * ring
-        numbers["r2"][sel] = _resistance(table[:, 1], length, table[:, 3], parallel) * ring
+        rings = np.array([c.ring for c in cs], dtype=bool)
+        ring = ring_factor(rings, length.shape)
+        line_temp = table[:, _CONSTANTS.index("line_temp")]
+        numbers["r1"][sel] = _resistance(table[:, 0], length, line_temp, parallel) * ring
+        numbers["r2"][sel] = _resistance(table[:, 1], length, table[:, _CONSTANTS.index("cpc_temp")], parallel) * ring
+        numbers["rn"][sel] = _resistance(table[:, 2], length, line_temp, parallel) * ring
+        numbers["length_m"][sel], numbers["parallel"][sel], ring_flags[sel] = length, parallel, rings
         numbers["line_csa"][sel] = [c.line_csa_mm2 for c in cs]
         numbers["cpc_csa"][sel] = [c.cpc_csa_mm2 for c in cs]
         texts["k_table"][sel] = [k[-2] for k in constants]
         texts["cpc_material"][sel] = [k[-1] for k in constants]
         texts["line_material"][sel] = [c.material for c in cs]
-    return ConductorColumns(present=present, **numbers, **texts)
+    return ConductorColumns(present=present, ring=ring_flags, **numbers, **texts)
 
 
 def _resistance(r20: np.ndarray, length: np.ndarray, temperature: np.ndarray, parallel: np.ndarray) -> np.ndarray:
@@ -262,7 +290,7 @@ def _resistance(r20: np.ndarray, length: np.ndarray, temperature: np.ndarray, pa
     return r20 * temperature_multiplier(temperature) * length / 1000.0 / parallel
 
 
-def loop_resistance_per_m(c: Conductors) -> tuple[float, float]:
-    """(R1+R2, R2) in ohm per metre of route at the temperatures the rules assume, for the longest-run search."""
+def loop_resistance_per_m(c: Conductors) -> tuple[float, float, float]:
+    """(R1+R2, R2, R1+Rn) in ohm per metre of route at the temperatures the rules assume (the longest-run search)."""
     cols = conductor_columns([dataclasses.replace(c, length_m=1.0)])
-    return float(cols.r1[0] + cols.r2[0]), float(cols.r2[0])
+    return float(cols.r1[0] + cols.r2[0]), float(cols.r2[0]), float(cols.r1[0] + cols.rn[0])

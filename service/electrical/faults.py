@@ -7,7 +7,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from .arrays import as_float, groups, scalar_io
+from .arrays import as_float, finite_or_none, scalar_io
 from .conductors import conductor_columns
 from .datafiles import core_table
 from .errors import ElectricalError, InvalidInput
@@ -27,8 +27,17 @@ def c_max_default() -> float:
     return float(core_table("voltage_factors")["c_max_default"])
 
 
-def c_max_options() -> list[float]:
-    return [float(c) for c in core_table("voltage_factors")["c_max_options"]]
+def c_max_bounds() -> tuple[float, float]:
+    """The range of cmax at low voltage: 1.05 (+6 % systems) to 1.10 (+10 %), IEC 60909-0 Table 1."""
+    low, high = core_table("voltage_factors")["c_max_range"]
+    return float(low), float(high)
+
+
+def check_c_max(c_max: float) -> None:
+    """cmax within IEC 60909-0's low-voltage range, else InvalidInput naming ``c_max``."""
+    low, high = c_max_bounds()
+    if not low <= c_max <= high:
+        raise InvalidInput("c_max", f"cmax is from {low:g} to {high:g} at low voltage (IEC 60909-0 Table 1)")
 
 
 @scalar_io
@@ -55,47 +64,54 @@ def earth_fault_current_a(u0_v: Any, zs_ohm: Any, voltage_factor: float | None =
     return factor * as_float(u0_v) / zs
 
 
-@scalar_io
-def prospective_fault_current_ka(
-    u0_v: Any, ze_ohm: Any, stated_ka: Any = None, c_max: float | None = None
-) -> np.ndarray:
-    """Largest prospective fault current at the origin, kA, for the breaking-capacity check.
-
-    A stated value (from the distributor or a measurement) is used where given (NaN marks 'not
-    stated' in an array); otherwise U0 x cmax / Ze with cmax 1.10 (or 1.05) from IEC 60909-0
-    Table 1. BS 7671 434.1 asks for the larger of the line-neutral and line-earth values.
-    """
-    factor = c_max_default() if c_max is None else float(c_max)
-    if factor not in c_max_options():
-        raise InvalidInput("c_max", f"cmax is one of {c_max_options()} (IEC 60909-0 Table 1)")
-    calculated = factor * as_float(u0_v) / as_float(ze_ohm) / 1000.0
-    if stated_ka is None:
-        return calculated
-    stated = np.broadcast_to(as_float(stated_ka), calculated.shape)
-    return np.where(np.isnan(stated), calculated, stated)
-
-
-PFC_STATED = "stated in the request"
-PFC_FROM_ZE = "U0 x cmax / Ze with cmax {c_max:g} (IEC 60909-0 Table 1)"
-CAUTION_PFC_FROM_ZE = (
-    "Prospective fault current calculated from Ze; the line-neutral (or three-phase) value may be higher: "
-    "state the larger one."
-)
+BASES = {
+    "stated": "stated in the request",
+    "line-neutral": "U0 x cmax / Zpn, cmax {c_max:g} (IEC 60909-0 Table 1), from the line-neutral loop given",
+    "line-earth": "U0 x cmax / Ze, cmax {c_max:g} (IEC 60909-0 Table 1), the line-earth value",
+    "unknown-tt": "not known: in TT, Ze holds the electrode, so the short-circuit current cannot follow from it",
+    "zpn-given": "the line-neutral loop given",
+    "zpn-from-pfc": "U0 / the stated prospective fault current",
+    "zpn-from-ze": "Ze taken for the line-neutral loop (TN)",
+}
+CAUTIONS = {
+    "pfc-from-ze": (
+        "Prospective fault current calculated from Ze; the line-neutral (or three-phase) value may be higher: "
+        "state the larger one."
+    ),
+    "zpn-from-pfc": (
+        "The line-neutral loop was taken as U0 / the stated prospective fault current. If that is a declared "
+        "maximum rather than a measurement, the real loop is higher and the smallest short-circuit current lower: "
+        "state line_neutral_loop_ohm."
+    ),
+    "zpn-from-ze": (
+        "The line-neutral loop at the origin was taken as Ze (TN: on the safe side where the neutral path is no "
+        "worse than the earth path): state line_neutral_loop_ohm."
+    ),
+}
 
 
 @dataclass
 class FaultLoop:
-    """The earth fault loop of N circuits and the fault currents that follow from it.
+    """The fault loops of N circuits and the fault currents that follow from them (A, ohm, kA).
 
     ``r1r2_ohm``: R1+R2 at the temperatures the rules assume (given, or from the conductors);
-    ``zs_ohm`` = Ze + (R1+R2); ``earth_fault_a`` = U0 x Cmin / Zs; ``earth_fault_nominal_a`` = U0 / Zs;
-    ``pfc_ka``: the largest prospective fault current at the origin, with its basis.
+    ``zs_ohm`` = Ze + (R1+R2); ``earth_fault_a`` = U0 x Cmin / Zs (the smallest, at the far end);
+    ``earth_fault_nominal_a`` = U0 / Zs; ``earth_fault_max_a`` = U0 x cmax / Ze (the largest, at the origin);
+    ``zpn_ohm``: the line-neutral loop at the origin (NaN where it cannot be known);
+    ``line_neutral_min_a`` = U0 x Cmin / (Zpn + R1 + Rn), conductors hot, at the far end (never overestimated);
+    ``line_neutral_max_a``: the largest line-neutral current at the origin (never underestimated);
+    ``pfc_ka``: the larger of line-neutral and line-earth at the origin (434.1), with its basis.
     """
 
     r1r2_ohm: np.ndarray
     zs_ohm: np.ndarray
     earth_fault_a: np.ndarray
     earth_fault_nominal_a: np.ndarray
+    earth_fault_max_a: np.ndarray
+    zpn_ohm: np.ndarray
+    zpn_basis: np.ndarray
+    line_neutral_min_a: np.ndarray
+    line_neutral_max_a: np.ndarray
     pfc_ka: np.ndarray
     pfc_basis: list[str]
     cautions: list[tuple[np.ndarray, str]]
@@ -109,33 +125,102 @@ class FaultLoop:
             "earth_fault_current_nominal_a": self.earth_fault_nominal_a,
             "prospective_fault_current_ka": self.pfc_ka,
             "prospective_fault_current_basis": self.pfc_basis,
+            "line_neutral_loop_ohm": self.zpn_ohm,
+            "min_short_circuit_current_a": self.line_neutral_min_a,
         }
 
 
+def _c_max(cols: CircuitColumns) -> np.ndarray:
+    default = c_max_default()
+    for value in set(cols.c_max):
+        if value is not None:
+            check_c_max(value)
+    return np.array([default if c is None else c for c in cols.c_max], dtype=float)
+
+
+def _line_neutral_origin(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
+    """Zpn at the origin for the smallest fault: given, else U0 / stated PFC, else Ze in TN; NaN in TT otherwise."""
+    given = ~np.isnan(cols.line_neutral_loop_ohm)
+    stated = ~np.isnan(cols.pfc_stated_ka)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        from_pfc = cols.u0_v / (cols.pfc_stated_ka * 1000.0)
+    zpn = np.select([given, stated, ~cols.tt], [cols.line_neutral_loop_ohm, from_pfc, cols.ze_ohm], np.nan)
+    basis = np.select(
+        [given, stated, ~cols.tt], [BASES["zpn-given"], BASES["zpn-from-pfc"], BASES["zpn-from-ze"]], None
+    )
+    return zpn, basis.astype(object)
+
+
+def prospective_fault_current_ka(u0_v: Any, ze_ohm: Any, tt: Any, stated_ka: Any, zpn_ohm: Any, c_max: Any):
+    """The largest prospective fault current at the origin, kA: the larger of line-neutral and line-earth (434.1).
+
+    Candidates: the stated value; U0 x cmax / Zpn where the line-neutral loop is given; U0 x cmax / Ze
+    (line-earth) except in TT, where Ze holds the electrode and says nothing of the short circuit. NaN where
+    none is known. Returns ``(kA, basis, known)``, ``known`` the (3, N) mask of which candidates were there.
+    """
+    u0, ze = as_float(u0_v), as_float(ze_ohm)
+    shape = u0.shape
+    c = np.broadcast_to(as_float(c_max), shape)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        from_zpn = c * u0 / np.broadcast_to(as_float(zpn_ohm), shape)  # NaN where no loop is given
+        line_earth = np.where(np.broadcast_to(np.asarray(tt, dtype=bool), shape), np.nan, c * u0 / ze)
+    candidates = np.vstack([np.broadcast_to(as_float(stated_ka), shape) * 1000.0, from_zpn, line_earth])
+    known = ~np.isnan(candidates)
+    filled = np.where(known, candidates, -np.inf)
+    largest = np.where(known.any(axis=0), filled.max(axis=0), np.nan)
+    names = np.array(["stated", "line-neutral", "line-earth"], dtype=object)[filled.argmax(axis=0)]
+    names = np.where(known.any(axis=0), names, "unknown-tt")
+    basis = [BASES[k].format(c_max=cc) for k, cc in zip(names.tolist(), c.tolist(), strict=True)]
+    return largest / 1000.0, basis, known
+
+
 def fault_loop(cols: CircuitColumns) -> FaultLoop:
-    """Zs, the earth fault currents and the prospective fault current for every circuit (411.4.4, 411.5.4, 434.1)."""
+    """Zs, the earth fault currents, the line-neutral loop and currents, and the prospective fault current.
+
+    BS 7671:2018 411.4.4 / 411.5.4 (Zs), 434.1 (the larger of line-neutral and line-earth), 434.5.2 (the
+    smallest short-circuit current at the far end); IEC 60909-0 voltage factors: Cmin for the smallest
+    currents, cmax for the largest.
+    """
     c = cols.conductors
+    c_max = _c_max(cols)
     r1r2 = np.where(np.isnan(cols.r1r2_given_ohm), c.r1 + c.r2, cols.r1r2_given_ohm)
     zs = cols.ze_ohm + r1r2
     i_nom = cols.u0_v / zs
-    pfc = np.empty(cols.n)
-    for key, idx in groups(cols.c_max).items():
-        pfc[idx] = prospective_fault_current_ka(cols.u0_v[idx], cols.ze_ohm[idx], cols.pfc_stated_ka[idx], key)
-    stated = ~np.isnan(cols.pfc_stated_ka)
-    default = c_max_default()
-    basis = [
-        PFC_STATED if s else PFC_FROM_ZE.format(c_max=cm or default)
-        for s, cm in zip(stated.tolist(), cols.c_max, strict=True)
-    ]
+    ef_max = c_max * cols.u0_v / cols.ze_ohm
+    zpn, zpn_basis = _line_neutral_origin(cols)
+    pfc, basis, known = prospective_fault_current_ka(
+        cols.u0_v, cols.ze_ohm, cols.tt, cols.pfc_stated_ka, cols.line_neutral_loop_ohm, c_max
+    )
+    only_ze = ~known[0] & ~known[1] & known[2]
     return FaultLoop(
         r1r2_ohm=r1r2,
         zs_ohm=zs,
         earth_fault_a=c_min() * i_nom,
         earth_fault_nominal_a=i_nom,
+        earth_fault_max_a=ef_max,
+        zpn_ohm=zpn,
+        zpn_basis=zpn_basis,
+        line_neutral_min_a=c_min() * cols.u0_v / (zpn + c.r1 + c.rn),
+        line_neutral_max_a=pfc * 1000.0,
         pfc_ka=pfc,
         pfc_basis=basis,
-        cautions=[(~stated, CAUTION_PFC_FROM_ZE)],
+        cautions=[
+            (only_ze, CAUTIONS["pfc-from-ze"]),
+            (np.isnan(cols.line_neutral_loop_ohm) & ~np.isnan(cols.pfc_stated_ka), CAUTIONS["zpn-from-pfc"]),
+            (np.isnan(cols.line_neutral_loop_ohm) & np.isnan(cols.pfc_stated_ka) & ~cols.tt, CAUTIONS["zpn-from-ze"]),
+        ],
     )
+
+
+def origin_fault_level_ka(supply: Supply) -> float | None:
+    """:func:`prospective_fault_current_ka` of one supply (None where it cannot be known)."""
+    c_max = c_max_default() if supply.c_max is None else supply.c_max
+    check_c_max(c_max)
+    nan = np.nan
+    stated = nan if supply.prospective_fault_current_ka is None else supply.prospective_fault_current_ka
+    zpn = nan if supply.line_neutral_loop_ohm is None else supply.line_neutral_loop_ohm
+    ka, _, _ = prospective_fault_current_ka(supply.u0_v, supply.ze_ohm, supply.earthing == "TT", stated, zpn, c_max)
+    return finite_or_none(ka[0])
 
 
 FAULT_CURRENT_BASIS = (
@@ -173,9 +258,7 @@ def fault_current(
             raise err.within("conductors") from None
         r1r2 = float(cols.r1[0] + cols.r2[0])
         u0_v, zs_ohm = supply.u0_v, supply.ze_ohm + r1r2
-        pfc = prospective_fault_current_ka(
-            supply.u0_v, supply.ze_ohm, supply.prospective_fault_current_ka, supply.c_max
-        )
+        pfc = origin_fault_level_ka(supply)
     if u0_v is None or zs_ohm is None:
         raise InvalidInput("zs_ohm", "give u0_v and zs_ohm, or a supply and conductors")
     return FaultFigures(

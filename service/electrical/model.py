@@ -16,12 +16,13 @@ class Supply:
     earthing: str
     u0_v: float
     ze_ohm: float
-    prospective_fault_current_ka: float | None = None
+    prospective_fault_current_ka: float | None = None  # the larger of line-neutral and line-earth (434.1)
     c_max: float | None = None
     electrode_ohm: float | None = None
     bonding_complete: bool = False
     current_kind: str = "ac"
     reduced_low_voltage: bool = False
+    line_neutral_loop_ohm: float | None = None  # at the origin, measured or declared
 
 
 @dataclass(frozen=True)
@@ -43,6 +44,7 @@ class DeviceSpec:
     curve_points: tuple[tuple[float, float], ...] | None = None
     rcd: Rcd | None = None
     let_through_a2s: float | None = None
+    energy_limiting_class: int | None = None  # 1, 2 or 3, as marked on a BS EN 60898 / 61009 breaker
 
     @property
     def curve_key(self) -> tuple:
@@ -66,11 +68,28 @@ class Conductors:
     cpc_material: str | None = None
     cpc_resistance_mohm_per_m: float | None = None
     bare_condition: str | None = None
+    neutral_csa_mm2: float | None = None  # default: the line conductor's size
+
+
+@dataclass(frozen=True)
+class Installation:
+    """How the cable is run: the capacity table (cable family) and method, and the factors that reduce it."""
+
+    cable: str
+    installation_method: str
+    ambient_c: float = 30.0
+    grouping: str = "bunched"
+    grouped_circuits: int = 1
+    thermal_insulation_mm: float = 0.0
+    ground_c: float | None = None
+    soil_resistivity_k_m_per_w: float | None = None
+    in_duct: bool = False
+    reactance_mohm_per_m: float | None = None
 
 
 @dataclass(frozen=True)
 class Circuit:
-    """One circuit: its device, its conductors (or a known R1+R2), its role and load."""
+    """One circuit: its device, its conductors (or a known R1+R2), its role and load, and how it is run."""
 
     device: DeviceSpec
     conductors: Conductors | None = None
@@ -79,3 +98,6 @@ class Circuit:
     load: str | None = None
     id: str | None = None
     design_current_a: float | None = None
+    installation: Installation | None = None
+    conditional_short_circuit_ka: float | None = None  # the board's rating with its upstream device (BS EN 61439-3)
+    phases: int = 1

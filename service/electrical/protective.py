@@ -92,28 +92,32 @@ def k_case(
 
 
 @scalar_io
-def fault_energy_a2s(current_a: Any, time_s: Any, let_through_a2s: Any = None) -> tuple[np.ndarray, np.ndarray]:
-    """Energy I^2 t (A^2 s) the protective conductor must withstand, and how it was found.
+def fault_energy_a2s(current_a: Any, time_s: Any, let_through_a2s: Any = None, data_a2s: Any = None):
+    """Energy I^2 t (A^2 s) a conductor must withstand at a fault, and how it was found.
 
-    - 0.1 s <= t <= 5 s: I^2 t (the adiabatic equation's range, BS 7671 543.1.3).
-    - t below 0.1 s (or 'at most 0.1 s'): the device's let-through I^2 t where given; otherwise
-      I^2 x 0.1 s, a stated conservative value (the device clears within 0.1 s at this current).
-    - t above 5 s or no disconnection: NaN (the adiabatic equation does not apply).
+    - 0.1 s < t <= 5 s: I^2 t (the adiabatic equation's range, BS 7671 543.1.3 and 434.5.2): ``adiabatic``.
+    - t at or below 0.1 s (or 'at most 0.1 s'): the device's let-through I^2 t where given (``let-through``);
+      else the standard's limit for the device (``let-through-data``: an energy-limiting class, a gG fuse's
+      operating I2t); else I^2 x 0.1 s, a stated conservative value (``conservative-0.1s``).
+    - t above 5 s or no disconnection: NaN (``outside-adiabatic-range``).
+
+    Returns ``(energy_a2s, method)``.
     """
     i = as_float(current_a)
     t = np.broadcast_to(as_float(time_s), i.shape)
     given = np.broadcast_to(as_float(np.nan if let_through_a2s is None else let_through_a2s), i.shape)
-    energy = i * i * t
-    method = np.full(i.shape, "adiabatic", dtype=object)
+    data = np.broadcast_to(as_float(np.nan if data_a2s is None else data_a2s), i.shape)
     short = t <= ADIABATIC_MIN_S
-    energy = np.where(short & ~np.isnan(given), given, energy)
-    method = np.where(short & ~np.isnan(given), "let-through", method)
-    energy = np.where(short & np.isnan(given), i * i * ADIABATIC_MIN_S, energy)
-    method = np.where(short & np.isnan(given), "conservative-0.1s", method)
     outside = ~np.isfinite(t) | (t > ADIABATIC_MAX_S)
-    energy = np.where(outside, np.nan, energy)
-    method = np.where(outside, "outside-adiabatic-range", method)
+    has_given, has_data = short & ~np.isnan(given), short & ~np.isnan(data)
+    conditions = [outside, has_given, has_data, short]
+    energy = np.select(conditions, [np.nan, given, data, i * i * ADIABATIC_MIN_S], i * i * t)
+    method = np.select(conditions, list(ENERGY_METHODS[1:]), ENERGY_METHODS[0])
     return energy, method.astype(object)
+
+
+ENERGY_METHODS = ("adiabatic", "outside-adiabatic-range", "let-through", "let-through-data", "conservative-0.1s")
+STAND_IN_METHODS = ("let-through-data", "conservative-0.1s")  # limits, not the device's own figure
 
 
 @scalar_io

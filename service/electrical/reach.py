@@ -9,14 +9,18 @@ the checks changes sign is found by Brent's method (scipy.optimize.brentq) on th
 from __future__ import annotations
 
 import dataclasses
+import math
 from typing import Any
 
 import numpy as np
 
+from . import precision
 from .circuit import check_circuits
 from .columns import CircuitFailure
 from .conductors import loop_resistance_per_m
+from .devices.catalogue import resolve
 from .errors import InvalidInput
+from .faults import c_min
 from .model import Circuit, Conductors, DeviceSpec, Supply
 from .results import CircuitResult
 from .sizing import (
@@ -33,6 +37,7 @@ from .sizing import (
 from .verdicts import Verdict
 
 MAX_LENGTH_M = 5000.0
+MAX_FAULT_TIME_S = 5.0
 
 
 def size_with_reach(
@@ -57,6 +62,9 @@ def size_with_reach(
         load=demand.load,
         id=chosen.id,
         design_current_a=result.design_current_a,
+        installation=inst,
+        phases=demand.phases,
+        conditional_short_circuit_ka=demand.conditional_short_circuit_ka,
     )
     return result, max_length(supply, circuit, inst, demand)
 
@@ -74,12 +82,12 @@ def ruling(
         for L in np.atleast_1d(lengths)
     ]
     out = []
-    for L, outcome in zip(np.atleast_1d(lengths), check_circuits(supply, items), strict=True):
+    for L, outcome in zip(np.atleast_1d(lengths), check_circuits(supply, items, exact=True), strict=True):
         if isinstance(outcome, CircuitFailure):
             out.append((outcome.field, -1.0))
             continue
         vd = None if vd_at_1m is None else dict(vd_at_1m, percent=vd_at_1m["percent"] * L)
-        out.append((ruled_out_by(outcome, None, 0.0, vd)[0], _smallest_margin(outcome, vd)))
+        out.append((ruled_out_by(outcome, vd)[0], _smallest_margin(outcome, vd)))
     return out
 
 
@@ -103,12 +111,22 @@ def max_length(
 ) -> dict[str, Any]:
     """The longest run (m) that keeps every check passing, and the check that limits it.
 
-    Closed form for the loop impedance, L = (max Zs - Ze) / (r1+r2 per metre), and for the voltage
-    drop, L = limit x U / (mV/A/m x Ib); then confirmed by the whole check. Where another check binds
-    first (the adiabatic check under a fuse, a breaker's instantaneous limit), the length where the
-    smallest margin of the checks changes sign is found by Brent's method (scipy.optimize.brentq) on
-    the whole check. ``inst`` and ``demand`` add the voltage drop rule.
+    Closed form for the loop impedance, L = (max Zs - Ze) / (r1+r2 per metre), for the voltage drop,
+    L = limit x U / (mV/A/m x Ib), and for the far end's line-neutral fault, L = (U0 Cmin / Ia(5 s) - Zpn) /
+    (r1+rn per metre); then confirmed by the whole check. Where another check binds first (the adiabatic check
+    under a fuse, a breaker's instantaneous limit), the length where the smallest margin of the checks changes
+    sign is found by Brent's method (scipy.optimize.brentq) on the whole check. ``inst`` and ``demand`` add
+    the voltage drop rule. Lengths to the centimetre, the longest run rounded down (never past the boundary).
     """
+    found = _max_length(supply, circuit, inst, demand)
+    if found["max_length_m"] is not None:
+        found["max_length_m"] = math.floor(found["max_length_m"] * 100) / 100
+    return precision.rounded_record(found)
+
+
+def _max_length(
+    supply: Supply, circuit: Circuit, inst: Installation | None = None, demand: Demand | None = None
+) -> dict[str, Any]:
     if circuit.conductors is None:
         raise InvalidInput(("circuit", "conductors"), "the longest run needs the conductors")
     candidates, vd_1m = _closed_forms(supply, circuit, inst, demand)
@@ -179,9 +197,11 @@ def _boundary(judge, lo: float, hi: float) -> float:
 
 def _closed_forms(supply: Supply, circuit: Circuit, inst: Installation | None, demand: Demand | None):
     """The closed-form lengths (max Zs, voltage drop) and the voltage drop of one metre, where asked for."""
-    per_m, r2_per_m = loop_resistance_per_m(circuit.conductors)
+    per_m, r2_per_m, line_neutral_per_m = loop_resistance_per_m(circuit.conductors)
     at_zero = check_circuits(
-        supply, [dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=0.0))]
+        supply,
+        [dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=0.0))],
+        exact=True,
     )[0]
     if isinstance(at_zero, CircuitFailure):
         raise at_zero.error(at_zero.path, at_zero.message)
@@ -195,6 +215,12 @@ def _closed_forms(supply: Supply, circuit: Circuit, inst: Installation | None, d
         candidates["max-zs"] = (
             (zs_limit - supply.electrode_ohm) / r2_per_m if by_ra else (zs_limit - supply.ze_ohm) / per_m
         )
+    in_5s, _ = resolve(circuit.device).current_for(MAX_FAULT_TIME_S)
+    if at_zero.line_neutral_loop_ohm is not None and np.isfinite(in_5s):
+        # the far end's line-neutral fault must operate the device within 5 s (434.5.2)
+        candidates["short-circuit"] = (
+            c_min() * supply.u0_v / in_5s - at_zero.line_neutral_loop_ohm
+        ) / line_neutral_per_m
     ib = circuit.design_current_a if demand is None or demand.design_current_a is None else demand.design_current_a
     vd_1m = None
     if inst is not None and demand is not None and ib:

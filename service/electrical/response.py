@@ -12,10 +12,10 @@ from typing import Any
 
 import numpy as np
 
-from . import disconnection, verdicts
+from . import disconnection, protective, verdicts
 from .arrays import finite_or_none
 from .columns import CircuitColumns
-from .devices import residual
+from .devices import catalogue, residual
 from .devices.catalogue import resolve
 from .devices.characteristic import BEYOND_DATA, ESTIMATED, bound_names
 from .errors import ElectricalError
@@ -23,14 +23,61 @@ from .faults import FaultLoop
 from .limits import max_zs_for_current_ohm
 from .model import DeviceSpec
 
-CAUTION_ESTIMATED = (
-    "A figure rests on an estimated part of the device's curve; a maker's curve (curve_points) removes the estimate."
-)
+CAUTIONS = {
+    "estimated": (
+        "A figure rests on an estimated part of the device's curve; a maker's curve (curve_points) removes the "
+        "estimate."
+    ),
+    "class-assumed": (
+        "The breaker's energy-limiting class was not given: class 3 was taken, as nearly every breaker on the UK "
+        "market is marked (common practice). Confirm the marking (device.energy_limiting_class)."
+    ),
+    "dc-data": (
+        "d.c. circuit: the device's data here are for a.c.; the checks that rest on them need the maker's d.c. "
+        "curve (curve_points), and a general-purpose RCD does not respond to smooth d.c."
+    ),
+}
+
+
+@dataclass
+class FaultEnergy:
+    """The overcurrent device at one fault current per circuit: its time and bound, and the energy I^2 t
+    (A^2 s) it lets through, with how that was found (:func:`service.electrical.protective.fault_energy_a2s`)."""
+
+    current_a: np.ndarray
+    time_s: np.ndarray
+    bound: np.ndarray
+    energy_a2s: np.ndarray
+    method: np.ndarray
+    data_basis: np.ndarray  # where the energy is the standard's limit: which (class, gG table)
+    class_assumed: np.ndarray  # the energy rests on the default class, not a marking given
+
+
+def fault_energy(cols: CircuitColumns, current_a: np.ndarray) -> FaultEnergy:
+    """Read each circuit's overcurrent device at ``current_a`` (A; NaN where the current is not known)."""
+    n = cols.n
+    known = np.isfinite(current_a)
+    current = np.where(known, current_a, 1.0)
+    t, b = np.empty(n), np.empty(n, np.int8)
+    data, basis = np.full(n, np.nan), np.full(n, None, dtype=object)
+    for (_, energy_class), idx in cols.energy_groups.items():
+        dev = cols.devices[idx[0]]
+        t[idx], b[idx] = dev.characteristic.time_codes(current[idx])
+        data[idx], basis[idx] = catalogue.let_through(dev, current[idx], energy_class)
+    energy, method = protective.fault_energy_a2s(current, t, cols.let_through_a2s, data)
+    energy = np.where(known, energy, np.nan)
+    method = np.where(known, method, None).astype(object)
+    from_data = method == "let-through-data"
+    assumed = from_data & ~cols.is_fuse & np.array([c is None for c in cols.energy_class], dtype=bool)
+    basis = np.where(from_data, basis, None).astype(object)
+    return FaultEnergy(
+        np.where(known, current_a, np.nan), np.where(known, t, np.nan), b, energy, method, basis, assumed
+    )
 
 
 @dataclass
 class DeviceResponse:
-    """The devices' answer to each circuit's earth fault (times s, currents A, impedances ohm, bounds as codes)."""
+    """The devices' answer to each circuit's faults (times s, currents A, impedances ohm, bounds as codes)."""
 
     required_oc_s: np.ndarray  # the maximum time for the overcurrent device (TN times in a bonded TT installation)
     required_oc_basis: np.ndarray
@@ -48,12 +95,18 @@ class DeviceResponse:
     rcd_verdict: np.ndarray
     rcd_limit_ohm: np.ndarray  # 50 V / IΔn, NaN without an RCD
     rcd_loop_ohm: np.ndarray  # what the 50 V rule judges: RA in TT (Zs where RA is not given), Zs in TN
+    rcd_credited: np.ndarray  # an RCD that can disconnect this fault (fitted, and not on d.c.)
     by_rcd: np.ndarray  # the RCD disconnects where the overcurrent device cannot
     time_s: np.ndarray
     bound: np.ndarray
     required_s: np.ndarray
     required_basis: np.ndarray
     zs_ohm: np.ndarray
+    no_dc_data: np.ndarray  # d.c. with a device whose data are for a.c.
+    cpc_far: FaultEnergy  # the overcurrent device at the smallest earth fault (far end)
+    cpc_near: FaultEnergy  # at the largest earth fault (origin)
+    live_far: FaultEnergy  # at the smallest line-neutral fault (far end)
+    live_near: FaultEnergy  # at the largest line-neutral fault (origin)
     cautions: list[tuple[np.ndarray, str]]
 
     def figures(self) -> dict[str, Any]:
@@ -76,13 +129,9 @@ class DeviceResponse:
         }
 
 
-def device_response(cols: CircuitColumns, loop: FaultLoop) -> DeviceResponse:
-    """Times, Ia and max Zs of the overcurrent device, the RCD's times and limit, and which one disconnects."""
+def _overcurrent(cols: CircuitColumns, i_f: np.ndarray, req_oc: np.ndarray):
+    """The overcurrent device at the earth fault current: time, bound, region, and Ia for the required time."""
     n = cols.n
-    args = (cols.earthing, cols.u0_v, cols.role, cols.load, cols.rating_a, cols.current_kind)
-    req_oc, basis_oc = disconnection.max_disconnection_time_s(*args, cols.tt & cols.bonded, cols.reduced_low_voltage)
-    req_rcd, basis_rcd = disconnection.max_disconnection_time_s(*args, False, cols.reduced_low_voltage)
-    i_f = loop.earth_fault_a
     oc_t, oc_b, ia, ia_b = np.empty(n), np.empty(n, np.int8), np.empty(n), np.empty(n, np.int8)
     region = np.empty(n, dtype=object)
     for idx in cols.device_groups.values():
@@ -90,15 +139,43 @@ def device_response(cols: CircuitColumns, loop: FaultLoop) -> DeviceResponse:
         oc_t[idx], oc_b[idx] = dev.characteristic.time_codes(i_f[idx])
         region[idx] = np.array(dev.region_names(), dtype=object)[dev.region_codes(i_f[idx])]
         ia[idx], ia_b[idx] = dev.characteristic.current_codes(np.nan_to_num(req_oc[idx], nan=np.inf))
-    rcd_t, rcd_b = np.full(n, np.inf), np.full(n, BEYOND_DATA, np.int8)
+    return oc_t, oc_b, region, ia, ia_b
+
+
+def _residual(cols: CircuitColumns, i_f: np.ndarray):
+    rcd_t, rcd_b = np.full(cols.n, np.inf), np.full(cols.n, BEYOND_DATA, np.int8)
     for (ma, delay), idx in cols.rcd_groups.items():
         rcd_t[idx], rcd_b[idx] = residual.rcd_characteristic(ma, delay).time_codes(i_f[idx])
-    rcd_limit = np.where(cols.has_rcd, residual.rcd_max_loop_ohm(cols.residual_ma), np.nan)
+    return rcd_t, rcd_b
+
+
+def device_response(cols: CircuitColumns, loop: FaultLoop) -> DeviceResponse:
+    """Times, Ia and max Zs of the overcurrent device, the RCD's times and limit, which one disconnects, and
+    the overcurrent device's energies at the smallest and largest earth and line-neutral faults."""
+    args = (cols.earthing, cols.u0_v, cols.role, cols.load, cols.rating_a, cols.current_kind)
+    req_oc, basis_oc = disconnection.max_disconnection_time_s(*args, cols.tt & cols.bonded, cols.reduced_low_voltage)
+    req_rcd, basis_rcd = disconnection.max_disconnection_time_s(*args, False, cols.reduced_low_voltage)
+    i_f = loop.earth_fault_a
+    oc_t, oc_b, region, ia, ia_b = _overcurrent(cols, i_f, req_oc)
+    rcd_t, rcd_b = _residual(cols, i_f)
+    no_dc_data = (cols.current_kind == "dc") & cols.standard_device
+    credited = cols.has_rcd & (cols.current_kind != "dc")
     ra = np.where(np.isnan(cols.electrode_ohm), loop.zs_ohm, cols.electrode_ohm + np.nan_to_num(cols.conductors.r2))
     v_oc = disconnection.time_verdicts(oc_t, oc_b, req_oc)
-    v_rcd = np.where(cols.has_rcd, disconnection.time_verdicts(rcd_t, rcd_b, req_rcd), verdicts.NOT_VERIFIED)
-    by_rcd = cols.has_rcd & (v_oc != verdicts.PASS) & (v_rcd == verdicts.PASS)
+    v_rcd = np.where(credited, disconnection.time_verdicts(rcd_t, rcd_b, req_rcd), verdicts.NOT_VERIFIED)
+    by_rcd = credited & (v_oc != verdicts.PASS) & (v_rcd == verdicts.PASS)
     bound = np.where(by_rcd, rcd_b, oc_b)
+    energies = {
+        name: fault_energy(cols, current)
+        for name, current in (
+            ("cpc_far", i_f),
+            ("cpc_near", loop.earth_fault_max_a),
+            ("live_far", loop.line_neutral_min_a),
+            ("live_near", loop.line_neutral_max_a),
+        )
+    }
+    estimated = (bound == ESTIMATED) | (ia_b == ESTIMATED) | (energies["live_far"].bound == ESTIMATED)
+    assumed = np.any([e.class_assumed for e in energies.values()], axis=0)
     return DeviceResponse(
         required_oc_s=req_oc,
         required_oc_basis=basis_oc,
@@ -114,15 +191,22 @@ def device_response(cols: CircuitColumns, loop: FaultLoop) -> DeviceResponse:
         rcd_time_s=rcd_t,
         rcd_bound=rcd_b,
         rcd_verdict=v_rcd.astype(np.int8),
-        rcd_limit_ohm=rcd_limit,
+        rcd_limit_ohm=np.where(cols.has_rcd, residual.rcd_max_loop_ohm(cols.residual_ma), np.nan),
         rcd_loop_ohm=np.where(cols.tt, ra, loop.zs_ohm),
+        rcd_credited=credited,
         by_rcd=by_rcd,
         time_s=np.where(by_rcd, rcd_t, oc_t),
         bound=bound,
         required_s=np.where(by_rcd, req_rcd, req_oc),
         required_basis=np.where(by_rcd, basis_rcd, basis_oc),
         zs_ohm=loop.zs_ohm,
-        cautions=[((bound == ESTIMATED) | (ia_b == ESTIMATED), CAUTION_ESTIMATED)],
+        no_dc_data=no_dc_data,
+        **energies,
+        cautions=[
+            (estimated, CAUTIONS["estimated"]),
+            (assumed, CAUTIONS["class-assumed"]),
+            (no_dc_data, CAUTIONS["dc-data"]),
+        ],
     )
 
 

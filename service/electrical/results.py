@@ -7,13 +7,13 @@ columns; renaming an output is a change to this class and to the stage that comp
 
 from __future__ import annotations
 
-from collections.abc import Mapping
+from collections.abc import Mapping, Sequence
 from dataclasses import dataclass, field, fields
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from . import verdicts
+from . import precision, verdicts
 from .verdicts import Verdict
 
 if TYPE_CHECKING:
@@ -62,9 +62,14 @@ class CircuitResult:
     max_zs_ohm: float | None
     zs_margin_percent: float | None
     rcd_max_zs_ohm: float | None
+    line_neutral_loop_ohm: float | None
+    min_short_circuit_current_a: float | None
     protective_conductor: dict[str, Any]
+    short_circuit: dict[str, Any]
+    overload: dict[str, Any]
     checks: list[Check]
     verdict: Verdict
+    verdict_scope: dict[str, list[str]]
     cautions: list[str] = field(default_factory=list)
 
     def check(self, name: str) -> Check | None:
@@ -75,15 +80,23 @@ class CircuitResult:
 FIGURES = tuple(f.name for f in fields(CircuitResult))
 
 
-def lists_of(columns: Mapping[str, Any]) -> dict[str, list[Any]]:
+def lists_of(columns: Mapping[str, Any], exact: bool = True, rules: Mapping[str, Any] | None = None) -> dict[str, list]:
     """Each column as a list: floats with None where NaN or infinite (JSON has neither), texts as they are.
 
-    All float columns go through numpy together: one conversion for the lot, whatever the count of circuits.
+    Unless ``exact``, numbers are rounded by their unit (:mod:`service.electrical.precision`; ``rules``
+    gives the rule of a column whose name carries no unit). All float columns go through numpy together.
     """
     numeric = [name for name, col in columns.items() if isinstance(col, np.ndarray) and col.dtype.kind in "fiu"]
     converted: dict[str, list[Any]] = {}
     if numeric:
-        stacked = np.vstack([np.asarray(columns[name], dtype=float) for name in numeric])
+        stacked = np.vstack(
+            [
+                np.asarray(columns[name], dtype=float)
+                if exact
+                else precision.rounded(columns[name], (rules or {}).get(name) or precision.rule_for(name))
+                for name in numeric
+            ]
+        )
         lists = stacked.tolist()
         for r, c in zip(*np.nonzero(~np.isfinite(stacked)), strict=True):
             lists[r][c] = None
@@ -94,9 +107,10 @@ def lists_of(columns: Mapping[str, Any]) -> dict[str, list[Any]]:
     }
 
 
-def _check_records(check: CheckColumns, n: int) -> list[Check | None]:
+def _check_records(check: CheckColumns, n: int, exact: bool) -> list[Check | None]:
     """One :class:`Check` per circuit where the check applies (None elsewhere)."""
     v = verdicts.decode(check.verdict)
+    unit = precision.rule_for_unit(check.unit)
     cells = lists_of(
         {
             "value": check.value,
@@ -104,7 +118,9 @@ def _check_records(check: CheckColumns, n: int) -> list[Check | None]:
             "margin": check.margin_percent,
             "basis": check.basis,
             "note": check.note,
-        }
+        },
+        exact,
+        {"value": unit, "limit": unit, "margin": precision.RULES["margin_percent"]},
     )
     applies = [True] * n if check.applies is None else np.asarray(check.applies, dtype=bool).tolist()
     return [
@@ -124,8 +140,8 @@ def _check_records(check: CheckColumns, n: int) -> list[Check | None]:
     ]
 
 
-def _detail_records(columns: Mapping[str, Any], n: int) -> list[dict[str, Any]]:
-    cells = lists_of({k: v for k, v in columns.items() if k != "verdict"})
+def _detail_records(columns: Mapping[str, Any], n: int, exact: bool) -> list[dict[str, Any]]:
+    cells = lists_of({k: v for k, v in columns.items() if k != "verdict"}, exact)
     names = list(cells)
     rows = [dict(zip(names, row, strict=True)) for row in zip(*(cells[name] for name in names), strict=True)]
     rows = rows or [{} for _ in range(n)]
@@ -142,17 +158,43 @@ def _cautions(checked: Checked) -> list[list[str]]:
     return out
 
 
-def assemble(checked: Checked) -> list[CircuitResult]:
-    """One :class:`CircuitResult` per circuit, in order, from the pipeline's arrays."""
+def _scope(checked: Checked, scope: Sequence[str] | None) -> tuple[np.ndarray, list[dict[str, list[str]]]]:
+    """Overall verdict codes over the checks in scope (all where ``scope`` is None), and what each covered."""
+    n = checked.cols.n
+    applies = [np.ones(n, bool) if c.applies is None else np.asarray(c.applies, bool) for c in checked.checks]
+    inside = [scope is None or c.check in scope for c in checked.checks]
+    codes = np.vstack(
+        [
+            np.where(a & wanted, c.verdict, verdicts.PASS)
+            for c, a, wanted in zip(checked.checks, applies, inside, strict=True)
+        ]
+    ).max(axis=0)
+    table = np.vstack(applies)
+    scopes = []
+    for i in range(n):
+        names = [c.check for c, row in zip(checked.checks, table[:, i], strict=True) if row]
+        scopes.append(
+            {
+                "covered": [x for x in names if scope is None or x in scope],
+                "left_out": [x for x in names if scope is not None and x not in scope],
+            }
+        )
+    return codes, scopes
+
+
+def assemble(checked: Checked, scope: Sequence[str] | None = None, exact: bool = False) -> list[CircuitResult]:
+    """One :class:`CircuitResult` per circuit, in order, from the pipeline's arrays.
+
+    The overall verdict covers every check, or those named in ``scope`` (each result says which in
+    ``verdict_scope``). Numbers are rounded to what the data support, unless ``exact``.
+    """
     cols = checked.cols
     n = cols.n
-    figures = lists_of({**checked.loop.figures(), **checked.trip.figures()})
+    figures = lists_of({**checked.loop.figures(), **checked.trip.figures()}, exact)
     names = list(figures)
-    per_check = [_check_records(c, n) for c in checked.checks]
-    details = {c.detail[0]: _detail_records(c.detail[1], n) for c in checked.checks if c.detail is not None}
-    codes = np.vstack(
-        [np.where(c.applies if c.applies is not None else True, c.verdict, verdicts.PASS) for c in checked.checks]
-    ).max(axis=0)
+    per_check = [_check_records(c, n, exact) for c in checked.checks]
+    details = {c.detail[0]: _detail_records(c.detail[1], n, exact) for c in checked.checks if c.detail is not None}
+    codes, scopes = _scope(checked, scope)
     overall = verdicts.decode(codes)
     summaries = {id(d): d.summary() for d in {id(d): d for d in cols.devices}.values()}
     cautions = _cautions(checked)
@@ -163,6 +205,7 @@ def assemble(checked: Checked) -> list[CircuitResult]:
             device=summaries[id(dev)],
             checks=[c[i] for c in per_check if c[i] is not None],
             verdict=overall[i],
+            verdict_scope=scopes[i],
             cautions=cautions[i],
             **{key: details[key][i] for key in details},
             **dict(zip(names, row, strict=True)),

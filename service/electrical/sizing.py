@@ -18,40 +18,26 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from . import capacity as cap
+from . import precision
 from .circuit import check_circuits
 from .columns import CircuitFailure
 from .devices import catalogue
 from .errors import ElectricalError, InvalidInput, NoRule
-from .model import Circuit, Conductors, DeviceSpec, Supply
+from .model import Circuit, Conductors, DeviceSpec, Installation, Supply
 from .protective import selection_csa_mm2
 from .results import CircuitResult
 from .verdicts import Verdict
 
+# what rules a size out, in the order tried; breaking capacity is the device's, not the cable's, and never does
 RULED_OUT_ORDER = (
     "capacity",
     "voltage-drop",
     "disconnection-time",
     "max-zs",
+    "short-circuit",
     "protective-conductor",
     "rcd",
-    "breaking-capacity",
 )
-
-
-@dataclass(frozen=True)
-class Installation:
-    """How the cable is run: the table and method, and the factors that reduce its capacity."""
-
-    cable: str
-    installation_method: str
-    ambient_c: float = 30.0
-    grouping: str = "bunched"
-    grouped_circuits: int = 1
-    thermal_insulation_mm: float = 0.0
-    ground_c: float | None = None
-    soil_resistivity_k_m_per_w: float | None = None
-    in_duct: bool = False
-    reactance_mohm_per_m: float | None = None
 
 
 @dataclass(frozen=True)
@@ -69,6 +55,7 @@ class Demand:
     role: str = "final"
     load: str | None = None
     id: str | None = None
+    conditional_short_circuit_ka: float | None = None  # the board's rating with its upstream device
 
 
 INSTALLATION_FIELDS = frozenset(f.name for f in dataclasses.fields(Installation))
@@ -121,37 +108,6 @@ def design_current(demand: Demand, u0_v: float) -> float:
     return cap.design_current_a(demand.power_kw, demand.power_factor, demand.phases, u0_v)
 
 
-def installed_capacity(
-    inst: Installation, it_a: float, insulation: str, device_standard: str | None
-) -> tuple[float, dict[str, dict[str, Any]]]:
-    """Iz = It x Ca x Cg x Ci x Cc (BS 7671 Appendix 4), with each factor's value and basis."""
-    factors: dict[str, dict[str, Any]] = {}
-    buried = inst.installation_method == "D"
-    if buried:
-        ca, basis = cap.ground_factor(insulation, 20.0 if inst.ground_c is None else inst.ground_c)
-    else:
-        ca, basis = cap.ambient_factor(insulation, inst.ambient_c)
-    factors["ambient"] = {"factor": ca, "basis": basis}
-    if buried and inst.soil_resistivity_k_m_per_w is not None:
-        cs, basis = cap.soil_factor(inst.soil_resistivity_k_m_per_w, inst.in_duct)
-        factors["soil"] = {"factor": cs, "basis": basis}
-    cg, basis = cap.grouping_factor(inst.grouping, inst.grouped_circuits)
-    factors["grouping"] = {"factor": cg, "basis": basis}
-    table = cap.cable_table(inst.cable)
-    if inst.thermal_insulation_mm > 0 and inst.installation_method in table.get("methods_with_insulation_allowed", []):
-        factors["thermal_insulation"] = {
-            "factor": 1.0,
-            "basis": f"method {inst.installation_method} already allows for the insulation",
-        }
-    else:
-        ci, basis = cap.thermal_insulation_factor(inst.thermal_insulation_mm)
-        factors["thermal_insulation"] = {"factor": ci, "basis": basis}
-    cc, basis = catalogue.overload_factor(device_standard)
-    factors["device"] = {"factor": cc, "basis": basis}
-    iz = it_a * math.prod(f["factor"] for f in factors.values())
-    return iz, factors
-
-
 def cpc_for(cable: str, line_csa_mm2: float) -> float:
     """The cpc a cable family gives: its own (twin and earth), a core (multicore), or Table 54.7 (single-core)."""
     rule = cap.cable_table(cable)["cpc"]
@@ -166,25 +122,28 @@ def cpc_for(cable: str, line_csa_mm2: float) -> float:
 
 
 def ruled_out_by(
-    result: CircuitResult, iz: float | None, in_a: float, vd: dict[str, Any] | None
+    result: CircuitResult, vd: dict[str, Any] | None, lenient: frozenset[str] = frozenset()
 ) -> tuple[str | None, float | None, float | None, str | None]:
-    """The first check, in RULED_OUT_ORDER, that rules this circuit out (fail, or not-verified for fault checks).
+    """The first rule, in RULED_OUT_ORDER, that rules this circuit out: the overload check (``capacity``), the
+    voltage drop, then the fault checks (fail, or not-verified unless the check is in ``lenient``).
 
-    Returns ``(check, value, limit, unit)``, all None where nothing rules it out.
+    Returns ``(rule, value, limit, unit)``, all None where nothing rules it out.
     """
-    if iz is not None and in_a > iz * (1 + 1e-12):
-        return "capacity", in_a, iz, "A"
+    capacity = result.check("overload")
+    if capacity is not None and capacity.verdict == Verdict.FAIL:
+        return "capacity", capacity.value, capacity.limit, capacity.unit
     if vd is not None and vd["percent"] > vd["limit_percent"] * (1 + 1e-12):
         return "voltage-drop", vd["percent"], vd["limit_percent"], "%"
     for name in RULED_OUT_ORDER[2:]:
         c = result.check(name)
-        if c is not None and rules_out(c.check, c.verdict):
+        if c is not None and rules_out(c.check, c.verdict, lenient):
             return name, c.value, c.limit, c.unit
     return None, None, None, None
 
 
-def rules_out(name: str, verdict: str) -> bool:
-    return verdict == Verdict.FAIL or (verdict == Verdict.NOT_VERIFIED and name != "breaking-capacity")
+def rules_out(name: str, verdict: str, lenient: frozenset[str] = frozenset()) -> bool:
+    """A fault check rules a size out when it fails, or cannot be shown (unless it is lenient)."""
+    return verdict == Verdict.FAIL or (verdict == Verdict.NOT_VERIFIED and name not in lenient)
 
 
 def voltage_drop(
@@ -212,7 +171,8 @@ def voltage_drop(
 
 
 def _candidates(supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec, ib: float):
-    """The circuits to try, one per tabulated size with a cpc, and the size rows beside them."""
+    """The circuits to try, one per tabulated size with a cpc (each with its installation and Ib, so the
+    pipeline's overload check judges its capacity), and the size rows beside them."""
     in_a = _rating(device, ib)
     spec = dataclasses.replace(device, rating_a=in_a)
     insulation = cap.cable_table(inst.cable)["insulation"]
@@ -231,6 +191,9 @@ def _candidates(supply: Supply, demand: Demand, inst: Installation, device: Devi
                 load=demand.load,
                 id=demand.id,
                 design_current_a=ib,
+                installation=inst,
+                phases=demand.phases,
+                conditional_short_circuit_ka=demand.conditional_short_circuit_ka,
             )
         )
         rows.append((size, cpc))
@@ -247,56 +210,82 @@ def _rating(device: DeviceSpec, ib: float) -> float:
 def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec) -> SizingResult:
     """The smallest device rating >= Ib and the smallest line conductor and cpc that pass every check.
 
-    Every size is checked at once through the array path; capacity Iz = It x factors >= In (433.1.1) and
-    the voltage drop (Appendix 4, 6.4) are judged beside the fault checks. Each smaller size is reported
-    with the check that ruled it out.
+    Every size is checked at once through the array path: the overload check (Ib <= In <= Iz, 433.1.1), the
+    voltage drop (Appendix 4, 6.4) and the fault checks. Each smaller size is reported with the rule that
+    ruled it out. A fault check that cannot be shown for any size (the data are missing, not the copper)
+    does not rule sizes out: a caution says so.
     """
     ib = design_current(demand, supply.u0_v)
     with installation_paths():
         in_a, insulation, circuits, rows = _candidates(supply, demand, inst, device, ib)
-        derating, factors = installed_capacity(inst, 1.0, insulation, device.standard)  # the same for every size
+        outcomes = check_circuits(supply, circuits)
+        drops = [voltage_drop(inst, demand, size.csa_mm2, ib, supply.u0_v, demand.length_m) for size, _ in rows]
+    lenient = _never_shown(outcomes)
     tried: list[SizeTried] = []
     selected = None
-    for (size, cpc), outcome in zip(rows, check_circuits(supply, circuits), strict=True):
+    for (size, cpc), outcome, vd in zip(rows, outcomes, drops, strict=True):
         if isinstance(outcome, CircuitFailure):
             tried.append(SizeTried(size.csa_mm2, cpc, Verdict.NOT_VERIFIED, outcome.field, None, None, None))
             continue
-        iz = size.it_a * derating
-        with installation_paths():
-            vd = voltage_drop(inst, demand, size.csa_mm2, ib, supply.u0_v, demand.length_m)
-        name, value, limit, unit = ruled_out_by(outcome, iz, in_a, vd)
+        name, value, limit, unit = ruled_out_by(outcome, vd, lenient)
+        vd = precision.rounded_record(vd)
         if name is None:
+            overload = outcome.overload
+            capacity = Capacity(
+                overload["it_a"], overload["iz_a"], overload["factors"], overload["capacity_confidence"]
+            )
             selected = {
                 "line_csa_mm2": size.csa_mm2,
                 "cpc_csa_mm2": cpc,
                 "material": "copper",
                 "insulation": insulation,
-                "capacity": Capacity(size.it_a, iz, factors, size.confidence),
+                "capacity": capacity,
                 "voltage_drop": vd,
                 "check": outcome,
             }
             break
+        rule = precision.rule_for_unit(unit) if unit != "%" else precision.RULES["percent"]
+        value, limit = (None if v is None else float(precision.rounded(v, rule)) for v in (value, limit))
         tried.append(SizeTried(size.csa_mm2, cpc, Verdict.FAIL, name, value, limit, unit))
     return SizingResult(
         design_current_a=ib,
         device={"standard": device.standard, "type": device.type, "rating_a": in_a},
         selected=selected,
         tried=tried,
-        cautions=_sizing_cautions(selected, inst, factors),
+        cautions=_sizing_cautions(selected, inst, lenient, outcomes),
+    )
+
+
+def _never_shown(outcomes: list) -> frozenset[str]:
+    """The fault checks that are not-verified for every size tried (the data, not the size, are missing)."""
+    results = [o for o in outcomes if not isinstance(o, CircuitFailure)]
+    names = RULED_OUT_ORDER[2:]
+    return frozenset(
+        n
+        for n in names
+        if results and all((c := r.check(n)) is not None and c.verdict == Verdict.NOT_VERIFIED for r in results)
     )
 
 
 def _sizing_cautions(
-    selected: dict[str, Any] | None, inst: Installation, factors: dict[str, dict[str, Any]]
+    selected: dict[str, Any] | None, inst: Installation, lenient: frozenset[str], outcomes
 ) -> list[str]:
-    if selected is None:
-        return ["No tabulated size passes every check for this load, length and installation."]
     out = []
-    if "M" in selected["capacity"].confidence:
+    for name in sorted(lenient):
+        note = next(
+            (c.note for o in outcomes if not isinstance(o, CircuitFailure) for c in o.checks if c.check == name), None
+        )
+        out.append(
+            f"The {name} check cannot be shown for any size from the data given ({note}); sizes were not ruled "
+            "out by it."
+        )
+    if selected is None:
+        return out + ["No tabulated size passes every check for this load, length and installation."]
+    if "M" in (selected["capacity"].confidence or ""):
         out.append(
             f"The capacity of {selected['line_csa_mm2']:g} mm2 by method {inst.installation_method} is from memory "
             "(unverified): confirm it in BS 7671 before relying on it."
         )
-    if any("from memory" in f["basis"] for f in factors.values()):
+    if any("from memory" in f["basis"] for f in (selected["capacity"].factors or {}).values()):
         out.append("A correction factor used is from memory (unverified): see the factors' bases.")
     return out

@@ -11,13 +11,16 @@
 
 from __future__ import annotations
 
+import dataclasses
 from dataclasses import dataclass, field
 from typing import Any
 
+from . import precision
 from .circuit import check_circuits
 from .columns import CircuitFailure
 from .conductors import operating_temperature_c, temperature_multiplier
 from .datafiles import core_table, device_table
+from .devices import residual
 from .errors import InvalidInput
 from .limits import measured_limit_ohm
 from .model import Circuit, Supply
@@ -94,9 +97,37 @@ def judge_zs(ctx: Context) -> list[Judgement]:
         f"design maximum Zs {ctx.max_zs_ohm:.3f} ohm scaled by {ctx.ratio:.3f} for conductors at {m.temperature_c:g} "
         f"degC instead of {ctx.operating_c:g} degC; the 0.8 rule (common practice) shown beside it"
     )
-    return [
-        Judgement("zs", PASS if m.zs_ohm <= limit else FAIL, m.zs_ohm, limit, "ohm", basis, rule_of_thumb_limit=rule)
-    ]
+    note = STABLE_NOTE if m.zs_ohm > residual.stable_resistance_limit_ohm() else None
+    verdict = PASS if m.zs_ohm <= limit else FAIL
+    return [Judgement("zs", verdict, m.zs_ohm, limit, "ohm", basis, note, rule_of_thumb_limit=rule)]
+
+
+CONTINUITY_FACTOR = 1.5  # common practice: a TN loop reading this far above the design's points to the cpc path
+
+
+def judge_zs_continuity(ctx: Context) -> list[Judgement]:
+    """TN: a measured Zs far above what the design's conductors give points to an open or high-resistance cpc.
+
+    The loop is metallic all the way in TN, so the reading should be near Ze + (R1+R2) at the measuring
+    temperature; more than 1.5 times that fails, whatever an RCD would tolerate (common practice). Above
+    200 ohm the reading may not be stable (note to BS 7671:2018 Table 41.5).
+    """
+    m, design = ctx.measured, ctx.design.r1_plus_r2_ohm
+    if m.zs_ohm is None or ctx.supply.earthing == "TT" or design is None:
+        return []
+    expected = ctx.supply.ze_ohm + design * ctx.ratio
+    limit = CONTINUITY_FACTOR * expected
+    note = STABLE_NOTE if m.zs_ohm > residual.stable_resistance_limit_ohm() else None
+    basis = (
+        f"TN: Ze {ctx.supply.ze_ohm:g} ohm + design R1+R2 {design:.4f} ohm x {ctx.ratio:.3f} = {expected:.4f} ohm at "
+        f"{m.temperature_c:g} degC; a reading above {CONTINUITY_FACTOR:g} times that points to an open or "
+        "high-resistance protective conductor (common practice)"
+    )
+    verdict = PASS if m.zs_ohm <= limit else FAIL
+    return [Judgement("zs-continuity", verdict, m.zs_ohm, limit, "ohm", basis, note)]
+
+
+STABLE_NOTE = "Above 200 ohm a loop reading may not be stable (note to BS 7671:2018 Table 41.5)."
 
 
 def judge_r1_plus_r2(ctx: Context) -> list[Judgement]:
@@ -184,7 +215,7 @@ def judge_polarity(ctx: Context) -> list[Judgement]:
     return [Judgement("polarity", PASS if confirmed else FAIL, None, None, "", "BS 7671:2018 643.6, polarity")]
 
 
-JUDGES = (judge_zs, judge_r1_plus_r2, judge_insulation, judge_rcd_times, judge_polarity)
+JUDGES = (judge_zs, judge_zs_continuity, judge_r1_plus_r2, judge_insulation, judge_rcd_times, judge_polarity)
 CAUTION_TABLE_64 = "The insulation resistance minimum is from memory (BS 7671 Table 64, unverified)."
 
 
@@ -200,12 +231,37 @@ def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured)
     if m.insulation_resistance_megohm is not None:
         cautions.append(CAUTION_TABLE_64)
     verdict = overall(j.verdict for j in out)
-    return VerificationResult(circuit.id, ctx.max_zs_ohm, design.r1_plus_r2_ohm, theta_op, out, verdict, cautions)
+    ohm = precision.rule_for_unit("ohm")
+    return VerificationResult(
+        circuit.id,
+        _round(ctx.max_zs_ohm, ohm),
+        _round(design.r1_plus_r2_ohm, ohm),
+        theta_op,
+        [_rounded(j) for j in out],
+        verdict,
+        cautions,
+    )
+
+
+def _round(value: float | None, rule) -> float | None:
+    return None if value is None else float(precision.rounded(value, rule))
+
+
+def _rounded(j: Judgement) -> Judgement:
+    """A judgement's numbers to the precision of its unit (DESIGN.md conventions)."""
+    rule = precision.rule_for_unit(j.unit)
+    return dataclasses.replace(
+        j,
+        measured=_round(j.measured, rule),
+        limit=_round(j.limit, rule),
+        rule_of_thumb_limit=_round(j.rule_of_thumb_limit, rule),
+        corrected_value=_round(j.corrected_value, rule),
+    )
 
 
 def verify(supply: Supply, items: list[tuple[Circuit, Measured]]) -> list[VerificationResult | CircuitFailure]:
     """Judge each circuit's measurements; the design limits come from the same whole check (array path)."""
-    designs = check_circuits(supply, [c for c, _ in items])
+    designs = check_circuits(supply, [c for c, _ in items], exact=True)
     out: list[VerificationResult | CircuitFailure] = []
     for index, ((circuit, measured), design) in enumerate(zip(items, designs, strict=True)):
         if isinstance(design, CircuitFailure):

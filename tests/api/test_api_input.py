@@ -187,3 +187,22 @@ def test_batch_streams_ndjson_in_order(client):
     assert lines[3] == {"summary": {"circuits": 3, "pass": 2, "fail": 0, "not-verified": 0, "invalid": 1}}
     plain = client.post("/v1/circuits/check-batch", json=body).get_json()
     assert [line for line in lines[:3]] == plain["results"]
+
+
+def test_tt_ze_below_the_electrode_names_both_fields(client):
+    bad = json.loads(json.dumps(EXAMPLE))
+    bad["supply"] = {"earthing": "TT", "u0_v": 230, "ze_ohm": 0.8, "electrode_ohm": 100}
+    body = assert_problem(client.post("/v1/circuits/check", json=bad), 422)
+    assert {"/supply/ze_ohm", "/supply/electrode_ohm"} <= {e["pointer"] for e in body["errors"]}
+
+
+def test_an_unknown_check_or_energy_class_is_422(client):
+    bad = json.loads(json.dumps(EXAMPLE))
+    bad["checks"] = ["earthing"]
+    assert_problem(client.post("/v1/circuits/check", json=bad), 422, "/checks/0")
+    bad = json.loads(json.dumps(EXAMPLE))
+    bad["circuit"]["device"]["energy_limiting_class"] = 4
+    assert_problem(client.post("/v1/circuits/check", json=bad), 422, "/circuit/device/energy_limiting_class")
+    bad = json.loads(json.dumps(EXAMPLE))
+    bad["circuit"]["installation"]["installation_method"] = "E"  # not a method of Table 4D5
+    assert_problem(client.post("/v1/circuits/check", json=bad), 422, "/circuit/installation/installation_method")

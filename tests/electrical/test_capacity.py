@@ -94,3 +94,11 @@ def test_unknown_keys_name_their_field():
     assert err.value.path == ("line_csa_mm2",)
     with pytest.raises(InvalidInput):
         cap.ambient_factor("thermoplastic-70", 75)
+
+
+def test_table_52_2_stops_at_10_mm2():
+    # BS 7671 Table 52.2 covers cables up to 10 mm2; above, a cable totally surrounded takes 0.5 (Appendix 4,
+    # from memory)
+    assert cap.thermal_insulation_factor(100, 10)[0] == 0.78
+    factor, basis = cap.thermal_insulation_factor(100, 16)
+    assert factor == 0.5 and "up to 10 mm2" in basis

@@ -84,8 +84,15 @@ def test_ring_loop_value_is_a_quarter_of_the_end_to_end_sum():
 
 def test_loop_resistance_per_metre():
     # 4/1.5 mm2 at 70 degC: (4.61 + 12.1) x 1.20 / 1000 ohm per metre (IEC 60228, BS 7671 Appendix 3 multiplier)
-    per_m, r2 = cond.loop_resistance_per_m(Conductors("copper", "thermoplastic-70", 4, 1.5, 35))
+    per_m, r2, line_neutral = cond.loop_resistance_per_m(Conductors("copper", "thermoplastic-70", 4, 1.5, 35))
     assert per_m == pytest.approx(16.71 * 1.2 / 1000) and r2 == pytest.approx(12.1 * 1.2 / 1000)
+    assert line_neutral == pytest.approx(2 * 4.61 * 1.2 / 1000)  # the neutral is the line conductor's size
+
+
+def test_a_reduced_neutral_raises_the_line_neutral_loop():
+    # 16 mm2 line with a 10 mm2 neutral: Rn = 1.83 x 1.2 x 10 / 1000 (IEC 60228)
+    cols = cond.conductor_columns([Conductors("copper", "thermoplastic-70", 16, 6, 10, neutral_csa_mm2=10)])
+    assert cols.rn[0] == pytest.approx(1.83 * 1.2 * 10 / 1000) and cols.r1[0] == pytest.approx(1.15 * 1.2 * 10 / 1000)
 
 
 def test_constants_name_the_field_at_fault():

@@ -1,5 +1,6 @@
 """Loop impedance and fault currents."""
 
+import numpy as np
 import pytest
 
 from service.electrical import faults
@@ -17,13 +18,38 @@ def test_loop_impedance_is_ze_plus_r1r2():
     assert faults.loop_impedance_ohm(0.35, [0.1, 0.2]).tolist() == pytest.approx([0.45, 0.55])
 
 
-def test_prospective_fault_current_stated_or_from_ze():
-    # IEC 60909-0 Table 1: cmax 1.10 (or 1.05) at low voltage
-    assert faults.prospective_fault_current_ka(230, 0.35) == pytest.approx(230 * 1.1 / 0.35 / 1000)
-    assert faults.prospective_fault_current_ka(230, 0.35, c_max=1.05) == pytest.approx(230 * 1.05 / 0.35 / 1000)
-    assert faults.prospective_fault_current_ka(230, 0.35, 1.6) == 1.6
+def test_prospective_fault_current_is_the_largest_known_and_never_from_ze_in_tt():
+    # BS 7671:2018 434.1: the larger of line-neutral and line-earth; IEC 60909-0 Table 1: cmax 1.10 (or 1.05)
+    nan = float("nan")
+    ka, basis, _ = faults.prospective_fault_current_ka(
+        [230] * 4, [0.35] * 4, [False, False, False, True], [nan, 1.6, nan, nan], [nan, nan, 0.2, nan], 1.1
+    )
+    assert ka[0] == pytest.approx(1.1 * 230 / 0.35 / 1000)  # TN: the line-earth value
+    assert ka[1] == 1.6 and "stated" in basis[1]  # stated and larger
+    assert ka[2] == pytest.approx(1.1 * 230 / 0.2 / 1000) and "line-neutral" in basis[2]
+    assert np.isnan(ka[3]) and "TT" in basis[3]  # TT with only Ze: not known
+    assert faults.origin_fault_level_ka(Supply("TN-S", 230, 0.35, c_max=1.05)) == pytest.approx(
+        1.05 * 230 / 0.35 / 1000
+    )
     with pytest.raises(InvalidInput):
-        faults.prospective_fault_current_ka(230, 0.35, c_max=1.2)
+        faults.check_c_max(1.2)
+
+
+def test_the_line_neutral_loop_for_the_smallest_short_circuit():
+    # given; else U0 / stated PFC; else (TN) Ze on the safe side; in TT with neither, not known
+    from service.electrical.columns import columns_of
+    from service.electrical.model import Circuit, DeviceSpec
+
+    supplies = [
+        Supply("TN-S", 230, 0.35, line_neutral_loop_ohm=0.25),
+        Supply("TN-S", 230, 0.35, 2.0),
+        Supply("TN-S", 230, 0.35),
+        Supply("TT", 230, 21, electrode_ohm=20),
+    ]
+    device = DeviceSpec(rating_a=16, standard="BS EN 60898", type="B")
+    cols = columns_of(supplies, [Circuit(device=device, r1_plus_r2_ohm=0.1, load="fixed-equipment")] * 4)
+    loop = faults.fault_loop(cols)
+    assert loop.zpn_ohm[:3].tolist() == pytest.approx([0.25, 230 / 2000, 0.35]) and np.isnan(loop.zpn_ohm[3])
 
 
 def test_zero_loop_is_rejected():

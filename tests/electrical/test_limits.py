@@ -15,13 +15,16 @@ TABLE_41_3 = {
     "C": {6: 3.64, 10: 2.19, 16: 1.37, 20: 1.09, 25: 0.87, 32: 0.68, 40: 0.55, 50: 0.44, 63: 0.35},
     "D": {6: 1.82, 10: 1.09, 16: 0.68, 20: 0.55, 25: 0.44, 32: 0.34, 40: 0.27, 50: 0.22, 63: 0.17},
 }
+# BS 7671:2018+A2 Table 41.3, type D at 5 s: Ia = 10 In (one public reproduction, confidence S): D10 2.19 ohm
+TABLE_41_3_D_5S = {6: 3.64, 10: 2.19, 16: 1.37, 20: 1.09, 25: 0.87, 32: 0.68, 40: 0.55, 50: 0.44, 63: 0.35}
 
 
 @pytest.mark.parametrize("standard", ["BS EN 60898", "BS EN 61009"])
 @pytest.mark.parametrize("type_", ["B", "C", "D"])
 @pytest.mark.parametrize("time_s", [0.4, 5.0])
 def test_breaker_max_zs_table_41_3(standard, type_, time_s):
-    for rating, published in TABLE_41_3[type_].items():
+    table = TABLE_41_3_D_5S if (type_, time_s) == ("D", 5.0) else TABLE_41_3[type_]
+    for rating, published in table.items():
         dev = resolve(DeviceSpec(rating_a=rating, standard=standard, type=type_))
         _, bound, zs = max_zs_ohm(dev, time_s, 230)
         assert zs == pytest.approx(published, abs=0.01), (type_, rating, time_s)  # BS 7671:2018 Table 41.3

@@ -20,4 +20,5 @@ def test_results_carry_every_field_and_only_the_checks_that_apply():
     assert oven.check("rcd") is None and ring.check("rcd") is not None
     assert oven.cautions[:3] == list(GENERAL_CAUTIONS)
     assert oven.protective_conductor["verdict"] == "pass" and oven.rcd_max_zs_ohm is None
-    assert oven.verdict == "pass" and ring.device["device_id"] == "bs-en-61009-b"
+    assert oven.verdict == "not-verified"  # no design current or installation: overload cannot be checked
+    assert oven.check("overload").verdict == "not-verified" and ring.device["device_id"] == "bs-en-61009-b"

@@ -11,10 +11,11 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from service.electrical import capacity as cap
+from service.electrical.capacity import installed_capacity
 from service.electrical.circuit import check_circuit
 from service.electrical.errors import InvalidInput
-from service.electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
-from service.electrical.sizing import Demand, Installation, installed_capacity, size_circuit
+from service.electrical.model import Circuit, Conductors, DeviceSpec, Installation, Rcd, Supply
+from service.electrical.sizing import Demand, size_circuit
 
 STORE = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.35, prospective_fault_current_ka=1.6)
 
@@ -36,7 +37,8 @@ def test_store_sockets_sizing_by_hand():
     # 24 A of sockets 35 m away in clipped twin and earth, B-type: In = 25 A (first rating >= 24 A)
     # 1.5 mm2: It 20 A < In 25 A -> capacity; 2.5 mm2: 18 mV/A/m x 24 A x 35 m = 15.12 V = 6.57 % > 5 % -> voltage drop
     # 4 mm2: 11 x 24 x 35 / 1000 = 9.24 V = 4.02 %; R1+R2 = (4.61 + 12.1) x 1.2 x 35 / 1000 = 0.70182 ohm
-    # Zs = 1.05182 ohm <= 0.95 x 230 / 125 = 1.748 ohm; If = 207.7 A; cpc sqrt(207.7^2 x 0.1) / 115 = 0.571 <= 1.5 mm2
+    # Zs = 1.05182 ohm <= 0.95 x 230 / 125 = 1.748 ohm; If = 207.7 A, within 0.1 s: class 3 lets through at most
+    # 18 000 A2s (BS EN 60898-1 Annex ZA, tests/data, from memory), cpc sqrt(18 000) / 115 = 1.167 <= 1.5 mm2
     r = size_circuit(
         STORE,
         Demand(length_m=35, design_current_a=24, load="socket-outlets"),
@@ -45,14 +47,13 @@ def test_store_sockets_sizing_by_hand():
     )
     assert r.device["rating_a"] == 25
     assert [(t.line_csa_mm2, t.ruled_out_by) for t in r.tried] == [(1.5, "capacity"), (2.5, "voltage-drop")]
-    assert r.tried[1].value == pytest.approx(15.12 / 230 * 100)
+    assert r.tried[1].value == pytest.approx(15.12 / 230 * 100, abs=0.01)
     s = r.selected
     assert (s["line_csa_mm2"], s["cpc_csa_mm2"]) == (4.0, 1.5)
-    assert s["voltage_drop"]["percent"] == pytest.approx(9.24 / 230 * 100)
-    assert s["check"].r1_plus_r2_ohm == pytest.approx(0.70182) and s["check"].verdict == "pass"
-    assert s["check"].protective_conductor["min_csa_mm2"] == pytest.approx(
-        math.sqrt((218.5 / 1.05182) ** 2 * 0.1) / 115
-    )
+    assert s["voltage_drop"]["percent"] == pytest.approx(9.24 / 230 * 100, abs=0.01)
+    assert s["check"].r1_plus_r2_ohm == pytest.approx(0.70182, abs=1e-4) and s["check"].verdict == "pass"
+    assert s["check"].protective_conductor["min_csa_mm2"] == pytest.approx(math.sqrt(18_000) / 115, abs=1e-3)
+    assert s["capacity"].it_a == 37 and s["capacity"].iz_a == 37  # Table 4D5 4 mm2 clipped (from memory), no factor
     assert any("from memory" in c for c in r.cautions)  # Table 4D5 4 mm2 C is not sourced
 
 
@@ -83,7 +84,8 @@ def test_the_size_passes_and_the_next_smaller_fails(ib, length, device, cable, z
         assert all(t.ruled_out_by for t in r.tried)
         return
     assert r.selected["check"].verdict in ("pass", "not-verified")
-    assert all(c.verdict == "pass" for c in r.selected["check"].checks if c.check != "breaking-capacity")
+    failing = [(c.check, c.verdict, c.note) for c in r.selected["check"].checks if c.verdict != "pass"]
+    assert all(name == "breaking-capacity" or any(name in k for k in r.cautions) for name, _, _ in failing), failing
     assert r.selected["capacity"].iz_a >= r.device["rating_a"]
     if r.tried:
         # the next smaller size, checked again on its own: one of capacity, voltage drop or a fault check fails
@@ -137,3 +139,21 @@ def test_an_installation_error_names_the_installation_field():
             DeviceSpec(rating_a=1, standard="BS 88-3"),
         )
     assert err.value.path == ("installation", "installation_method")
+
+
+def test_a_breaking_capacity_shortfall_is_the_devices_not_the_cables():
+    # a 6 kA breaker where 16 kA is declared: no cable size cures it, so sizes are not ruled out by it; in a
+    # consumer unit with a 16 kA conditional rating (BS EN 61439-3 Annex ZB, 536.4.203) it passes
+    declared = Supply("TN-C-S", 230, 0.05, prospective_fault_current_ka=16, line_neutral_loop_ohm=0.05)
+    device = DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6, energy_limiting_class=3)
+    demand = Demand(length_m=20, design_current_a=14, load="socket-outlets")
+    plain = size_circuit(declared, demand, Installation("flat-twin-earth-70c", "C"), device)
+    assert plain.selected is not None and plain.selected["check"].check("breaking-capacity").verdict == "fail"
+    in_unit = size_circuit(
+        declared,
+        dataclasses.replace(demand, conditional_short_circuit_ka=16),
+        Installation("flat-twin-earth-70c", "C"),
+        device,
+    )
+    assert in_unit.selected["line_csa_mm2"] == plain.selected["line_csa_mm2"]
+    assert in_unit.selected["check"].check("breaking-capacity").verdict == "pass"

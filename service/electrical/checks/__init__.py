@@ -1,7 +1,7 @@
 """The checks of a circuit, one step each, in the order results list them.
 
-A step takes the circuit columns, the fault loop and the devices' response and returns a
-:class:`~service.electrical.checks.base.CheckColumns`. Adding a check is one function (in a module
+A step takes the circuit columns, the fault loop, the devices' response and the checks made before it,
+and returns a :class:`~service.electrical.checks.base.CheckColumns`. Adding a check is one function (in a module
 of its own here, with its clause texts beside it) and one entry in :data:`STEPS`.
 """
 
@@ -11,10 +11,22 @@ from .base import CheckColumns, Step
 from .breaking_capacity import breaking_capacity
 from .disconnection_time import disconnection_time
 from .max_zs import max_zs
+from .overload import overload
 from .protective_conductor import protective_conductor
 from .rcd import rcd
+from .short_circuit import short_circuit
 
-STEPS: tuple[Step, ...] = (disconnection_time, max_zs, protective_conductor, breaking_capacity, rcd)
+# the order results list them; a step may read the checks before it (the cpc's Table 54.7 alternative
+# stands only where the short-circuit check shows the line conductor protected)
+STEPS: tuple[Step, ...] = (
+    disconnection_time,
+    max_zs,
+    short_circuit,
+    protective_conductor,
+    breaking_capacity,
+    overload,
+    rcd,
+)
 CHECKS: tuple[str, ...] = tuple(step.check_name for step in STEPS)  # type: ignore[attr-defined]
 
 __all__ = ["CHECKS", "STEPS", "CheckColumns", "Step"]

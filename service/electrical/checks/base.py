@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from collections.abc import Callable, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any
 
@@ -33,7 +33,8 @@ class CheckColumns:
     in ``unit``, margin, the clause each verdict rests on, a note, and where the check applies.
 
     ``detail`` optionally names a sub-object of the circuit result and its columns (the protective
-    conductor's k, energy and sizes); ``cautions`` are (mask, text) pairs added to the results.
+    conductor's k, energy and sizes); ``cautions`` are (mask, text) pairs added to the results;
+    ``device_data`` marks a check that rests on the overcurrent device's a.c. data.
     """
 
     check: str
@@ -47,13 +48,15 @@ class CheckColumns:
     margin_percent: np.ndarray | None = None
     detail: tuple[str, dict[str, Any]] | None = None
     cautions: list[tuple[np.ndarray, str]] = field(default_factory=list)
+    device_data: bool = False  # rests on the overcurrent device's (a.c.) data: not-verified on d.c. without d.c. data
 
     def __post_init__(self) -> None:
         if self.margin_percent is None:
             self.margin_percent = margin_percent(self.value, self.limit)
 
 
-Step = Callable[["CircuitColumns", "FaultLoop", "DeviceResponse"], CheckColumns]
+Earlier = Mapping[str, CheckColumns]  # the checks computed before this one, by name
+Step = Callable[["CircuitColumns", "FaultLoop", "DeviceResponse", Earlier], CheckColumns]
 
 
 def check_step(name: str) -> Callable[[Step], Step]:

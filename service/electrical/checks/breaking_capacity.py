@@ -1,6 +1,9 @@
-"""The breaking-capacity check: the device's rated short-circuit capacity against the prospective fault current.
+"""The breaking-capacity check: the device's capacity against the prospective fault current (BS 7671:2018 434.5.1).
 
-BS 7671:2018 434.5.1. A fuse without a stated capacity takes its family's published minimum (from memory).
+The prospective fault current is the larger of line-neutral and line-earth at the origin (434.1), never
+derived from Ze in TT. A device without a stated capacity takes its family's smallest standard value (from
+memory). Where the board states a conditional short-circuit rating with its upstream device (a consumer
+unit to BS EN 61439-3 Annex ZB, 536.4.203), the device may be used up to that rating.
 """
 
 from __future__ import annotations
@@ -11,21 +14,34 @@ from .. import verdicts
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
-from .base import CheckColumns, check_step
+from .base import CheckColumns, Earlier, check_step, pick
 
-BASIS = "BS 7671:2018 434.5.1, rated breaking capacity >= prospective fault current"
+BASES = {
+    "rated": "BS 7671:2018 434.5.1, rated breaking capacity >= prospective fault current",
+    "conditional": (
+        "BS 7671:2018 434.5.1 and 536.4.203: the board's conditional short-circuit rating with its upstream device "
+        "(BS EN 61439-3 Annex ZB) >= prospective fault current"
+    ),
+}
 NOTES = {
     "not-given": "State the device's rated short-circuit capacity (breaking_capacity_ka).",
     "default": "Rated breaking capacity not given: taken as the {basis}.",
+    "default-short": (
+        "Rated breaking capacity not given, and the standard's smallest value is below the prospective fault current: "
+        "state the device's rated capacity (breaking_capacity_ka)."
+    ),
+    "no-pfc": (
+        "The prospective fault current is not known: in TT it cannot follow from Ze. State the measured prospective "
+        "fault current or the line-neutral loop impedance."
+    ),
+    "dc": "d.c.: state the device's d.c. breaking capacity (the standard minimums here are for a.c.).",
 }
 CAUTION_MEMORY = (
     "Breaking capacity taken from a standard minimum that is from memory: confirm it from the maker's data."
 )
 
 
-@check_step("breaking-capacity")
-def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckColumns:
-    """Pass where the rated (or minimum) breaking capacity is at least the prospective fault current at the origin."""
+def _defaults(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
     default = np.full(cols.n, np.nan)
     note = np.full(cols.n, None, dtype=object)
     for idx in cols.device_groups.values():
@@ -33,19 +49,41 @@ def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
         if dev.default_breaking_capacity_ka is not None:
             default[idx] = dev.default_breaking_capacity_ka
             note[idx] = NOTES["default"].format(basis=dev.default_breaking_capacity_basis)
+    return default, note
+
+
+@check_step("breaking-capacity")
+def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
+    """Pass where the rated (or minimum, or the board's conditional) capacity covers the prospective fault current."""
+    default, default_note = _defaults(cols)
     given = ~np.isnan(cols.breaking_capacity_ka)
-    from_default = ~given & ~np.isnan(default)
-    icn = np.where(given, cols.breaking_capacity_ka, default)
-    verdict = np.select([np.isnan(icn), icn >= loop.pfc_ka], [verdicts.NOT_VERIFIED, verdicts.PASS], verdicts.FAIL)
-    note = np.where(from_default, note, np.where(np.isnan(icn), NOTES["not-given"], None)).astype(object)
-    basis = np.full(cols.n, BASIS, dtype=object)
+    dc = (cols.current_kind == "dc") & ~given
+    from_default = ~given & ~np.isnan(default) & ~dc
+    icn = np.where(given, cols.breaking_capacity_ka, np.where(dc, np.nan, default))
+    conditional = ~np.isnan(cols.conditional_ka) & (np.nan_to_num(cols.conditional_ka) > np.nan_to_num(icn))
+    limit = np.where(conditional, cols.conditional_ka, icn)
+    unknown = np.isnan(loop.pfc_ka)
+    short = ~(limit >= loop.pfc_ka)
+    # a standard minimum is a lower bound: falling short of it cannot show that the device itself does
+    verdict = np.select(
+        [np.isnan(limit) | unknown, ~short, from_default & ~conditional],
+        [verdicts.NOT_VERIFIED, verdicts.PASS, verdicts.NOT_VERIFIED],
+        verdicts.FAIL,
+    )
+    note = pick(
+        [unknown, dc, np.isnan(limit), from_default & ~conditional],
+        [NOTES["no-pfc"], NOTES["dc"], NOTES["not-given"], None],
+    )
+    note = np.where(from_default & ~conditional & ~unknown, default_note, note)
+    note = np.where(from_default & ~conditional & ~unknown & short, NOTES["default-short"], note).astype(object)
+    basis = np.where(conditional, BASES["conditional"], BASES["rated"]).astype(object)
     return CheckColumns(
         "breaking-capacity",
         "kA",
         verdict.astype(np.int8),
         loop.pfc_ka,
-        icn,
+        limit,
         basis,
         note,
-        cautions=[(from_default, CAUTION_MEMORY)],
+        cautions=[(from_default & ~conditional, CAUTION_MEMORY)],
     )

@@ -12,7 +12,7 @@ from ..columns import CircuitColumns
 from ..devices.characteristic import BEYOND_DATA, ESTIMATED
 from ..faults import FaultLoop
 from ..response import DeviceResponse
-from .base import CheckColumns, check_step, pick
+from .base import CheckColumns, Earlier, check_step, pick
 
 NOTES = {
     "estimated": "Time read from an estimated part of the curve (see the device notes).",
@@ -28,9 +28,11 @@ NOTES = {
 
 
 @check_step("disconnection-time")
-def disconnection_time(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckColumns:
+def disconnection_time(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the device that disconnects (the overcurrent device, else the RCD) operates within the time."""
-    unsure = cols.has_rcd & ((trip.oc_verdict == verdicts.NOT_VERIFIED) | (trip.rcd_verdict == verdicts.NOT_VERIFIED))
+    unsure = trip.rcd_credited & (
+        (trip.oc_verdict == verdicts.NOT_VERIFIED) | (trip.rcd_verdict == verdicts.NOT_VERIFIED)
+    )
     verdict = verdicts.where(trip.by_rcd, verdicts.PASS, verdicts.where(unsure, verdicts.NOT_VERIFIED, trip.oc_verdict))
     note = pick(
         [
@@ -41,4 +43,6 @@ def disconnection_time(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespon
         ],
         [NOTES["estimated"], NOTES["no-time-set"], NOTES["below-data"], NOTES["at-most-only"]],
     )
-    return CheckColumns("disconnection-time", "s", verdict, trip.time_s, trip.required_s, trip.required_basis, note)
+    return CheckColumns(
+        "disconnection-time", "s", verdict, trip.time_s, trip.required_s, trip.required_basis, note, device_data=True
+    )

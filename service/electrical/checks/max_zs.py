@@ -13,7 +13,7 @@ from ..columns import CircuitColumns
 from ..devices.characteristic import ESTIMATED
 from ..faults import FaultLoop
 from ..response import DeviceResponse
-from .base import CheckColumns, check_step, pick
+from .base import CheckColumns, Earlier, check_step, pick
 from .rcd import BASES as RCD_BASES
 
 BASES = {
@@ -30,12 +30,12 @@ NOTES = {
 
 
 @check_step("max-zs")
-def max_zs(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckColumns:
+def max_zs(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where Zs is within the overcurrent device's limit, or (with an RCD) the RCD's 50 V limit."""
     limit_oc = trip.max_zs_oc_ohm
     has_limit = np.isfinite(limit_oc)
     oc_ok = has_limit & (loop.zs_ohm <= limit_oc)
-    use_rcd = ~oc_ok & cols.has_rcd
+    use_rcd = ~oc_ok & trip.rcd_credited
     rcd_ok = trip.rcd_loop_ohm <= trip.rcd_limit_ohm
     verdict = np.select(
         [oc_ok, use_rcd & rcd_ok, use_rcd, has_limit],
@@ -51,4 +51,4 @@ def max_zs(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> Check
     )
     value = np.where(use_rcd, trip.rcd_loop_ohm, loop.zs_ohm)
     limit = np.where(use_rcd, trip.rcd_limit_ohm, limit_oc)
-    return CheckColumns("max-zs", "ohm", verdict, value, limit, basis, note)
+    return CheckColumns("max-zs", "ohm", verdict, value, limit, basis, note, device_data=True)

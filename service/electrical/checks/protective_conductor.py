@@ -12,7 +12,7 @@ from .. import protective, verdicts
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
-from .base import CheckColumns, check_step, pick
+from .base import CheckColumns, Earlier, check_step, pick
 
 BASES = {
     "adiabatic": "BS 7671:2018 543.1.3, S >= sqrt(I^2 t) / k",
@@ -22,6 +22,15 @@ NOTES = {
     "no-cpc": "The cpc is not described (conductors not given), so its size cannot be checked.",
     "energy-0.1s": "Energy I^2 x 0.1 s (conservative: the device clears within 0.1 s).",
     "let-through": "Energy from the device's let-through I^2 t given in the request.",
+    "let-through-data": "Energy from the standard's largest let-through for the device (see energy_data).",
+    "stand-in": (
+        "The cpc fails only on a stand-in for the device's energy (the standard's limit or I^2 x 0.1 s): the maker's "
+        "let-through I^2 t (device.let_through_a2s) may show compliance."
+    ),
+    "selection-unprotected": (
+        "Table 54.7 presumes the line conductor is protected against fault current (short-circuit check), which is "
+        "not shown: the selection cannot stand in for the adiabatic check."
+    ),
     "selection": "The cpc meets Table 54.7 by selection.",
     "selection-no-adiabatic": "The cpc meets Table 54.7 by selection; the adiabatic check does not apply at this time.",
     "outside-adiabatic": (
@@ -35,25 +44,25 @@ CAUTION_ENERGY = (
 
 
 @check_step("protective-conductor")
-def protective_conductor(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckColumns:
+def protective_conductor(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the cpc is at least the adiabatic minimum, or the Table 54.7 size; not-verified without conductors."""
     c = cols.conductors
-    energy, method = protective.fault_energy_a2s(loop.earth_fault_a, trip.time_s, cols.let_through_a2s)
+    energy, method, data_basis = _energy(loop, trip)
     with np.errstate(invalid="ignore"):
         s_min = np.where(c.present, protective.min_csa_mm2(energy, c.k), np.nan)
     same = c.cpc_material == c.line_material
     selection = protective.selection_csa_mm2(c.line_csa, np.where(same, 1.0, c.k_line), np.where(same, 1.0, c.k))
-    verdict, by_calculation, by_selection = protective.cpc_verdicts(c.cpc_csa, s_min, selection)
-    verdict = verdicts.where(c.present, verdict, verdicts.NOT_VERIFIED)
+    line_protected = earlier["short-circuit"].verdict == verdicts.PASS
+    verdict, by_calculation, by_selection = protective.cpc_verdicts(
+        c.cpc_csa, s_min, np.where(line_protected, selection, np.nan)
+    )
+    stand_in_fail = (verdict == verdicts.FAIL) & np.isin(method, protective.STAND_IN_METHODS)
+    verdict = verdicts.where(c.present & ~stand_in_fail, verdict, verdicts.NOT_VERIFIED)
     basis = np.where(c.present & ~by_calculation & by_selection, BASES["selection"], BASES["adiabatic"]).astype(object)
-    conservative = method == "conservative-0.1s"
-    energy_note = pick([conservative, method == "let-through"], [NOTES["energy-0.1s"], NOTES["let-through"]])
-    finite = np.isfinite(s_min)
-    note = np.select(
-        [~c.present, by_calculation, by_selection & finite, by_selection, ~finite],
-        [NOTES["no-cpc"], energy_note, NOTES["selection"], NOTES["selection-no-adiabatic"], NOTES["outside-adiabatic"]],
-        energy_note,
-    ).astype(object)
+    selection_unprotected = (
+        c.present & ~line_protected & ~by_calculation & (c.cpc_csa >= np.nan_to_num(selection, nan=np.inf))
+    )
+    note = _note(c.present, method, s_min, stand_in_fail, by_calculation, by_selection, selection_unprotected)
     detail = {
         "k": c.k,
         "k_formula": c.k_formula,
@@ -64,6 +73,7 @@ def protective_conductor(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResp
         "selection_csa_mm2": selection,
         "energy_a2s": np.where(c.present, energy, np.nan),
         "energy_basis": np.where(c.present, method, None).astype(object),
+        "energy_data": np.where(c.present, data_basis, None).astype(object),
         "verdict": verdict,
         "basis": basis,
     }
@@ -77,8 +87,55 @@ def protective_conductor(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResp
         note,
         margin_percent=_size_margin(s_min, c.cpc_csa),
         detail=("protective_conductor", detail),
-        cautions=[(c.present & conservative, CAUTION_ENERGY)],
+        cautions=[(c.present & (method == "conservative-0.1s"), CAUTION_ENERGY)],
+        device_data=True,
     )
+
+
+def _note(present, method, s_min, stand_in_fail, by_calculation, by_selection, selection_unprotected) -> np.ndarray:
+    energy_note = pick(
+        [method == "conservative-0.1s", method == "let-through", method == "let-through-data"],
+        [NOTES["energy-0.1s"], NOTES["let-through"], NOTES["let-through-data"]],
+    )
+    finite = np.isfinite(s_min)
+    conditions = [
+        ~present,
+        stand_in_fail,
+        by_calculation,
+        by_selection & finite,
+        by_selection,
+        selection_unprotected,
+        ~finite,
+    ]
+    names = [
+        "no-cpc",
+        "stand-in",
+        None,
+        "selection",
+        "selection-no-adiabatic",
+        "selection-unprotected",
+        "outside-adiabatic",
+    ]
+    texts = [energy_note if name is None else NOTES[name] for name in names]
+    return np.select(conditions, texts, energy_note).astype(object)
+
+
+def _energy(loop: FaultLoop, trip: DeviceResponse):
+    """The cpc's energy: the larger of the smallest earth fault (far end) and the largest (origin), A^2 s.
+
+    At the far end the device that disconnects decides (an RCD with I^2 x 0.1 s below 0.1 s, as it does
+    not limit the current); at the origin the overcurrent device. Outside the adiabatic range at the far
+    end there is no energy to size by (NaN).
+    """
+    rcd_energy, rcd_method = protective.fault_energy_a2s(loop.earth_fault_a, trip.time_s)
+    far_energy = np.where(trip.by_rcd, rcd_energy, trip.cpc_far.energy_a2s)
+    far_method = np.where(trip.by_rcd, rcd_method, trip.cpc_far.method)
+    near = trip.cpc_near
+    use_near = np.isfinite(far_energy) & (np.nan_to_num(near.energy_a2s) > far_energy)
+    energy = np.where(use_near, near.energy_a2s, far_energy)
+    method = np.where(use_near, near.method, far_method).astype(object)
+    data_basis = np.where(use_near, near.data_basis, np.where(trip.by_rcd, None, trip.cpc_far.data_basis))
+    return energy, method, data_basis.astype(object)
 
 
 def _size_margin(s_min: np.ndarray, csa: np.ndarray) -> np.ndarray:

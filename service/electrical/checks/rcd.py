@@ -13,16 +13,20 @@ from ..columns import CircuitColumns
 from ..devices import residual
 from ..faults import FaultLoop
 from ..response import DeviceResponse
-from .base import CheckColumns, check_step
+from .base import CheckColumns, Earlier, check_step, pick
 
-BASES = {
-    "tn": "BS 7671:2018 411.4.5, Zs x IΔn <= 50 V",
-    "tt": "BS 7671:2018 411.5.3, RA x IΔn <= 50 V",
+BASES = {"tn": "BS 7671:2018 411.4.5, Zs x IΔn <= 50 V", "tt": "BS 7671:2018 411.5.3, RA x IΔn <= 50 V"}
+NOTES = {
+    "ra-not-given": "RA not given: Zs used in its place (larger, so on the safe side).",
+    "dc": "d.c.: a general-purpose RCD does not respond to smooth d.c. fault current; it gives no protection here.",
 }
-NOTES = {"ra-not-given": "RA not given: Zs used in its place (larger, so on the safe side)."}
 CAUTIONS = {
     "electrode-unstable": (
         "Earth electrode resistance above 200 ohm may not be stable (note to BS 7671:2018 Table 41.5)."
+    ),
+    "loop-unstable": (
+        "The loop the RCD is credited on is above 200 ohm: such a value may not be stable (note to BS 7671:2018 "
+        "Table 41.5); on TN it points to a fault in the protective conductor path."
     ),
     "additional-protection": (
         "Socket-outlets rated up to 32 A need additional protection by a 30 mA RCD (BS 7671:2018 411.3.3), "
@@ -32,14 +36,20 @@ CAUTIONS = {
 
 
 @check_step("rcd")
-def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckColumns:
+def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the loop the RCD protects stays within 50 V / IΔn; reported only where an RCD is fitted."""
     verdict = verdicts.where(trip.rcd_loop_ohm <= trip.rcd_limit_ohm, verdicts.PASS, verdicts.FAIL)
+    verdict = verdicts.where(cols.has_rcd & ~trip.rcd_credited, verdicts.NOT_VERIFIED, verdict)
     basis = np.where(cols.tt, BASES["tt"], BASES["tn"]).astype(object)
-    note = np.where(cols.tt & np.isnan(cols.electrode_ohm), NOTES["ra-not-given"], None).astype(object)
+    note = pick(
+        [cols.has_rcd & ~trip.rcd_credited, cols.tt & np.isnan(cols.electrode_ohm)],
+        [NOTES["dc"], NOTES["ra-not-given"]],
+    )
     sockets = (cols.role == "final") & (cols.load == "socket-outlets") & (cols.rating_a <= 32)
+    stable = residual.stable_resistance_limit_ohm()
     with np.errstate(invalid="ignore"):
-        unstable = cols.tt & cols.has_rcd & (cols.electrode_ohm > residual.stable_resistance_limit_ohm())
+        unstable = cols.tt & cols.has_rcd & (cols.electrode_ohm > stable)
+        high_loop = ~cols.tt & trip.by_rcd & (trip.rcd_loop_ohm > stable)
     return CheckColumns(
         "rcd",
         "ohm",
@@ -51,6 +61,7 @@ def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse) -> CheckCol
         applies=cols.has_rcd,
         cautions=[
             (unstable, CAUTIONS["electrode-unstable"]),
+            (high_loop, CAUTIONS["loop-unstable"]),
             (sockets & (cols.residual_ma > residual.additional_protection_max_ma()), CAUTIONS["additional-protection"]),
         ],
     )

@@ -101,3 +101,7 @@ class Family(Protocol):
 
     def overload_factor(self, standard: str) -> tuple[float, str]:
         """Cc for the capacity of the cable the device protects against overload, with its basis."""
+
+    def let_through(self, device: Device, current_a: Any, energy_class: int | None) -> tuple[np.ndarray, str | None]:
+        """The largest I2t (A2s) the device lets through at each prospective current when it clears within
+        0.1 s, from the standard's data (NaN where they say nothing), with its basis."""

@@ -11,9 +11,12 @@ from __future__ import annotations
 from functools import lru_cache
 from typing import Any
 
+import numpy as np
+
 from ..datafiles import device_table, provenance
 from ..errors import UnknownDevice
 from ..model import DeviceSpec
+from . import let_through
 from .base import Device
 from .characteristic import Characteristic
 
@@ -49,12 +52,13 @@ def circuit_breaker(standard: str, type_: str, rating_a: float) -> Device:
     mid_time = t_255["time_s_up_to_32a"] if rating_a <= 32 else t_255["time_s_above_32a"]
     upper = multiples["instantaneous_upper_multiple"] * rating_a
     inst_time = table["instantaneous_time_s"]
-    points = [
-        (t_145["multiple"] * rating_a, long_time),
-        (t_255["multiple"] * rating_a, mid_time),
-        (upper, mid_time),
-        (upper, inst_time),
-    ]
+    points = [(t_145["multiple"] * rating_a, long_time), (t_255["multiple"] * rating_a, mid_time)]
+    five_s = multiples.get("table_41_3_5s_multiple")
+    if five_s is not None:  # type D: within 5 s at 10 In (BS 7671:2018+A2 Table 41.3, 5 s column)
+        points += [(five_s * rating_a, mid_time), (five_s * rating_a, 5.0), (upper, 5.0)]
+    else:
+        points.append((upper, mid_time))
+    points.append((upper, inst_time))
     return Device(
         device_id=device_id(standard, type_),
         kind="circuit-breaker",
@@ -65,12 +69,25 @@ def circuit_breaker(standard: str, type_: str, rating_a: float) -> Device:
         regions=((t_145["multiple"] * rating_a, "thermal"), (upper, "instantaneous")),
         source=table["source"],
         confidence=table["confidence"],
-        notes=(
-            f"Trips within {inst_time:g} s at and above {multiples['instantaneous_upper_multiple']:g} In "
-            f"({upper:g} A); the standard's data cannot show a shorter time.",
-        ),
+        notes=_notes(table, multiples, upper, inst_time),
         residual=bool(table["standards"][standard]["residual"]),
+        default_breaking_capacity_ka=float(table["minimum_breaking_capacity_ka"]),
+        default_breaking_capacity_basis=(
+            f"smallest rated short-circuit capacity of {standard} breakers, "
+            f"{table['minimum_breaking_capacity_ka']:g} kA "
+            f"(confidence {table['minimum_breaking_capacity_confidence']})"
+        ),
     )
+
+
+def _notes(table: dict, multiples: dict, upper: float, inst_time: float) -> tuple[str, ...]:
+    notes = [
+        f"Trips within {inst_time:g} s at and above {multiples['instantaneous_upper_multiple']:g} In "
+        f"({upper:g} A); the standard's data cannot show a shorter time."
+    ]
+    if multiples.get("table_41_3_5s_multiple") is not None:
+        notes.append(f"Within 5 s at {multiples['table_41_3_5s_multiple']:g} In: {table['table_41_3_5s']['source']}.")
+    return tuple(notes)
 
 
 def device_id(standard: str, type_: str) -> str:
@@ -120,6 +137,14 @@ class Breakers:
 
     def overload_factor(self, standard: str) -> tuple[float, str]:
         return 1.0, "no device factor"
+
+    def let_through(self, device: Device, current_a: Any, energy_class: int | None) -> tuple[np.ndarray, str | None]:
+        """The class's largest let-through I2t (BS EN 60898-1 Annex ZA) for types B and C up to 32 A; NaN otherwise."""
+        if not let_through.class_applies(device.type, device.rating_a):
+            return np.full(np.shape(np.atleast_1d(current_a)), np.nan), None
+        marked, basis = (energy_class, "as marked (given)") if energy_class is not None else let_through.default_class()
+        energy = let_through.class_let_through_a2s(device.type, device.rating_a, marked, current_a)
+        return energy, f"energy-limiting class {marked} ({basis}), BS EN 60898-1 Annex ZA, from memory"
 
 
 FAMILY = Breakers()

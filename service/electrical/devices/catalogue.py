@@ -9,6 +9,8 @@ from __future__ import annotations
 from functools import lru_cache
 from typing import Any
 
+import numpy as np
+
 from ..errors import UnknownDevice
 from ..model import DeviceSpec
 from . import breakers, fuses
@@ -79,3 +81,11 @@ def device_by_id(device_id: str, rating_a: float) -> Device:
     raise UnknownDevice(
         "device_id", f"unknown device {device_id!r}; use one of {[e['device_id'] for e in catalogue()]}"
     )
+
+
+def let_through(device: Device, current_a: Any, energy_class: int | None = None) -> tuple[Any, str | None]:
+    """The standard's largest let-through I2t (A2s) for the device at each prospective current when it clears
+    within 0.1 s (NaN where its data say nothing: a user's curve, a type D breaker, a BS 3036 fuse), with its basis."""
+    if device.standard is None:
+        return np.full(np.shape(np.atleast_1d(current_a)), np.nan), None
+    return family_of(device.standard).let_through(device, current_a, energy_class)

@@ -14,9 +14,12 @@ from __future__ import annotations
 from functools import lru_cache
 from typing import Any
 
+import numpy as np
+
 from ..datafiles import core_table, device_table, provenance
 from ..errors import UnknownDevice
 from ..model import DeviceSpec
+from . import let_through
 from .base import Device
 from .characteristic import Characteristic
 
@@ -163,6 +166,14 @@ class Fuses:
                 }
             )
         return out
+
+    def let_through(self, device: Device, current_a: Any, energy_class: int | None) -> tuple[np.ndarray, str | None]:
+        """A gG fuse's largest operating I2t (IEC 60269-1); NaN for the families without gG data."""
+        shape = np.shape(np.atleast_1d(current_a))
+        found = let_through.gg_operating_a2s(device.rating_a) if _families()[device.standard]["gates"] else None
+        if found is None:
+            return np.full(shape, np.nan), None
+        return np.full(shape, found[0]), found[1]
 
     def overload_factor(self, standard: str) -> tuple[float, str]:
         """Cc: 0.725 for a BS 3036 semi-enclosed fuse (BS 7671 Appendix 4), 1.0 for the others."""

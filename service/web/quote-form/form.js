@@ -133,6 +133,7 @@ byId("quote").addEventListener("submit", async (event) => {
       device: Object.assign(device(), {rating_a: size.device.rating_a}),
       conductors: {material: size.selected.material, insulation: size.selected.insulation,
                    line_csa_mm2: size.selected.line_csa_mm2, cpc_csa_mm2: size.selected.cpc_csa_mm2, length_m: number("length")},
+      installation: sizeRequest().installation,
     };
     byId("status").textContent = "Checking…";
     const check = await call("/v1/circuits/check", {supply: supply(), circuit: circuit});

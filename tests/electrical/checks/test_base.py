@@ -25,5 +25,13 @@ def test_a_check_fills_its_margin_from_value_and_limit():
 
 
 def test_every_step_is_named_once_in_results_order():
-    assert CHECKS == ("disconnection-time", "max-zs", "protective-conductor", "breaking-capacity", "rcd")
+    assert CHECKS == (
+        "disconnection-time",
+        "max-zs",
+        "short-circuit",
+        "protective-conductor",
+        "breaking-capacity",
+        "overload",
+        "rcd",
+    )
     assert len(set(CHECKS)) == len(STEPS)

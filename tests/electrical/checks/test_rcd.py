@@ -25,5 +25,5 @@ def test_cautions_for_an_unstable_electrode_and_sockets_without_30_ma():
     c = step(
         run([wet, BAKERY], circuit(RCBO_B16, TWIN_2_5, load="socket-outlets"), circuit(load="socket-outlets")), "rcd"
     )
-    unstable, sockets = (mask.tolist() for mask, _ in c.cautions)
+    unstable, _, sockets = (mask.tolist() for mask, _ in c.cautions)
     assert unstable == [True, False] and sockets == [False, True]

@@ -1,0 +1,67 @@
+"""The overload check: Ib <= In <= Iz (BS 7671:2018 433.1.1), the ring rule (433.1.204), BS 3036 (433.1.202).
+
+Capacities: BS 7671 Table 4D5 (tests/data/capacity/flat-twin-earth-70c-copper.csv); factors Appendix 4.
+"""
+
+import pytest
+
+from service.electrical.model import Conductors, DeviceSpec, Installation
+from service.electrical.verdicts import VERDICTS
+from tests.electrical.pipeline import BAKERY, circuit, run, step
+
+CLIPPED = Installation("flat-twin-earth-70c", "C")
+TWIN_6 = Conductors("copper", "thermoplastic-70", 6, 2.5, 12)
+
+
+def verdict_of(**kwargs):
+    c = step(run(BAKERY, circuit(**kwargs)), "overload")
+    return VERDICTS[c.verdict[0]], c
+
+
+def test_6_mm2_clipped_on_a_b63_with_ib_55_a_fails():
+    # Table 4D5: 6 mm2 clipped direct 47 A (from memory) < In 63 A: the cable is not protected against overload
+    b63 = DeviceSpec(rating_a=63, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
+    verdict, c = verdict_of(device=b63, conductors=TWIN_6, design_current_a=55, installation=CLIPPED)
+    assert verdict == "fail" and c.value[0] == 63 and c.limit[0] == 47 and "433.1.1" in c.basis[0]
+
+
+def test_factors_reduce_iz():
+    # 40 degC ambient (Table 4B1, 0.87 by the formula) and 3 circuits bunched (Table 4C1, 0.70): 47 x 0.87 x 0.70
+    hot = Installation("flat-twin-earth-70c", "C", ambient_c=40, grouped_circuits=3)
+    b25 = DeviceSpec(rating_a=25, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
+    verdict, c = verdict_of(device=b25, conductors=TWIN_6, design_current_a=20, installation=hot)
+    assert c.limit[0] == pytest.approx(47 * (40 / 40) ** 0.5 * 0.7 * ((70 - 40) / 40) ** 0.5, rel=1e-9)
+    assert verdict == "pass"  # 25 <= 28.6 A
+
+
+def test_a_semi_enclosed_fuse_takes_0_725():
+    # BS 3036 30 A on 4 mm2 clipped (37 A): Iz = 37 x 0.725 = 26.8 A < 30 A (433.1.202, from memory)
+    rewirable = DeviceSpec(rating_a=30, standard="BS 3036")
+    verdict, c = verdict_of(
+        device=rewirable,
+        conductors=Conductors("copper", "thermoplastic-70", 4, 1.5, 12),
+        design_current_a=20,
+        installation=CLIPPED,
+    )
+    assert verdict == "fail" and c.limit[0] == pytest.approx(37 * 0.725)
+    assert c.detail[1]["factors"][0]["device"]["basis"].startswith("BS 7671 433.1.202")
+
+
+def test_ib_over_in_fails_even_without_an_installation():
+    verdict, c = verdict_of(design_current_a=40)
+    assert verdict == "fail" and "exceeds" in c.note[0]
+
+
+def test_without_the_design_current_or_installation_it_is_not_verified():
+    assert verdict_of()[0] == "not-verified"
+    assert verdict_of(design_current_a=20)[1].note[0].startswith("State how the cable is run")
+
+
+def test_parallel_cables_share_the_load():
+    # 523.7, equal sharing: two 16 mm2 cables clipped (85 A each, from memory) carry 170 A
+    pair = Conductors("copper", "thermoplastic-70", 16, 6, 20, parallel_cables=2)
+    fuse = DeviceSpec(rating_a=160, standard="BS 88-2")
+    verdict, c = verdict_of(
+        device=fuse, conductors=pair, design_current_a=150, installation=CLIPPED, role="distribution"
+    )
+    assert c.limit[0] == 170 and verdict == "pass"
