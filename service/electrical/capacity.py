@@ -127,7 +127,8 @@ def grouping_factor(arrangement: str, circuits: int) -> tuple[float, str]:
         more = sorted((int(k), v) for k, v in row["more"].items())
         value = next((v for k, v in more if k >= circuits), more[-1][1] if more else row["factors"][-1])
     confidence = "A/S" if circuits in sourced else "M, from memory"
-    return float(value), f"BS 7671 Table 4C1, {arrangement}, {circuits} circuits (confidence {confidence})"
+    counted = "1 circuit" if circuits == 1 else f"{circuits} circuits"
+    return float(value), f"BS 7671 Table 4C1, {arrangement}, {counted} (confidence {confidence})"
 
 
 def thermal_insulation_factor(length_mm: float, csa_mm2: float = 0.0) -> tuple[float, str]:

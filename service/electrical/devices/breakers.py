@@ -142,9 +142,13 @@ class Breakers:
         """The class's largest let-through I2t (BS EN 60898-1 Annex ZA) for types B and C up to 32 A; NaN otherwise."""
         if not let_through.class_applies(device.type, device.rating_a):
             return np.full(np.shape(np.atleast_1d(current_a)), np.nan), None
-        marked, basis = (energy_class, "as marked (given)") if energy_class is not None else let_through.default_class()
+        if energy_class is not None:
+            marked, said = energy_class, "as given"
+        else:
+            marked, why = let_through.default_class()
+            said = f"not given: {why}"
         energy = let_through.class_let_through_a2s(device.type, device.rating_a, marked, current_a)
-        return energy, f"energy-limiting class {marked} ({basis}), BS EN 60898-1 Annex ZA, from memory"
+        return energy, f"energy-limiting class {marked} ({said}), BS EN 60898-1 Annex ZA, from memory"
 
 
 FAMILY = Breakers()
