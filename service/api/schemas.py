@@ -17,7 +17,7 @@ from ..electrical.arrays import paused_gc
 from ..electrical.checks import CHECKS
 from ..electrical.devices import catalogue, residual
 from ..electrical.devices.let_through import ENERGY_CLASSES
-from ..electrical.model import Circuit, Conductors, DeviceSpec, Installation, Rcd, Supply
+from ..electrical.model import CableRun, Circuit, Conductors, DeviceSpec, Rcd, Supply
 from . import fastload
 from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
@@ -206,7 +206,7 @@ class InstallationSchema(Schema):
 
     @post_load
     def make(self, data, **kwargs):
-        return Installation(**data)
+        return CableRun(**data)
 
 
 class CircuitSchema(Schema):

@@ -16,7 +16,7 @@ from . import conductors as cond
 from .datafiles import core_table
 from .devices import catalogue
 from .errors import InvalidInput, UnknownConductor
-from .model import Installation
+from .model import CableRun
 
 CABLES = {
     "flat-twin-earth-70c": "capacity_flat_twin_earth_70c",
@@ -200,7 +200,7 @@ def design_current_a(power_kw: float, power_factor: float, phases: int, u0_v: fl
 
 
 @lru_cache(maxsize=1024)
-def derating(inst: Installation, insulation: str, device_standard: str | None, csa_mm2: float):
+def derating(inst: CableRun, insulation: str, device_standard: str | None, csa_mm2: float):
     """Ca x Cg x Ci x Cc for a cable run as ``inst`` (BS 7671 Appendix 4), with each factor's value and basis.
 
     Ca from the air (Table 4B1) or ground (Table 4B2) temperature, with the soil (Table 4B3) for method D;
@@ -231,7 +231,7 @@ def derating(inst: Installation, insulation: str, device_standard: str | None, c
 
 
 def installed_capacity(
-    inst: Installation, it_a: float, insulation: str, device_standard: str | None, csa_mm2: float = 0.0
+    inst: CableRun, it_a: float, insulation: str, device_standard: str | None, csa_mm2: float = 0.0
 ) -> tuple[float, dict[str, dict[str, Any]]]:
     """Iz = It x Ca x Cg x Ci x Cc (BS 7671 Appendix 4), A, with each factor's value and basis."""
     product, factors = derating(inst, insulation, device_standard, float(csa_mm2))

@@ -72,7 +72,7 @@ class Conductors:
 
 
 @dataclass(frozen=True)
-class Installation:
+class CableRun:
     """How the cable is run: the capacity table (cable family) and method, and the factors that reduce it."""
 
     cable: str
@@ -98,6 +98,6 @@ class Circuit:
     load: str | None = None
     id: str | None = None
     design_current_a: float | None = None
-    installation: Installation | None = None
+    installation: CableRun | None = None
     conditional_short_circuit_ka: float | None = None  # the board's rating with its upstream device (BS EN 61439-3)
     phases: int = 1

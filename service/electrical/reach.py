@@ -25,8 +25,8 @@ from .model import Circuit, Conductors, DeviceSpec, Supply
 from .results import CircuitResult
 from .sizing import (
     RULED_OUT_ORDER,
+    CableRun,
     Demand,
-    Installation,
     SizingResult,
     installation_paths,
     ruled_out_by,
@@ -41,7 +41,7 @@ MAX_FAULT_TIME_S = 5.0
 
 
 def size_with_reach(
-    supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec
+    supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec
 ) -> tuple[SizingResult, dict | None]:
     """:func:`size_circuit`, and the longest run of the size chosen (None where no size passes)."""
     result = size_circuit(supply, demand, inst, device)
@@ -107,7 +107,7 @@ def _smallest_margin(result: CircuitResult, vd: dict[str, Any] | None) -> float:
 
 
 def max_length(
-    supply: Supply, circuit: Circuit, inst: Installation | None = None, demand: Demand | None = None
+    supply: Supply, circuit: Circuit, inst: CableRun | None = None, demand: Demand | None = None
 ) -> dict[str, Any]:
     """The longest run (m) that keeps every check passing, and the check that limits it.
 
@@ -125,7 +125,7 @@ def max_length(
 
 
 def _max_length(
-    supply: Supply, circuit: Circuit, inst: Installation | None = None, demand: Demand | None = None
+    supply: Supply, circuit: Circuit, inst: CableRun | None = None, demand: Demand | None = None
 ) -> dict[str, Any]:
     if circuit.conductors is None:
         raise InvalidInput(("circuit", "conductors"), "the longest run needs the conductors")
@@ -195,7 +195,7 @@ def _boundary(judge, lo: float, hi: float) -> float:
     return float(lo)
 
 
-def _closed_forms(supply: Supply, circuit: Circuit, inst: Installation | None, demand: Demand | None):
+def _closed_forms(supply: Supply, circuit: Circuit, inst: CableRun | None, demand: Demand | None):
     """The closed-form lengths (max Zs, voltage drop) and the voltage drop of one metre, where asked for."""
     per_m, r2_per_m, line_neutral_per_m = loop_resistance_per_m(circuit.conductors)
     at_zero = check_circuits(

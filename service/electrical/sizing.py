@@ -23,7 +23,7 @@ from .circuit import check_circuits
 from .columns import CircuitFailure
 from .devices import catalogue
 from .errors import ElectricalError, InvalidInput, NoRule
-from .model import Circuit, Conductors, DeviceSpec, Installation, Supply
+from .model import CableRun, Circuit, Conductors, DeviceSpec, Supply
 from .protective import selection_csa_mm2
 from .results import CircuitResult
 from .verdicts import Verdict
@@ -58,7 +58,7 @@ class Demand:
     conditional_short_circuit_ka: float | None = None  # the board's rating with its upstream device
 
 
-INSTALLATION_FIELDS = frozenset(f.name for f in dataclasses.fields(Installation))
+INSTALLATION_FIELDS = frozenset(f.name for f in dataclasses.fields(CableRun))
 
 
 @contextmanager
@@ -146,9 +146,7 @@ def rules_out(name: str, verdict: str, lenient: frozenset[str] = frozenset()) ->
     return verdict == Verdict.FAIL or (verdict == Verdict.NOT_VERIFIED and name not in lenient)
 
 
-def voltage_drop(
-    inst: Installation, demand: Demand, csa: float, ib: float, u0_v: float, length_m: float
-) -> dict[str, Any]:
+def voltage_drop(inst: CableRun, demand: Demand, csa: float, ib: float, u0_v: float, length_m: float) -> dict[str, Any]:
     """The voltage drop of the run: mV/A/m x Ib x L, in volts and in percent of U0 (or of the line voltage).
 
     The limit beside it is the request's, else Appendix 4 section 6.4's for the supply and use.
@@ -170,7 +168,7 @@ def voltage_drop(
     }
 
 
-def _candidates(supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec, ib: float):
+def _candidates(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec, ib: float):
     """The circuits to try, one per tabulated size with a cpc (each with its installation and Ib, so the
     pipeline's overload check judges its capacity), and the size rows beside them."""
     in_a = _rating(device, ib)
@@ -207,7 +205,7 @@ def _rating(device: DeviceSpec, ib: float) -> float:
     return ratings[0]
 
 
-def size_circuit(supply: Supply, demand: Demand, inst: Installation, device: DeviceSpec) -> SizingResult:
+def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec) -> SizingResult:
     """The smallest device rating >= Ib and the smallest line conductor and cpc that pass every check.
 
     Every size is checked at once through the array path: the overload check (Ib <= In <= Iz, 433.1.1), the
@@ -267,9 +265,7 @@ def _never_shown(outcomes: list) -> frozenset[str]:
     )
 
 
-def _sizing_cautions(
-    selected: dict[str, Any] | None, inst: Installation, lenient: frozenset[str], outcomes
-) -> list[str]:
+def _sizing_cautions(selected: dict[str, Any] | None, inst: CableRun, lenient: frozenset[str], outcomes) -> list[str]:
     out = []
     for name in sorted(lenient):
         note = next(

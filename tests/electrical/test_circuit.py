@@ -14,10 +14,10 @@ import pytest
 
 from service.electrical.circuit import check_circuit, check_circuits
 from service.electrical.errors import UnknownDevice
-from service.electrical.model import Circuit, Conductors, DeviceSpec, Installation, Rcd, Supply
+from service.electrical.model import CableRun, Circuit, Conductors, DeviceSpec, Rcd, Supply
 
 BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)
-CLIPPED = Installation("flat-twin-earth-70c", "C")  # BS 7671 Table 4D5, clipped direct, 30 degC, alone
+CLIPPED = CableRun("flat-twin-earth-70c", "C")  # BS 7671 Table 4D5, clipped direct, 30 degC, alone
 ZPN = 230 / 2100
 
 

@@ -6,7 +6,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from service.electrical.model import Circuit, Conductors, DeviceSpec, Installation, Rcd, Supply
+from service.electrical.model import CableRun, Circuit, Conductors, DeviceSpec, Rcd, Supply
 from service.electrical.reach import max_length, ruling, size_with_reach
 from service.electrical.sizing import Demand, voltage_drop
 
@@ -23,7 +23,7 @@ def test_store_sockets_longest_run_by_hand():
         load="socket-outlets",
         design_current_a=24,
     )
-    r = max_length(STORE, circuit, Installation("flat-twin-earth-70c", "C"), Demand(length_m=35, design_current_a=24))
+    r = max_length(STORE, circuit, CableRun("flat-twin-earth-70c", "C"), Demand(length_m=35, design_current_a=24))
     assert r["max_length_m"] == pytest.approx(11.5 * 1000 / (11 * 24), abs=0.01)
     assert r["limited_by"] == "voltage-drop"
     assert r["closed_form_m"]["max-zs"] == pytest.approx((0.95 * 230 / 125 - 0.35) / (16.71 * 1.2 / 1000), abs=0.01)
@@ -54,7 +54,7 @@ def test_the_longest_run_passes_and_one_percent_more_fails_the_named_check(csa, 
         load="fixed-equipment",
         design_current_a=rating * 0.8,
     )
-    inst, demand = Installation("flat-twin-earth-70c", "C"), Demand(length_m=20, design_current_a=rating * 0.8)
+    inst, demand = CableRun("flat-twin-earth-70c", "C"), Demand(length_m=20, design_current_a=rating * 0.8)
     r = max_length(supply, circuit, inst, demand)
     if r["max_length_m"] is None or r["max_length_m"] >= 5000:
         return
@@ -87,7 +87,7 @@ def test_size_with_reach_gives_the_run_of_the_size_chosen():
     result, reach = size_with_reach(
         STORE,
         Demand(length_m=35, design_current_a=24, load="socket-outlets"),
-        Installation("flat-twin-earth-70c", "C"),
+        CableRun("flat-twin-earth-70c", "C"),
         DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
     )
     assert result.selected["line_csa_mm2"] == 4 and reach["limited_by"] == "voltage-drop"

@@ -14,7 +14,7 @@ from service.electrical import capacity as cap
 from service.electrical.capacity import installed_capacity
 from service.electrical.circuit import check_circuit
 from service.electrical.errors import InvalidInput
-from service.electrical.model import Circuit, Conductors, DeviceSpec, Installation, Rcd, Supply
+from service.electrical.model import CableRun, Circuit, Conductors, DeviceSpec, Rcd, Supply
 from service.electrical.sizing import Demand, size_circuit
 
 STORE = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.35, prospective_fault_current_ka=1.6)
@@ -24,11 +24,11 @@ def test_factor_cautions_name_only_unsourced_values():
     device = DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
     demand = Demand(length_m=10, design_current_a=10, load="fixed-equipment")
     sourced = size_circuit(
-        STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=3), device
+        STORE, demand, CableRun("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=3), device
     )
     assert not any("correction factor" in c for c in sourced.cautions)
     recalled = size_circuit(
-        STORE, demand, Installation("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=12), device
+        STORE, demand, CableRun("multicore-armoured-90c", "C", grouping="bunched", grouped_circuits=12), device
     )
     assert any("correction factor" in c for c in recalled.cautions)  # Table 4C1, 12 circuits: from memory
 
@@ -42,7 +42,7 @@ def test_store_sockets_sizing_by_hand():
     r = size_circuit(
         STORE,
         Demand(length_m=35, design_current_a=24, load="socket-outlets"),
-        Installation("flat-twin-earth-70c", "C"),
+        CableRun("flat-twin-earth-70c", "C"),
         DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
     )
     assert r.device["rating_a"] == 25
@@ -75,7 +75,7 @@ def test_the_size_passes_and_the_next_smaller_fails(ib, length, device, cable, z
     supply = Supply(earthing="TN-S", u0_v=230, ze_ohm=ze, prospective_fault_current_ka=1.0)
     try:
         r = size_circuit(
-            supply, Demand(length_m=length, design_current_a=ib, load="fixed-equipment"), Installation(*cable), device
+            supply, Demand(length_m=length, design_current_a=ib, load="fixed-equipment"), CableRun(*cable), device
         )
     except Exception as err:  # no rating of the family reaches Ib
         assert "no standard rating" in str(err)
@@ -113,7 +113,7 @@ def test_installed_capacity_applies_every_factor():
     # Iz = It x Ca x Cg x Ci x Cc (BS 7671 Appendix 4): 40 degC thermoplastic 0.87 (Table 4B1), 3 bunched 0.70
     # (Table 4C1), BS 3036 0.725; It 27 A -> 27 x 0.87 x 0.70 x 0.725
     iz, factors = installed_capacity(
-        Installation("flat-twin-earth-70c", "C", ambient_c=40, grouped_circuits=3), 27, "thermoplastic-70", "BS 3036"
+        CableRun("flat-twin-earth-70c", "C", ambient_c=40, grouped_circuits=3), 27, "thermoplastic-70", "BS 3036"
     )
     assert iz == pytest.approx(27 * factors["ambient"]["factor"] * 0.70 * 0.725)
     assert factors["ambient"]["factor"] == pytest.approx(0.87, abs=0.01) and factors["device"]["factor"] == 0.725
@@ -124,7 +124,7 @@ def test_no_rating_reaches_the_design_current():
         size_circuit(
             STORE,
             Demand(length_m=10, design_current_a=140, load="fixed-equipment"),
-            Installation("flat-twin-earth-70c", "C"),
+            CableRun("flat-twin-earth-70c", "C"),
             DeviceSpec(rating_a=1, standard="BS 88-3"),
         )
     assert err.value.path == ("device", "rating_a")
@@ -135,7 +135,7 @@ def test_an_installation_error_names_the_installation_field():
         size_circuit(
             STORE,
             Demand(length_m=10, design_current_a=10, load="fixed-equipment"),
-            Installation("flat-twin-earth-70c", "E"),
+            CableRun("flat-twin-earth-70c", "E"),
             DeviceSpec(rating_a=1, standard="BS 88-3"),
         )
     assert err.value.path == ("installation", "installation_method")
@@ -147,12 +147,12 @@ def test_a_breaking_capacity_shortfall_is_the_devices_not_the_cables():
     declared = Supply("TN-C-S", 230, 0.05, prospective_fault_current_ka=16, line_neutral_loop_ohm=0.05)
     device = DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6, energy_limiting_class=3)
     demand = Demand(length_m=20, design_current_a=14, load="socket-outlets")
-    plain = size_circuit(declared, demand, Installation("flat-twin-earth-70c", "C"), device)
+    plain = size_circuit(declared, demand, CableRun("flat-twin-earth-70c", "C"), device)
     assert plain.selected is not None and plain.selected["check"].check("breaking-capacity").verdict == "fail"
     in_unit = size_circuit(
         declared,
         dataclasses.replace(demand, conditional_short_circuit_ka=16),
-        Installation("flat-twin-earth-70c", "C"),
+        CableRun("flat-twin-earth-70c", "C"),
         device,
     )
     assert in_unit.selected["line_csa_mm2"] == plain.selected["line_csa_mm2"]

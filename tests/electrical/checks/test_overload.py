@@ -5,11 +5,11 @@ Capacities: BS 7671 Table 4D5 (tests/data/capacity/flat-twin-earth-70c-copper.cs
 
 import pytest
 
-from service.electrical.model import Conductors, DeviceSpec, Installation
+from service.electrical.model import CableRun, Conductors, DeviceSpec
 from service.electrical.verdicts import VERDICTS
 from tests.electrical.pipeline import BAKERY, circuit, run, step
 
-CLIPPED = Installation("flat-twin-earth-70c", "C")
+CLIPPED = CableRun("flat-twin-earth-70c", "C")
 TWIN_6 = Conductors("copper", "thermoplastic-70", 6, 2.5, 12)
 
 
@@ -27,7 +27,7 @@ def test_6_mm2_clipped_on_a_b63_with_ib_55_a_fails():
 
 def test_factors_reduce_iz():
     # 40 degC ambient (Table 4B1, 0.87 by the formula) and 3 circuits bunched (Table 4C1, 0.70): 47 x 0.87 x 0.70
-    hot = Installation("flat-twin-earth-70c", "C", ambient_c=40, grouped_circuits=3)
+    hot = CableRun("flat-twin-earth-70c", "C", ambient_c=40, grouped_circuits=3)
     b25 = DeviceSpec(rating_a=25, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
     verdict, c = verdict_of(device=b25, conductors=TWIN_6, design_current_a=20, installation=hot)
     assert c.limit[0] == pytest.approx(47 * (40 / 40) ** 0.5 * 0.7 * ((70 - 40) / 40) ** 0.5, rel=1e-9)
