@@ -90,10 +90,31 @@ class DeviceSchema(Schema):
         },
     )
 
+    ir_a = Number(
+        minimum=0.1,
+        maximum=10000,
+        metadata={
+            "description": "adjustable breakers (BS EN 60947-2): the long-time setting Ir, A (default: the frame)"
+        },
+    )
+    ii_a = Number(
+        minimum=0.1, maximum=1e6, metadata={"description": "adjustable breakers: the instantaneous setting Ii, A"}
+    )
+    isd_a = Number(
+        minimum=0.1, maximum=1e6, metadata={"description": "adjustable breakers: the short-time pickup Isd, A"}
+    )
+    tsd_s = Number(
+        minimum=0.01, maximum=5, metadata={"description": "adjustable breakers: the short-time delay tsd, s"}
+    )
+
     @validates_schema
     def standard_or_points(self, data, **kwargs):
-        if ("standard" in data) == ("curve_points" in data):
-            raise ValidationError("give either a standard or curve_points", "standard")
+        if "standard" not in data and "curve_points" not in data:
+            raise ValidationError("give a standard, or curve_points for a device of your own", "standard")
+        if "standard" in data and "curve_points" in data and not catalogue.takes_curve_points(data["standard"]):
+            raise ValidationError(
+                "give either a standard or curve_points (the maker's points only beside settings)", "curve_points"
+            )
 
     @post_load
     def make(self, data, **kwargs):

@@ -12,6 +12,8 @@ from dataclasses import dataclass
 from functools import lru_cache
 from typing import Any
 
+import numpy as np
+
 from . import conductors as cond
 from .datafiles import core_table
 from .devices import catalogue
@@ -179,6 +181,25 @@ def voltage_drop_mv_per_a_m(
     if reactance_mohm_per_m is not None:
         basis += f", with reactance {reactance_mohm_per_m:g} mohm/m"
     return math.hypot(r, x), basis
+
+
+def drop_v(mv_per_a_m: Any, design_current_a: Any, length_m: Any, parallel_cables: Any = 1, ring: Any = False):
+    """Voltage drop of a run, V: mV/A/m x Ib x L / 1000, shared by cables in parallel; on a ring a quarter of
+    the whole ring's length (the load taken at the far point, fed from both ends: common practice)."""
+    share = np.where(np.asarray(ring, dtype=bool), 0.25, 1.0)
+    return (
+        np.asarray(mv_per_a_m)
+        * np.asarray(design_current_a)
+        * np.asarray(length_m)
+        * share
+        / 1000.0
+        / np.asarray(parallel_cables)
+    )
+
+
+def nominal_voltage_v(u0_v: Any, phases: Any) -> np.ndarray:
+    """The voltage a drop is a percentage of: U0 single-phase, the line voltage sqrt(3) U0 three-phase."""
+    return np.where(np.asarray(phases) == 3, math.sqrt(3.0), 1.0) * np.asarray(u0_v, dtype=float)
 
 
 @lru_cache(maxsize=8)

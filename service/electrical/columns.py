@@ -71,6 +71,14 @@ class CircuitColumns:
     reduced_low_voltage: np.ndarray
     role: np.ndarray
     load: np.ndarray
+    phases: np.ndarray  # the circuit's: 1 or 3
+    supply_phases: np.ndarray
+    use: np.ndarray
+    supply_kind: np.ndarray
+    drop_limit_percent: np.ndarray  # the circuit's own limit, NaN for Appendix 4's
+    upstream_drop_percent: np.ndarray  # from the origin to the circuit's board
+    three_phase_ka: np.ndarray  # stated symmetrical three-phase fault at the origin of the circuit
+    earth_fault_max_ka: np.ndarray  # stated largest earth fault there
     rating_a: np.ndarray
     design_current_a: np.ndarray
     r1r2_given_ohm: np.ndarray
@@ -120,7 +128,15 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         reduced_low_voltage=np.array([s.reduced_low_voltage for s in supplies], dtype=bool),
         role=np.array([c.role for c in circuits], dtype=object),
         load=np.array([c.load for c in circuits], dtype=object),
-        rating_a=np.array([c.device.rating_a for c in circuits], dtype=float),
+        phases=np.array([c.phases for c in circuits], dtype=np.int8),
+        supply_phases=np.array([s.phases for s in supplies], dtype=np.int8),
+        use=np.array([c.use for c in circuits], dtype=object),
+        supply_kind=np.array([s.supply_kind for s in supplies], dtype=object),
+        drop_limit_percent=_optional([c.voltage_drop_limit_percent for c in circuits]),
+        upstream_drop_percent=np.array([s.voltage_drop_percent for s in supplies], dtype=float),
+        three_phase_ka=_optional([s.three_phase_fault_current_ka for s in supplies]),
+        earth_fault_max_ka=_optional([s.max_earth_fault_current_ka for s in supplies]),
+        rating_a=np.array([d.overload_current_a for d in devices], dtype=float),  # In, or Ir where adjustable
         design_current_a=_optional([c.design_current_a for c in circuits]),
         r1r2_given_ohm=_optional([c.r1_plus_r2_ohm for c in circuits]),
         conductors=cond.conductor_columns([c.conductors for c in circuits]),
@@ -169,6 +185,7 @@ def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
         _device_problem(circuit.device),
         None if c is None else _conductor_problem(cond.arrangement(c), c.parallel_cables),
         _rules_problem(supply, circuit.role, circuit.load, circuit.device.rating_a),
+        _phase_problem(supply.phases, circuit.phases, circuit.phase, circuit.use, supply.supply_kind),
         None if circuit.installation is None else _installation_problem(circuit.installation, circuit.phases),
     ):
         if problem is not None:
@@ -198,6 +215,29 @@ def _conductor_problem(arrangement: tuple, parallel_cables: int) -> ElectricalEr
         cond.constants_of(*arrangement)
     except ElectricalError as err:
         return err.within("circuit", "conductors")
+    return None
+
+
+PHASES = ("L1", "L2", "L3")
+
+
+@lru_cache(maxsize=64)
+def _phase_problem(
+    supply_phases: int, phases: int, phase: str | None, use: str, supply_kind: str
+) -> ElectricalError | None:
+    """A three-phase circuit needs a three-phase supply; a single-phase one names its phase on one (L1, L2, L3)."""
+    if supply_phases not in (1, 3):
+        return InvalidInput(("supply", "phases"), "phases is 1 or 3")
+    if phases not in (1, 3):
+        return InvalidInput(("circuit", "phases"), "phases is 1 or 3")
+    if phases == 3 and supply_phases != 3:
+        return InvalidInput(("circuit", "phases"), "a three-phase circuit needs a three-phase supply (supply.phases 3)")
+    if phase is not None and (phase not in PHASES or phases == 3):
+        return InvalidInput(("circuit", "phase"), f"a single-phase circuit's phase is one of {list(PHASES)}")
+    if use not in capacity.USES:
+        return InvalidInput(("circuit", "use"), f"use is one of {list(capacity.USES)}")
+    if supply_kind not in capacity.SUPPLY_KINDS:
+        return InvalidInput(("supply", "supply_kind"), f"supply_kind is one of {list(capacity.SUPPLY_KINDS)}")
     return None
 
 

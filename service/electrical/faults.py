@@ -87,6 +87,10 @@ CAUTIONS = {
         "The line-neutral loop at the origin was taken as Ze (TN: on the safe side where the neutral path is no "
         "worse than the earth path): state line_neutral_loop_ohm."
     ),
+    "ik3-twice": (
+        "The symmetrical three-phase fault current was taken as twice the line-neutral value (common practice for a "
+        "typical supply): state supply.three_phase_fault_current_ka."
+    ),
 }
 
 
@@ -100,7 +104,8 @@ class FaultLoop:
     ``zpn_ohm``: the line-neutral loop at the origin (NaN where it cannot be known);
     ``line_neutral_min_a`` = U0 x Cmin / (Zpn + R1 + Rn), conductors hot, at the far end (never overestimated);
     ``line_neutral_max_a``: the largest line-neutral current at the origin (never underestimated);
-    ``pfc_ka``: the larger of line-neutral and line-earth at the origin (434.1), with its basis.
+    ``pfc_ka``: the larger of line-neutral and line-earth at the origin (434.1), with its basis; for a
+    three-phase circuit the symmetrical three-phase value ``three_phase_a`` where it is larger.
     """
 
     r1r2_ohm: np.ndarray
@@ -112,6 +117,7 @@ class FaultLoop:
     zpn_basis: np.ndarray
     line_neutral_min_a: np.ndarray
     line_neutral_max_a: np.ndarray
+    three_phase_a: np.ndarray
     pfc_ka: np.ndarray
     pfc_basis: list[str]
     cautions: list[tuple[np.ndarray, str]]
@@ -127,6 +133,7 @@ class FaultLoop:
             "prospective_fault_current_basis": self.pfc_basis,
             "line_neutral_loop_ohm": self.zpn_ohm,
             "min_short_circuit_current_a": self.line_neutral_min_a,
+            "three_phase_fault_current_ka": self.three_phase_a / 1000.0,
         }
 
 
@@ -174,11 +181,20 @@ def prospective_fault_current_ka(u0_v: Any, ze_ohm: Any, tt: Any, stated_ka: Any
     return largest / 1000.0, basis, known
 
 
+def _three_phase(cols: CircuitColumns, line_neutral_max_a: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """Ik3 at the circuit's origin, A: stated, else (a three-phase supply) twice the line-neutral value (common
+    practice), else NaN; and where the rule of thumb was used."""
+    stated = cols.three_phase_ka * 1000.0
+    twice = (cols.supply_phases == 3) & np.isnan(stated) & np.isfinite(line_neutral_max_a)
+    return np.where(twice, 2.0 * line_neutral_max_a, stated), twice
+
+
 def fault_loop(cols: CircuitColumns) -> FaultLoop:
     """Zs, the earth fault currents, the line-neutral loop and currents, and the prospective fault current.
 
-    BS 7671:2018 411.4.4 / 411.5.4 (Zs), 434.1 (the larger of line-neutral and line-earth), 434.5.2 (the
-    smallest short-circuit current at the far end); IEC 60909-0 voltage factors: Cmin for the smallest
+    BS 7671:2018 411.4.4 / 411.5.4 (Zs), 434.1 (the larger of line-neutral and line-earth; for a three-phase
+    circuit the three-phase value), 434.5.2 (the smallest short-circuit current at the far end: line-neutral,
+    on the safe side for a three-phase circuit too); IEC 60909-0 voltage factors: Cmin for the smallest
     currents, cmax for the largest.
     """
     c = cols.conductors
@@ -186,11 +202,16 @@ def fault_loop(cols: CircuitColumns) -> FaultLoop:
     r1r2 = np.where(np.isnan(cols.r1r2_given_ohm), c.r1 + c.r2, cols.r1r2_given_ohm)
     zs = cols.ze_ohm + r1r2
     i_nom = cols.u0_v / zs
-    ef_max = c_max * cols.u0_v / cols.ze_ohm
+    ef_max = np.where(
+        np.isnan(cols.earth_fault_max_ka), c_max * cols.u0_v / cols.ze_ohm, cols.earth_fault_max_ka * 1000
+    )
     zpn, zpn_basis = _line_neutral_origin(cols)
     pfc, basis, known = prospective_fault_current_ka(
         cols.u0_v, cols.ze_ohm, cols.tt, cols.pfc_stated_ka, cols.line_neutral_loop_ohm, c_max
     )
+    ik3, twice = _three_phase(cols, pfc * 1000.0)
+    three = (cols.phases == 3) & np.isfinite(ik3)
+    pfc = np.where(three, np.fmax(pfc, ik3 / 1000.0), pfc)
     only_ze = ~known[0] & ~known[1] & known[2]
     return FaultLoop(
         r1r2_ohm=r1r2,
@@ -202,12 +223,14 @@ def fault_loop(cols: CircuitColumns) -> FaultLoop:
         zpn_basis=zpn_basis,
         line_neutral_min_a=c_min() * cols.u0_v / (zpn + c.r1 + c.rn),
         line_neutral_max_a=pfc * 1000.0,
+        three_phase_a=ik3,
         pfc_ka=pfc,
         pfc_basis=basis,
         cautions=[
             (only_ze, CAUTIONS["pfc-from-ze"]),
             (np.isnan(cols.line_neutral_loop_ohm) & ~np.isnan(cols.pfc_stated_ka), CAUTIONS["zpn-from-pfc"]),
             (np.isnan(cols.line_neutral_loop_ohm) & np.isnan(cols.pfc_stated_ka) & ~cols.tt, CAUTIONS["zpn-from-ze"]),
+            (twice & (cols.phases == 3), CAUTIONS["ik3-twice"]),
         ],
     )
 

@@ -23,6 +23,11 @@ class Supply:
     current_kind: str = "ac"
     reduced_low_voltage: bool = False
     line_neutral_loop_ohm: float | None = None  # at the origin, measured or declared
+    phases: int = 1
+    three_phase_fault_current_ka: float | None = None  # symmetrical, where known
+    max_earth_fault_current_ka: float | None = None  # the largest earth fault (default U0 x cmax / Ze)
+    supply_kind: str = "public"  # for the voltage drop limits (Appendix 4, 6.4)
+    voltage_drop_percent: float = 0.0  # the drop from the origin to this point (a board of an installation)
 
 
 @dataclass(frozen=True)
@@ -45,11 +50,24 @@ class DeviceSpec:
     rcd: Rcd | None = None
     let_through_a2s: float | None = None
     energy_limiting_class: int | None = None  # 1, 2 or 3, as marked on a BS EN 60898 / 61009 breaker
+    ir_a: float | None = None  # adjustable breakers (BS EN 60947-2): long-time setting
+    ii_a: float | None = None  # instantaneous setting
+    isd_a: float | None = None  # short-time pickup
+    tsd_s: float | None = None  # short-time delay
 
     @property
     def curve_key(self) -> tuple:
         """What decides the overcurrent characteristic (circuits sharing it share one lookup)."""
-        return (self.standard, self.type, float(self.rating_a), self.curve_points)
+        return (
+            self.standard,
+            self.type,
+            float(self.rating_a),
+            self.curve_points,
+            self.ir_a,
+            self.ii_a,
+            self.isd_a,
+            self.tsd_s,
+        )
 
 
 @dataclass(frozen=True)
@@ -101,3 +119,6 @@ class Circuit:
     installation: CableRun | None = None
     conditional_short_circuit_ka: float | None = None  # the board's rating with its upstream device (BS EN 61439-3)
     phases: int = 1
+    phase: str | None = None  # L1, L2 or L3 for a single-phase circuit of a three-phase board
+    use: str = "other"  # lighting or other, for the voltage drop limit
+    voltage_drop_limit_percent: float | None = None  # in place of Appendix 4's

@@ -24,6 +24,7 @@ from .faults import c_min
 from .model import Circuit, Conductors, DeviceSpec, Supply
 from .results import CircuitResult
 from .sizing import (
+    RULE_CHECKS,
     RULED_OUT_ORDER,
     CableRun,
     Demand,
@@ -69,10 +70,8 @@ def size_with_reach(
     return result, max_length(supply, circuit, inst, demand)
 
 
-def ruling(
-    supply: Supply, circuit: Circuit, lengths: Any, vd_at_1m: dict[str, Any] | None
-) -> list[tuple[str | None, float]]:
-    """For each length (m): the first check that fails (None where all pass) and the smallest margin (%).
+def ruling(supply: Supply, circuit: Circuit, lengths: Any) -> list[tuple[str | None, float]]:
+    """For each length (m): the first rule that fails (None where all pass) and the smallest margin (%).
 
     The margin is positive where every check passes and negative where one fails (the failing check's
     margin, or -1 where it has none), so that it changes sign at the longest run.
@@ -82,28 +81,42 @@ def ruling(
         for L in np.atleast_1d(lengths)
     ]
     out = []
-    for L, outcome in zip(np.atleast_1d(lengths), check_circuits(supply, items, exact=True), strict=True):
+    for outcome in check_circuits(supply, items, exact=True):
         if isinstance(outcome, CircuitFailure):
             out.append((outcome.field, -1.0))
             continue
-        vd = None if vd_at_1m is None else dict(vd_at_1m, percent=vd_at_1m["percent"] * L)
-        out.append((ruled_out_by(outcome, vd)[0], _smallest_margin(outcome, vd)))
+        out.append((ruled_out_by(outcome)[0], _smallest_margin(outcome)))
     return out
 
 
-def _smallest_margin(result: CircuitResult, vd: dict[str, Any] | None) -> float:
+def _smallest_margin(result: CircuitResult) -> float:
     margins = []
+    rules = {RULE_CHECKS.get(name, name): name for name in RULED_OUT_ORDER}
     for c in result.checks:
-        if c.check not in RULED_OUT_ORDER:
+        if c.check not in rules:
             continue
         m = c.margin_percent
-        if rules_out(c.check, c.verdict):
+        if rules_out(rules[c.check], c.verdict):
             margins.append(m if m is not None and m < 0 else -1.0)
         elif c.verdict == Verdict.PASS:
             margins.append(100.0 if m is None else max(m, 0.0))
-    if vd is not None:
-        margins.append((vd["limit_percent"] - vd["percent"]) / vd["limit_percent"] * 100.0)
     return min(margins, default=100.0)
+
+
+def _as_run(supply: Supply, circuit: Circuit, inst: CableRun | None, demand: Demand | None) -> tuple[Supply, Circuit]:
+    """The supply and circuit to search over: with the cable's run, use and limit where the request gives them."""
+    if demand is None:
+        return supply, circuit
+    ib = circuit.design_current_a if demand.design_current_a is None else demand.design_current_a
+    run = circuit.installation if inst is None else inst
+    return dataclasses.replace(supply, supply_kind=demand.supply_kind), dataclasses.replace(
+        circuit,
+        installation=run,
+        design_current_a=ib,
+        use=demand.use,
+        voltage_drop_limit_percent=demand.voltage_drop_limit_percent,
+        phases=demand.phases,
+    )
 
 
 def max_length(
@@ -129,15 +142,16 @@ def _max_length(
 ) -> dict[str, Any]:
     if circuit.conductors is None:
         raise InvalidInput(("circuit", "conductors"), "the longest run needs the conductors")
-    candidates, vd_1m = _closed_forms(supply, circuit, inst, demand)
+    candidates = _closed_forms(supply, circuit, inst, demand)
+    supply, circuit = _as_run(supply, circuit, inst, demand)
 
     def passes(length: float) -> bool:
-        return ruling(supply, circuit, [length], vd_1m)[0][0] is None
+        return ruling(supply, circuit, [length])[0][0] is None
 
     start = float(circuit.conductors.length_m)
     if not passes(start):
         grid = np.linspace(0.0, MAX_LENGTH_M, 257)
-        names = ruling(supply, circuit, grid, vd_1m)
+        names = ruling(supply, circuit, grid)
         passing = [L for L, (name, _) in zip(grid, names, strict=True) if name is None]
         if not passing:
             return {
@@ -148,9 +162,7 @@ def _max_length(
             }
         start = float(passing[0])
     guess = max(start, min([MAX_LENGTH_M] + list(candidates.values())))
-    (at_guess, _), (beyond, _) = ruling(
-        supply, circuit, [guess * (1 - 1e-9), min(guess * 1.01, MAX_LENGTH_M * 1.01)], vd_1m
-    )
+    (at_guess, _), (beyond, _) = ruling(supply, circuit, [guess * (1 - 1e-9), min(guess * 1.01, MAX_LENGTH_M * 1.01)])
     if at_guess is None and (beyond is not None or guess >= MAX_LENGTH_M):
         return {
             "max_length_m": guess,
@@ -166,10 +178,10 @@ def _max_length(
             "closed_form_m": candidates,
             "method": "every length up to the schema's limit passes",
         }
-    found = _boundary(lambda length: ruling(supply, circuit, [length], vd_1m)[0], lo, hi)
+    found = _boundary(lambda length: ruling(supply, circuit, [length])[0], lo, hi)
     return {
         "max_length_m": found,
-        "limited_by": ruling(supply, circuit, [found * 1.01], vd_1m)[0][0],
+        "limited_by": ruling(supply, circuit, [found * 1.01])[0][0],
         "closed_form_m": candidates,
         "method": "Brent's method on the smallest margin of the whole check",
     }
@@ -196,7 +208,7 @@ def _boundary(judge, lo: float, hi: float) -> float:
 
 
 def _closed_forms(supply: Supply, circuit: Circuit, inst: CableRun | None, demand: Demand | None):
-    """The closed-form lengths (max Zs, voltage drop) and the voltage drop of one metre, where asked for."""
+    """The closed-form lengths: max Zs, the far end's short circuit, and the voltage drop where asked for."""
     per_m, r2_per_m, line_neutral_per_m = loop_resistance_per_m(circuit.conductors)
     at_zero = check_circuits(
         supply,
@@ -222,9 +234,8 @@ def _closed_forms(supply: Supply, circuit: Circuit, inst: CableRun | None, deman
             c_min() * supply.u0_v / in_5s - at_zero.line_neutral_loop_ohm
         ) / line_neutral_per_m
     ib = circuit.design_current_a if demand is None or demand.design_current_a is None else demand.design_current_a
-    vd_1m = None
     if inst is not None and demand is not None and ib:
         with installation_paths():
             vd_1m = voltage_drop(inst, demand, circuit.conductors.line_csa_mm2, ib, supply.u0_v, 1.0)
         candidates["voltage-drop"] = vd_1m["limit_percent"] / vd_1m["percent"]
-    return candidates, vd_1m
+    return candidates

@@ -65,8 +65,11 @@ class CircuitResult:
     line_neutral_loop_ohm: float | None
     min_short_circuit_current_a: float | None
     protective_conductor: dict[str, Any]
+    three_phase_fault_current_ka: float | None
+    voltage_drop_from_origin_percent: float | None
     short_circuit: dict[str, Any]
     overload: dict[str, Any]
+    voltage_drop: dict[str, Any]
     checks: list[Check]
     verdict: Verdict
     verdict_scope: dict[str, list[str]]
@@ -190,7 +193,8 @@ def assemble(checked: Checked, scope: Sequence[str] | None = None, exact: bool =
     """
     cols = checked.cols
     n = cols.n
-    figures = lists_of({**checked.loop.figures(), **checked.trip.figures()}, exact)
+    from_checks = {name: col for c in checked.checks for name, col in c.figures.items()}
+    figures = lists_of({**checked.loop.figures(), **checked.trip.figures(), **from_checks}, exact)
     names = list(figures)
     per_check = [_check_records(c, n, exact) for c in checked.checks]
     details = {c.detail[0]: _detail_records(c.detail[1], n, exact) for c in checked.checks if c.detail is not None}

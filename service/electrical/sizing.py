@@ -11,7 +11,6 @@ The longest run of a circuit is in :mod:`service.electrical.reach`.
 from __future__ import annotations
 
 import dataclasses
-import math
 from collections.abc import Iterator
 from contextlib import contextmanager
 from dataclasses import dataclass, field
@@ -121,29 +120,33 @@ def cpc_for(cable: str, line_csa_mm2: float) -> float:
     return float(selection_csa_mm2(line_csa_mm2))
 
 
+RULE_CHECKS = {"capacity": "overload", "voltage-drop": "voltage-drop"}  # the rules that only fail, never block
+
+
 def ruled_out_by(
-    result: CircuitResult, vd: dict[str, Any] | None, lenient: frozenset[str] = frozenset()
+    result: CircuitResult, lenient: frozenset[str] = frozenset()
 ) -> tuple[str | None, float | None, float | None, str | None]:
-    """The first rule, in RULED_OUT_ORDER, that rules this circuit out: the overload check (``capacity``), the
-    voltage drop, then the fault checks (fail, or not-verified unless the check is in ``lenient``).
+    """The first rule, in RULED_OUT_ORDER, that rules this circuit out: the overload check (``capacity``) and
+    the voltage drop where they fail, then the fault checks (fail, or not-verified unless in ``lenient``).
 
     Returns ``(rule, value, limit, unit)``, all None where nothing rules it out.
     """
-    capacity = result.check("overload")
-    if capacity is not None and capacity.verdict == Verdict.FAIL:
-        return "capacity", capacity.value, capacity.limit, capacity.unit
-    if vd is not None and vd["percent"] > vd["limit_percent"] * (1 + 1e-12):
-        return "voltage-drop", vd["percent"], vd["limit_percent"], "%"
-    for name in RULED_OUT_ORDER[2:]:
-        c = result.check(name)
-        if c is not None and rules_out(c.check, c.verdict, lenient):
+    for name in RULED_OUT_ORDER:
+        c = result.check(RULE_CHECKS.get(name, name))
+        if c is not None and rules_out(name, c.verdict, lenient):
             return name, c.value, c.limit, c.unit
     return None, None, None, None
 
 
 def rules_out(name: str, verdict: str, lenient: frozenset[str] = frozenset()) -> bool:
-    """A fault check rules a size out when it fails, or cannot be shown (unless it is lenient)."""
-    return verdict == Verdict.FAIL or (verdict == Verdict.NOT_VERIFIED and name not in lenient)
+    """A rule rules a size out when it fails; a fault check also when it cannot be shown (unless lenient).
+
+    The capacity and the voltage drop rule a size out only by failing: without the data they need (no cable
+    table, say) they say nothing of the size.
+    """
+    if verdict == Verdict.FAIL:
+        return True
+    return verdict == Verdict.NOT_VERIFIED and name not in lenient and name not in RULE_CHECKS
 
 
 def voltage_drop(inst: CableRun, demand: Demand, csa: float, ib: float, u0_v: float, length_m: float) -> dict[str, Any]:
@@ -152,8 +155,8 @@ def voltage_drop(inst: CableRun, demand: Demand, csa: float, ib: float, u0_v: fl
     The limit beside it is the request's, else Appendix 4 section 6.4's for the supply and use.
     """
     mv, basis = cap.voltage_drop_mv_per_a_m(inst.cable, csa, demand.phases, inst.reactance_mohm_per_m)
-    nominal = u0_v if demand.phases == 1 else math.sqrt(3) * u0_v
-    drop = mv * ib * length_m / 1000.0
+    nominal = float(cap.nominal_voltage_v(u0_v, demand.phases))
+    drop = float(cap.drop_v(mv, ib, length_m))
     if demand.voltage_drop_limit_percent is not None:
         limit, limit_basis = float(demand.voltage_drop_limit_percent), "set in the request"
     else:
@@ -192,6 +195,8 @@ def _candidates(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSp
                 installation=inst,
                 phases=demand.phases,
                 conditional_short_circuit_ka=demand.conditional_short_circuit_ka,
+                use=demand.use,
+                voltage_drop_limit_percent=demand.voltage_drop_limit_percent,
             )
         )
         rows.append((size, cpc))
@@ -216,18 +221,25 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
     ib = design_current(demand, supply.u0_v)
     with installation_paths():
         in_a, insulation, circuits, rows = _candidates(supply, demand, inst, device, ib)
-        outcomes = check_circuits(supply, circuits)
-        drops = [voltage_drop(inst, demand, size.csa_mm2, ib, supply.u0_v, demand.length_m) for size, _ in rows]
+        outcomes = check_circuits(dataclasses.replace(supply, supply_kind=demand.supply_kind), circuits)
     lenient = _never_shown(outcomes)
     tried: list[SizeTried] = []
     selected = None
-    for (size, cpc), outcome, vd in zip(rows, outcomes, drops, strict=True):
+    for (size, cpc), outcome in zip(rows, outcomes, strict=True):
         if isinstance(outcome, CircuitFailure):
             tried.append(SizeTried(size.csa_mm2, cpc, Verdict.NOT_VERIFIED, outcome.field, None, None, None))
             continue
-        name, value, limit, unit = ruled_out_by(outcome, vd, lenient)
-        vd = precision.rounded_record(vd)
+        name, value, limit, unit = ruled_out_by(outcome, lenient)
         if name is None:
+            vd = outcome.voltage_drop
+            vd = {
+                "mv_per_a_m": vd["mv_per_a_m"],
+                "basis": vd["mv_basis"],
+                "drop_v": vd["drop_v"],
+                "percent": vd["circuit_percent"],
+                "limit_percent": vd["limit_percent"],
+                "limit_basis": vd["limit_basis"],
+            }
             overload = outcome.overload
             capacity = Capacity(
                 overload["it_a"], overload["iz_a"], overload["factors"], overload["capacity_confidence"]
@@ -257,7 +269,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
 def _never_shown(outcomes: list) -> frozenset[str]:
     """The fault checks that are not-verified for every size tried (the data, not the size, are missing)."""
     results = [o for o in outcomes if not isinstance(o, CircuitFailure)]
-    names = RULED_OUT_ORDER[2:]
+    names = [n for n in RULED_OUT_ORDER if n not in RULE_CHECKS]
     return frozenset(
         n
         for n in names

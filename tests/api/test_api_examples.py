@@ -61,7 +61,10 @@ def test_circuit_check_example(client):
         "protective-conductor",
         "breaking-capacity",
         "overload",
+        "voltage-drop",
     ]
+    # 7.3 mV/A/m (Table 4D5, 6 mm2, from memory) x 26 A x 18 m = 3.42 V = 1.49 % of 230 V
+    assert r["voltage_drop_from_origin_percent"] == 1.49
     assert all(c["verdict"] == "pass" for c in r["checks"])
     assert r["verdict"] == "pass" and r["verdict_scope"]["left_out"] == []
     assert any("competent person" in c for c in r["cautions"])

@@ -70,7 +70,10 @@ def test_oven_radial_b32_passes():
         "protective-conductor",
         "breaking-capacity",
         "overload",
+        "voltage-drop",
     ]
+    # voltage drop: 7.3 mV/A/m (Table 4D5, 6 mm2, from memory) x 28 A x 18 m = 3.68 V = 1.60 % of 230 V <= 5 %
+    assert r.voltage_drop_from_origin_percent == pytest.approx(7.3 * 28 * 18 / 1000 / 230 * 100, abs=0.01)
     assert any("class 3 was taken" in c for c in r.cautions)  # the class was not given: said, with a caution
 
 
@@ -248,7 +251,8 @@ def test_an_earth_fault_only_question_gets_a_clean_answer():
     assert everything.verdict == "not-verified"  # no design current: the overload check cannot be made
     earth_fault = check_circuit(BAKERY, circuit, ["disconnection-time", "max-zs", "protective-conductor"])
     assert earth_fault.verdict == "pass"
-    assert earth_fault.verdict_scope["left_out"] == ["short-circuit", "breaking-capacity", "overload"]
+    left_out = ["short-circuit", "breaking-capacity", "overload", "voltage-drop"]
+    assert earth_fault.verdict_scope["left_out"] == left_out
 
 
 def test_dc_needs_dc_data():

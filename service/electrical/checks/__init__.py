@@ -15,6 +15,7 @@ from .overload import overload
 from .protective_conductor import protective_conductor
 from .rcd import rcd
 from .short_circuit import short_circuit
+from .voltage_drop import voltage_drop
 
 # the order results list them; a step may read the checks before it (the cpc's Table 54.7 alternative
 # stands only where the short-circuit check shows the line conductor protected)
@@ -25,6 +26,7 @@ STEPS: tuple[Step, ...] = (
     protective_conductor,
     breaking_capacity,
     overload,
+    voltage_drop,
     rcd,
 )
 CHECKS: tuple[str, ...] = tuple(step.check_name for step in STEPS)  # type: ignore[attr-defined]

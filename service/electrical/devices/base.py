@@ -37,6 +37,12 @@ class Device:
     residual: bool = False
     default_breaking_capacity_ka: float | None = None
     default_breaking_capacity_basis: str | None = None
+    setting_a: float | None = None  # the current the overload rule and Table 41.1's scope read (Ir where adjustable)
+
+    @property
+    def overload_current_a(self) -> float:
+        """In for Ib <= In <= Iz: the rating, or the long-time setting of an adjustable breaker."""
+        return self.rating_a if self.setting_a is None else self.setting_a
 
     @property
     def label(self) -> str:

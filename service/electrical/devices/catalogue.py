@@ -13,11 +13,11 @@ import numpy as np
 
 from ..errors import UnknownDevice
 from ..model import DeviceSpec
-from . import breakers, fuses
+from . import adjustable, breakers, fuses
 from .base import Device, Family
 from .user_curve import user_device
 
-FAMILIES: tuple[Family, ...] = (breakers.FAMILY, fuses.FAMILY)
+FAMILIES: tuple[Family, ...] = (breakers.FAMILY, fuses.FAMILY, adjustable.FAMILY)
 
 
 def standards() -> list[str]:
@@ -47,13 +47,19 @@ def resolve(spec: DeviceSpec) -> Device:
 
     Raises UnknownDevice (or InvalidInput for bad curve points) with a path relative to the device.
     """
-    if spec.curve_points is not None:
-        if spec.standard is not None:
-            raise UnknownDevice("curve_points", "give either a standard or curve_points, not both")
-        return user_device(float(spec.rating_a), tuple((float(c), float(t)) for c, t in spec.curve_points))
     if spec.standard is None:
-        raise UnknownDevice("standard", "a device needs a standard, or curve_points for a device of your own")
-    return family_of(spec.standard).build(spec)
+        if spec.curve_points is None:
+            raise UnknownDevice("standard", "a device needs a standard, or curve_points for a device of your own")
+        return user_device(float(spec.rating_a), tuple((float(c), float(t)) for c, t in spec.curve_points))
+    family = family_of(spec.standard)
+    if spec.curve_points is not None and not takes_curve_points(spec.standard):
+        raise UnknownDevice("curve_points", "give either a standard or curve_points, not both")
+    return family.build(spec)
+
+
+def takes_curve_points(standard: str) -> bool:
+    """Whether a device of ``standard`` may carry the maker's curve points beside its standard (adjustable breakers)."""
+    return getattr(family_of(standard), "takes_curve_points", False)
 
 
 def ratings_for(standard: str) -> list[float]:
@@ -77,6 +83,9 @@ def device_by_id(device_id: str, rating_a: float) -> Device:
     """The device of a catalogue id (e.g. ``bs-en-60898-b``) at ``rating_a``."""
     for entry in catalogue():
         if entry["device_id"] == device_id:
+            family = family_of(entry["standard"])
+            if hasattr(family, "catalogue_spec"):
+                return resolve(family.catalogue_spec(float(rating_a)))
             return resolve(DeviceSpec(rating_a=float(rating_a), standard=entry["standard"], type=entry["type"]))
     raise UnknownDevice(
         "device_id", f"unknown device {device_id!r}; use one of {[e['device_id'] for e in catalogue()]}"

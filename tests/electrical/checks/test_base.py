@@ -32,6 +32,7 @@ def test_every_step_is_named_once_in_results_order():
         "protective-conductor",
         "breaking-capacity",
         "overload",
+        "voltage-drop",
         "rcd",
     )
     assert len(set(CHECKS)) == len(STEPS)
