@@ -8,6 +8,7 @@ from marshmallow import Schema, fields, validate
 from ..electrical import protective
 from ..electrical.checks import CHECKS
 from ..electrical.devices.characteristic import BOUNDS
+from ..electrical.selectivity import SELECTIVE
 from ..electrical.verdicts import VERDICTS, Verdict
 from .errors import ProblemSchema
 
@@ -90,6 +91,37 @@ class OverloadResultSchema(Schema):
     basis = fields.String(required=True)
 
 
+class VoltageDropResultSchema(Schema):
+    mv_per_a_m = nullable_number("the cable's voltage drop per ampere and metre (Appendix 4 tables, or given)")
+    mv_basis = fields.String(allow_none=True, required=True)
+    drop_v = nullable_number("mV/A/m x Ib x L / 1000 (a ring: a quarter of the loop)")
+    circuit_percent = nullable_number("of the nominal voltage (U0 single-phase, U0 x √3 three-phase)")
+    upstream_percent = fields.Float(required=True, metadata={"description": "the drop from the origin to the board"})
+    from_origin_percent = nullable_number()
+    limit_percent = nullable_number("Appendix 4 Table 4Ab, or the request's limit")
+    limit_basis = fields.String(allow_none=True, required=True)
+    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
+    basis = fields.String(required=True)
+
+
+class SelectivityResultSchema(Schema):
+    with_ = fields.String(
+        allow_none=True, required=True, data_key="with", metadata={"description": "the upstream device's id"}
+    )
+    selectivity = fields.String(required=True, validate=validate.OneOf(SELECTIVE))
+    up_to_a = nullable_number("only the downstream device operates up to this current; null: at any or none")
+    max_fault_current_a = nullable_number("the largest fault at the downstream device (the board's PFC)")
+    basis = fields.String(allow_none=True, required=True, metadata={"description": "how the pair's limit is known"})
+    residual = fields.String(
+        allow_none=True,
+        required=True,
+        validate=validate.OneOf(SELECTIVE),
+        metadata={"description": "where both devices have an RCD"},
+    )
+    residual_basis = fields.String(allow_none=True, required=True)
+    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
+
+
 class FactorSchema(Schema):
     factor = fields.Float(required=True)
     basis = fields.String(required=True)
@@ -131,6 +163,15 @@ class CircuitResultSchema(Schema):
     protective_conductor = fields.Nested(ProtectiveConductorResultSchema, required=True)
     short_circuit = fields.Nested(ShortCircuitResultSchema, required=True)
     overload = fields.Nested(OverloadResultSchema, required=True)
+    three_phase_fault_current_ka = nullable_number("symmetrical, at the origin of the circuit; null where unknown")
+    voltage_drop_from_origin_percent = nullable_number("the board's drop from the origin plus the circuit's")
+    voltage_drop = fields.Nested(VoltageDropResultSchema, required=True)
+    selectivity = fields.Nested(
+        SelectivityResultSchema,
+        allow_none=True,
+        required=True,
+        metadata={"description": "against the device feeding the circuit's board; null where that is not known"},
+    )
     checks = fields.List(fields.Nested(CheckResultSchema), required=True)
     verdict = fields.String(
         required=True,

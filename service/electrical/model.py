@@ -122,3 +122,39 @@ class Circuit:
     phase: str | None = None  # L1, L2 or L3 for a single-phase circuit of a three-phase board
     use: str = "other"  # lighting or other, for the voltage drop limit
     voltage_drop_limit_percent: float | None = None  # in place of Appendix 4's
+    upstream_device: DeviceSpec | None = None  # the device feeding the circuit's board (selectivity, 536.4)
+    upstream_id: str | None = None
+    selectivity_limit_a: float | None = None  # the maker's selectivity limit for the pair
+    selectivity_required: bool = False  # a fault here must not take out the board above
+    feeds_board: str | None = None  # the id of the board this circuit supplies (a sub-main)
+    diversity: float | None = None  # the share of the design current counted in the board's demand
+
+
+@dataclass(frozen=True)
+class Board:
+    """A board of an installation: its circuits, the circuit feeding it (or none at the origin), its ratings.
+
+    The origin board has no ``fed_from``; its ``device`` is the main device at the origin, used for the
+    selectivity of its own circuits. ``diversity`` scales the board's summed demand (Appendix 1, the
+    designer's allowance); a stated ``design_current_a`` overrides the sum. ``conditional_short_circuit_ka``
+    is the assembly's conditional rating with its upstream device (BS EN 61439-3), given to its circuits.
+    """
+
+    id: str
+    circuits: tuple[Circuit, ...]
+    fed_from: str | None = None  # the id of the circuit feeding the board
+    device: DeviceSpec | None = None
+    device_id: str | None = None
+    diversity: float = 1.0
+    design_current_a: float | None = None
+    conditional_short_circuit_ka: float | None = None
+    selectivity_required: bool = False
+
+
+@dataclass(frozen=True)
+class Installation:
+    """The supply at the origin and the boards fed from it, as a tree through the circuits' ``feeds_board``."""
+
+    supply: Supply
+    boards: tuple[Board, ...]
+    id: str | None = None

@@ -70,6 +70,7 @@ class CircuitResult:
     short_circuit: dict[str, Any]
     overload: dict[str, Any]
     voltage_drop: dict[str, Any]
+    selectivity: dict[str, Any]
     checks: list[Check]
     verdict: Verdict
     verdict_scope: dict[str, list[str]]
@@ -143,14 +144,18 @@ def _check_records(check: CheckColumns, n: int, exact: bool) -> list[Check | Non
     ]
 
 
-def _detail_records(columns: Mapping[str, Any], n: int, exact: bool) -> list[dict[str, Any]]:
+def _detail_records(check: CheckColumns, n: int, exact: bool) -> list[dict[str, Any] | None]:
+    """The check's detail per circuit, None where the check does not apply."""
+    columns = check.detail[1]
     cells = lists_of({k: v for k, v in columns.items() if k != "verdict"}, exact)
     names = list(cells)
     rows = [dict(zip(names, row, strict=True)) for row in zip(*(cells[name] for name in names), strict=True)]
     rows = rows or [{} for _ in range(n)]
     for row, v in zip(rows, verdicts.decode(columns["verdict"]), strict=True):
         row["verdict"] = v
-    return rows
+    if check.applies is None:
+        return rows
+    return [row if a else None for row, a in zip(rows, np.asarray(check.applies, bool).tolist(), strict=True)]
 
 
 def _cautions(checked: Checked) -> list[list[str]]:
@@ -162,26 +167,29 @@ def _cautions(checked: Checked) -> list[list[str]]:
 
 
 def _scope(checked: Checked, scope: Sequence[str] | None) -> tuple[np.ndarray, list[dict[str, list[str]]]]:
-    """Overall verdict codes over the checks in scope (all where ``scope`` is None), and what each covered."""
+    """Overall verdict codes over the checks that count and are in scope, and what each result covered.
+
+    ``covered``: the checks the verdict rests on; ``left_out``: the checks reported but outside it (not in the
+    request's ``checks``, or reported only, like selectivity where it is not required).
+    """
     n = checked.cols.n
     applies = [np.ones(n, bool) if c.applies is None else np.asarray(c.applies, bool) for c in checked.checks]
-    inside = [scope is None or c.check in scope for c in checked.checks]
+    counted = [
+        a & (True if c.counts is None else np.asarray(c.counts, bool)) & (scope is None or c.check in scope)
+        for c, a in zip(checked.checks, applies, strict=True)
+    ]
     codes = np.vstack(
-        [
-            np.where(a & wanted, c.verdict, verdicts.PASS)
-            for c, a, wanted in zip(checked.checks, applies, inside, strict=True)
-        ]
+        [np.where(a, c.verdict, verdicts.PASS) for c, a in zip(checked.checks, counted, strict=True)]
     ).max(axis=0)
-    table = np.vstack(applies)
-    scopes = []
-    for i in range(n):
-        names = [c.check for c, row in zip(checked.checks, table[:, i], strict=True) if row]
-        scopes.append(
-            {
-                "covered": [x for x in names if scope is None or x in scope],
-                "left_out": [x for x in names if scope is not None and x not in scope],
-            }
-        )
+    shown, counts = np.vstack(applies), np.vstack(counted)
+    names = [c.check for c in checked.checks]
+    scopes = [
+        {
+            "covered": [x for x, k in zip(names, counts[:, i], strict=True) if k],
+            "left_out": [x for x, a, k in zip(names, shown[:, i], counts[:, i], strict=True) if a and not k],
+        }
+        for i in range(n)
+    ]
     return codes, scopes
 
 
@@ -197,7 +205,7 @@ def assemble(checked: Checked, scope: Sequence[str] | None = None, exact: bool =
     figures = lists_of({**checked.loop.figures(), **checked.trip.figures(), **from_checks}, exact)
     names = list(figures)
     per_check = [_check_records(c, n, exact) for c in checked.checks]
-    details = {c.detail[0]: _detail_records(c.detail[1], n, exact) for c in checked.checks if c.detail is not None}
+    details = {c.detail[0]: _detail_records(c, n, exact) for c in checked.checks if c.detail is not None}
     codes, scopes = _scope(checked, scope)
     overall = verdicts.decode(codes)
     summaries = {id(d): d.summary() for d in {id(d): d for d in cols.devices}.values()}

@@ -14,6 +14,7 @@ from .max_zs import max_zs
 from .overload import overload
 from .protective_conductor import protective_conductor
 from .rcd import rcd
+from .selectivity import selectivity_check
 from .short_circuit import short_circuit
 from .voltage_drop import voltage_drop
 
@@ -28,6 +29,7 @@ STEPS: tuple[Step, ...] = (
     overload,
     voltage_drop,
     rcd,
+    selectivity_check,
 )
 CHECKS: tuple[str, ...] = tuple(step.check_name for step in STEPS)  # type: ignore[attr-defined]
 

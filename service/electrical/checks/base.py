@@ -50,6 +50,7 @@ class CheckColumns:
     cautions: list[tuple[np.ndarray, str]] = field(default_factory=list)
     device_data: bool = False  # rests on the overcurrent device's (a.c.) data: not-verified on d.c. without d.c. data
     figures: dict[str, Any] = field(default_factory=dict)  # top-level figures of the circuit result it gives
+    counts: np.ndarray | None = None  # where it counts in the overall verdict (None: wherever it applies)
 
     def __post_init__(self) -> None:
         if self.margin_percent is None:

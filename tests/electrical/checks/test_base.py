@@ -34,5 +34,6 @@ def test_every_step_is_named_once_in_results_order():
         "overload",
         "voltage-drop",
         "rcd",
+        "selectivity",
     )
     assert len(set(CHECKS)) == len(STEPS)

@@ -28,8 +28,13 @@ def test_ia_for_a_required_time_is_the_pickup_at_its_upper_tolerance():
 
 
 def test_the_makers_thermal_points_replace_the_flat_envelope():
-    maker = DeviceSpec(rating_a=250, standard="BS EN 60947-2", ir_a=200, ii_a=2000,
-                       curve_points=((260.0, 3000.0), (600.0, 60.0), (1200.0, 8.0)))
+    maker = DeviceSpec(
+        rating_a=250,
+        standard="BS EN 60947-2",
+        ir_a=200,
+        ii_a=2000,
+        curve_points=((260.0, 3000.0), (600.0, 60.0), (1200.0, 8.0)),
+    )
     t, _ = resolve(maker).time_at([600, 1200])
     assert t.tolist() == [60, 8]
 

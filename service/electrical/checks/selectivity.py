@@ -1,0 +1,78 @@
+"""The selectivity step: each circuit's device against the device that feeds its board (BS 7671:2018 536.4).
+
+Reported wherever the upstream device is known (a circuit of an installation's board); it counts in the
+circuit's verdict only where selectivity is required (``selectivity_required``: a fault here must not take
+out the board above). ``total`` passes; ``partial`` (the largest fault at the device can exceed the limit)
+and ``none`` fail; ``not-verified`` where standard data cannot show it. The largest fault at the device is
+the prospective fault current at its board (434.1: line-neutral, line-earth or three-phase, the largest).
+The rules are in :mod:`service.electrical.selectivity`.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .. import selectivity, verdicts
+from ..columns import CircuitColumns
+from ..faults import FaultLoop
+from ..response import DeviceResponse
+from ..selectivity import Selective
+from .base import CheckColumns, Earlier, check_step
+
+BASIS = "BS 7671:2018 536.4: a fault on this circuit clears without operating the device that feeds its board"
+
+
+def _pairs(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
+    limit, basis = np.full(cols.n, np.nan), np.full(cols.n, None, dtype=object)
+    for i, circuit in enumerate(cols.circuits):
+        if circuit.upstream_device is not None:
+            pair = selectivity.pair_limit(circuit.device, circuit.upstream_device, circuit.selectivity_limit_a)
+            limit[i], basis[i] = pair.limit_a, pair.basis
+    return limit, basis
+
+
+def _residual(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
+    words, bases = np.full(cols.n, None, dtype=object), np.full(cols.n, None, dtype=object)
+    for i, circuit in enumerate(cols.circuits):
+        up = circuit.upstream_device
+        words[i], bases[i] = selectivity.rcd_pair(circuit.device.rcd, None if up is None else up.rcd)
+    return words, bases
+
+
+@check_step("selectivity")
+def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
+    """Total selectivity passes; partial or none fails; not-verified where the data cannot show it."""
+    has_upstream = np.array([c.upstream_device is not None for c in cols.circuits], dtype=bool)
+    limit, basis = _pairs(cols)
+    max_fault_a = loop.pfc_ka * 1000.0
+    word, up_to = selectivity.verdicts_of(limit, max_fault_a)
+    rcd_word, rcd_basis = _residual(cols)
+    verdict = np.select(
+        [word == Selective.NOT_VERIFIED, (word == Selective.TOTAL) & (rcd_word != Selective.NONE)],
+        [verdicts.NOT_VERIFIED, verdicts.PASS],
+        verdicts.FAIL,
+    ).astype(np.int8)
+    upstream = np.array([c.upstream_id for c in cols.circuits], dtype=object)
+    detail = {
+        "with": upstream,
+        "verdict": verdict,
+        "selectivity": word,
+        "up_to_a": up_to,
+        "max_fault_current_a": max_fault_a,
+        "basis": basis,
+        "residual": rcd_word,
+        "residual_basis": rcd_basis,
+    }
+    required = np.array([c.selectivity_required for c in cols.circuits], dtype=bool)
+    return CheckColumns(
+        "selectivity",
+        "A",
+        verdict,
+        max_fault_a,
+        np.where(np.isinf(limit), np.nan, limit),
+        np.full(cols.n, BASIS, dtype=object),
+        basis,
+        applies=has_upstream,
+        counts=required,
+        detail=("selectivity", detail),
+    )
