@@ -27,6 +27,7 @@ from .api import (
     docs,
     errors,
     health,
+    installation_views,
     measurement_views,
     metrics,
     question_views,
@@ -149,6 +150,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     api.register_converter(NumberConverter, lambda converter: {"type": "number", "minimum": 0})
     for blueprint in (
         circuit_views.blp,
+        installation_views.blp,
         *question_views.BLUEPRINTS,
         sizing_views.blp,
         measurement_views.blp,

@@ -108,7 +108,6 @@ class SelectivityResultSchema(Schema):
     with_ = fields.String(
         allow_none=True, required=True, data_key="with", metadata={"description": "the upstream device's id"}
     )
-    selectivity = fields.String(required=True, validate=validate.OneOf(SELECTIVE))
     up_to_a = nullable_number("only the downstream device operates up to this current; null: at any or none")
     max_fault_current_a = nullable_number("the largest fault at the downstream device (the board's PFC)")
     basis = fields.String(allow_none=True, required=True, metadata={"description": "how the pair's limit is known"})
@@ -119,7 +118,11 @@ class SelectivityResultSchema(Schema):
         metadata={"description": "where both devices have an RCD"},
     )
     residual_basis = fields.String(allow_none=True, required=True)
-    verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
+    verdict = fields.String(
+        required=True,
+        validate=validate.OneOf(SELECTIVE),
+        metadata={"description": "total, partial (up to up_to_a), none, or not-verified; the check says pass or fail"},
+    )
 
 
 class FactorSchema(Schema):

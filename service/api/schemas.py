@@ -15,6 +15,7 @@ from ..electrical import capacity, disconnection, protective
 from ..electrical import conductors as cond
 from ..electrical.arrays import paused_gc
 from ..electrical.checks import CHECKS
+from ..electrical.columns import PHASES
 from ..electrical.devices import catalogue, residual
 from ..electrical.devices.let_through import ENERGY_CLASSES
 from ..electrical.model import CableRun, Circuit, Conductors, DeviceSpec, Rcd, Supply
@@ -28,6 +29,18 @@ DEVICE_TYPES = catalogue.types()
 
 
 # ---------------------------------------------------------------- requests
+
+
+def phases_field(description: str) -> WholeNumber:
+    """1 or 3 phases: a bounded whole number (a numeric enum would trouble client generators)."""
+    return WholeNumber(minimum=1, maximum=3, load_default=1, metadata={"description": description})
+
+
+def check_phases(data) -> None:
+    if data.get("phases", 1) not in (1, 3):
+        raise ValidationError("phases is 1 (single-phase) or 3 (three-phase)", "phases")
+    if data.get("phases") == 3 and "phase" in data:
+        raise ValidationError("a three-phase circuit is on every phase: omit phase", "phase")
 
 
 class FastSchema(Schema):
@@ -192,6 +205,27 @@ class SupplySchema(Schema):
     )
     current_kind = choice(disconnection.CURRENT_KINDS, load_default="ac")
     reduced_low_voltage = Flag(load_default=False, metadata={"description": "a reduced low voltage system (411.8)"})
+    phases = phases_field("the supply: 1 (230 V) or 3 (230/400 V)")
+    three_phase_fault_current_ka = Number(
+        minimum=0.001,
+        maximum=200,
+        metadata={"description": "symmetrical three-phase fault current at the origin; if omitted on three phases: "
+                  "twice the line-neutral value (common practice), said in the result"},
+    )  # fmt: skip
+    max_earth_fault_current_ka = Number(
+        minimum=0.001,
+        maximum=200,
+        metadata={"description": "the largest earth fault at the origin (default U0 x cmax / Ze)"},
+    )
+    supply_kind = choice(
+        capacity.SUPPLY_KINDS,
+        load_default="public",
+        metadata={"description": "public (a distributor's low voltage supply) or private, for the voltage drop limits"},
+    )
+
+    @validates_schema
+    def one_or_three_phases(self, data, **kwargs):
+        check_phases(data)
 
     @validates_schema
     def electrode_within_ze(self, data, **kwargs):
@@ -258,9 +292,16 @@ class CircuitSchema(Schema):
             "(a consumer unit to BS EN 61439-3 Annex ZB, e.g. 16 kA behind a BS 88-3 cut-out fuse)"
         },
     )
+    phases = phases_field("the circuit: 1 or 3; a three-phase circuit needs a three-phase supply")
+    phase = choice(PHASES, metadata={"description": "a single-phase circuit on three phases: the phase it is on"})
+    use = choice(capacity.USES, load_default="other", metadata={"description": "lighting or other: the drop limit"})
+    voltage_drop_limit_percent = Number(
+        minimum=0.5, maximum=20, metadata={"description": "in place of Appendix 4's limit for the use"}
+    )
 
     @validates_schema
     def complete(self, data, **kwargs):
+        check_phases(data)
         if "conductors" not in data and "r1_plus_r2_ohm" not in data:
             raise ValidationError("give the conductors, or a known r1_plus_r2_ohm", "conductors")
         if data.get("role") == "final" and "load" not in data:
@@ -311,6 +352,7 @@ class ItemProblem:
     def __init__(self, index: int, messages, raw):
         self.index = index
         self.messages = messages
+        self.raw = raw
         self.id = raw.get("id") if isinstance(raw, dict) and isinstance(raw.get("id"), str) else None
 
 

@@ -57,6 +57,9 @@ def check_columns(cols: CircuitColumns) -> Checked:
     for check in checks:
         cautions.extend(check.cautions)
     cautions.append((~np.isnan(cols.r1r2_given_ohm), CAUTIONS["r1r2-given"]))
+    carried = {text for s in cols.supplies for text in s.cautions}
+    for text in sorted(carried):
+        cautions.append((np.array([text in s.cautions for s in cols.supplies], dtype=bool), text))
     return Checked(cols, loop, trip, checks, cautions)
 
 

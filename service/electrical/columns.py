@@ -97,6 +97,7 @@ class CircuitColumns:
     breaking_capacity_ka: np.ndarray
     conditional_ka: np.ndarray
     line_neutral_loop_ohm: np.ndarray
+    board: np.ndarray  # the board of an installation whose carried-down values the supply holds (None: the origin)
 
     @property
     def n(self) -> int:
@@ -156,6 +157,7 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         breaking_capacity_ka=_optional([c.device.breaking_capacity_ka for c in circuits]),
         conditional_ka=_optional([c.conditional_short_circuit_ka for c in circuits]),
         line_neutral_loop_ohm=_optional([s.line_neutral_loop_ohm for s in supplies]),
+        board=np.array([s.board for s in supplies], dtype=object),
     )
 
 

@@ -72,6 +72,9 @@ BASES = {
     "zpn-given": "the line-neutral loop given",
     "zpn-from-pfc": "U0 / the stated prospective fault current",
     "zpn-from-ze": "Ze taken for the line-neutral loop (TN)",
+    "board-faults": "carried down to board {board} from the origin: cmax, conductors at 20 degC, impedances added as "
+    "the root of the sum of squares (never underestimated)",
+    "board-loop": "carried down to board {board}: the origin's loop plus each feed's R1+Rn, hot (never underestimated)",
 }
 CAUTIONS = {
     "pfc-from-ze": (
@@ -145,17 +148,29 @@ def _c_max(cols: CircuitColumns) -> np.ndarray:
     return np.array([default if c is None else c for c in cols.c_max], dtype=float)
 
 
-def _line_neutral_origin(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
-    """Zpn at the origin for the smallest fault: given, else U0 / stated PFC, else Ze in TN; NaN in TT otherwise."""
-    given = ~np.isnan(cols.line_neutral_loop_ohm)
-    stated = ~np.isnan(cols.pfc_stated_ka)
+def line_neutral_origin(
+    line_neutral_loop_ohm: np.ndarray, pfc_stated_ka: np.ndarray, u0_v: np.ndarray, ze_ohm: np.ndarray, tt: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
+    """Zpn at the origin for the smallest fault: given, else U0 / stated PFC, else Ze in TN; NaN in TT otherwise.
+
+    Returns the loop (ohm) and the key of its basis in ``BASES`` (None where it is not known).
+    """
+    given = ~np.isnan(line_neutral_loop_ohm)
+    stated = ~np.isnan(pfc_stated_ka)
     with np.errstate(divide="ignore", invalid="ignore"):
-        from_pfc = cols.u0_v / (cols.pfc_stated_ka * 1000.0)
-    zpn = np.select([given, stated, ~cols.tt], [cols.line_neutral_loop_ohm, from_pfc, cols.ze_ohm], np.nan)
-    basis = np.select(
-        [given, stated, ~cols.tt], [BASES["zpn-given"], BASES["zpn-from-pfc"], BASES["zpn-from-ze"]], None
-    )
-    return zpn, basis.astype(object)
+        from_pfc = u0_v / (pfc_stated_ka * 1000.0)
+    zpn = np.select([given, stated, ~tt], [line_neutral_loop_ohm, from_pfc, ze_ohm], np.nan)
+    key = np.select([given, stated, ~tt], ["zpn-given", "zpn-from-pfc", "zpn-from-ze"], None)
+    return zpn, key.astype(object)
+
+
+def _bases(keys: np.ndarray, boards: np.ndarray, c_max: np.ndarray) -> list[str | None]:
+    """The basis text of each key; at a board of an installation, given values are the ones carried down to it."""
+    carried = {"stated": "board-faults", "zpn-given": "board-loop"}
+    return [
+        None if key is None else BASES[carried.get(key, key) if board is not None else key].format(c_max=c, board=board)
+        for key, board, c in zip(keys.tolist(), boards.tolist(), c_max.tolist(), strict=True)
+    ]
 
 
 def prospective_fault_current_ka(u0_v: Any, ze_ohm: Any, tt: Any, stated_ka: Any, zpn_ohm: Any, c_max: Any):
@@ -163,7 +178,7 @@ def prospective_fault_current_ka(u0_v: Any, ze_ohm: Any, tt: Any, stated_ka: Any
 
     Candidates: the stated value; U0 x cmax / Zpn where the line-neutral loop is given; U0 x cmax / Ze
     (line-earth) except in TT, where Ze holds the electrode and says nothing of the short circuit. NaN where
-    none is known. Returns ``(kA, basis, known)``, ``known`` the (3, N) mask of which candidates were there.
+    none is known. Returns ``(kA, basis key, known)``, ``known`` the (3, N) mask of which candidates were there.
     """
     u0, ze = as_float(u0_v), as_float(ze_ohm)
     shape = u0.shape
@@ -177,15 +192,16 @@ def prospective_fault_current_ka(u0_v: Any, ze_ohm: Any, tt: Any, stated_ka: Any
     largest = np.where(known.any(axis=0), filled.max(axis=0), np.nan)
     names = np.array(["stated", "line-neutral", "line-earth"], dtype=object)[filled.argmax(axis=0)]
     names = np.where(known.any(axis=0), names, "unknown-tt")
-    basis = [BASES[k].format(c_max=cc) for k, cc in zip(names.tolist(), c.tolist(), strict=True)]
-    return largest / 1000.0, basis, known
+    return largest / 1000.0, names.astype(object), known
 
 
-def _three_phase(cols: CircuitColumns, line_neutral_max_a: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+def three_phase_a(
+    three_phase_ka: np.ndarray, supply_phases: np.ndarray, line_neutral_max_a: np.ndarray
+) -> tuple[np.ndarray, np.ndarray]:
     """Ik3 at the circuit's origin, A: stated, else (a three-phase supply) twice the line-neutral value (common
     practice), else NaN; and where the rule of thumb was used."""
-    stated = cols.three_phase_ka * 1000.0
-    twice = (cols.supply_phases == 3) & np.isnan(stated) & np.isfinite(line_neutral_max_a)
+    stated = three_phase_ka * 1000.0
+    twice = (supply_phases == 3) & np.isnan(stated) & np.isfinite(line_neutral_max_a)
     return np.where(twice, 2.0 * line_neutral_max_a, stated), twice
 
 
@@ -205,11 +221,11 @@ def fault_loop(cols: CircuitColumns) -> FaultLoop:
     ef_max = np.where(
         np.isnan(cols.earth_fault_max_ka), c_max * cols.u0_v / cols.ze_ohm, cols.earth_fault_max_ka * 1000
     )
-    zpn, zpn_basis = _line_neutral_origin(cols)
-    pfc, basis, known = prospective_fault_current_ka(
+    zpn, zpn_key = line_neutral_origin(cols.line_neutral_loop_ohm, cols.pfc_stated_ka, cols.u0_v, cols.ze_ohm, cols.tt)
+    pfc, pfc_key, known = prospective_fault_current_ka(
         cols.u0_v, cols.ze_ohm, cols.tt, cols.pfc_stated_ka, cols.line_neutral_loop_ohm, c_max
     )
-    ik3, twice = _three_phase(cols, pfc * 1000.0)
+    ik3, twice = three_phase_a(cols.three_phase_ka, cols.supply_phases, pfc * 1000.0)
     three = (cols.phases == 3) & np.isfinite(ik3)
     pfc = np.where(three, np.fmax(pfc, ik3 / 1000.0), pfc)
     only_ze = ~known[0] & ~known[1] & known[2]
@@ -220,12 +236,12 @@ def fault_loop(cols: CircuitColumns) -> FaultLoop:
         earth_fault_nominal_a=i_nom,
         earth_fault_max_a=ef_max,
         zpn_ohm=zpn,
-        zpn_basis=zpn_basis,
+        zpn_basis=np.array(_bases(zpn_key, cols.board, c_max), dtype=object),
         line_neutral_min_a=c_min() * cols.u0_v / (zpn + c.r1 + c.rn),
         line_neutral_max_a=pfc * 1000.0,
         three_phase_a=ik3,
         pfc_ka=pfc,
-        pfc_basis=basis,
+        pfc_basis=_bases(pfc_key, cols.board, c_max),
         cautions=[
             (only_ze, CAUTIONS["pfc-from-ze"]),
             (np.isnan(cols.line_neutral_loop_ohm) & ~np.isnan(cols.pfc_stated_ka), CAUTIONS["zpn-from-pfc"]),

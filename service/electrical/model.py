@@ -28,6 +28,8 @@ class Supply:
     max_earth_fault_current_ka: float | None = None  # the largest earth fault (default U0 x cmax / Ze)
     supply_kind: str = "public"  # for the voltage drop limits (Appendix 4, 6.4)
     voltage_drop_percent: float = 0.0  # the drop from the origin to this point (a board of an installation)
+    board: str | None = None  # set where the values are those carried down to a board of an installation
+    cautions: tuple[str, ...] = ()  # what every result at this point must say (carried down from the origin)
 
 
 @dataclass(frozen=True)
@@ -131,6 +133,15 @@ class Circuit:
 
 
 @dataclass(frozen=True)
+class Unread:
+    """An item of a board's circuits its caller could not read (the caller reports why); a board it would feed
+    is reported as not checked."""
+
+    id: str | None = None
+    feeds_board: str | None = None
+
+
+@dataclass(frozen=True)
 class Board:
     """A board of an installation: its circuits, the circuit feeding it (or none at the origin), its ratings.
 
@@ -141,7 +152,7 @@ class Board:
     """
 
     id: str
-    circuits: tuple[Circuit, ...]
+    circuits: tuple[Circuit | Unread, ...]
     fed_from: str | None = None  # the id of the circuit feeding the board
     device: DeviceSpec | None = None
     device_id: str | None = None

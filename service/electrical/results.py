@@ -145,13 +145,16 @@ def _check_records(check: CheckColumns, n: int, exact: bool) -> list[Check | Non
 
 
 def _detail_records(check: CheckColumns, n: int, exact: bool) -> list[dict[str, Any] | None]:
-    """The check's detail per circuit, None where the check does not apply."""
+    """The check's detail per circuit, None where the check does not apply; its ``verdict`` column is verdict
+    codes, or the words of the detail's own scale (selectivity: total, partial ...)."""
     columns = check.detail[1]
     cells = lists_of({k: v for k, v in columns.items() if k != "verdict"}, exact)
     names = list(cells)
     rows = [dict(zip(names, row, strict=True)) for row in zip(*(cells[name] for name in names), strict=True)]
     rows = rows or [{} for _ in range(n)]
-    for row, v in zip(rows, verdicts.decode(columns["verdict"]), strict=True):
+    words = columns["verdict"]
+    words = verdicts.decode(words) if np.asarray(words).dtype.kind in "iu" else list(words)
+    for row, v in zip(rows, words, strict=True):
         row["verdict"] = v
     if check.applies is None:
         return rows

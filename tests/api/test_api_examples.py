@@ -30,6 +30,7 @@ def test_every_example_is_sent_by_a_test():
         "circuits-size.json",
         "circuits-max-length.json",
         "test-results-verify.json",
+        "installations-check.json",  # tests/api/test_installation_views.py
     }
     assert {p.name for p in EXAMPLES.glob("*.json")} == sent
 

@@ -11,6 +11,7 @@ from marshmallow import Schema, ValidationError, fields
 from service.api import fastload
 from service.api.fastload import Refused, fast_load
 from service.api.fields import Number
+from service.api.installation_schemas import BoardCircuitSchema
 from service.api.measurement_views import VerifyItemSchema
 from service.api.schemas import CheckRequestSchema, CircuitSchema, SupplySchema
 from tests.paths import EXAMPLES
@@ -27,6 +28,7 @@ SAMPLES = {
     CircuitSchema: example("circuits-check-batch.json")["circuits"] + [example("circuits-check.json")["circuit"]],
     CheckRequestSchema: [example("circuits-check.json")],
     VerifyItemSchema: example("test-results-verify.json")["circuits"],
+    BoardCircuitSchema: [c for board in example("installations-check.json")["boards"] for c in board["circuits"]],
 }
 
 values = st.one_of(
@@ -67,7 +69,9 @@ def mutated(draw, samples):
         elif action == "delete":
             parent.pop(target_path[-1], None)
         else:
-            extra = draw(st.sampled_from(["extra", "ring", "rcd", "curve_points", "type", "r1_plus_r2_ohm", "c_max"]))
+            extra = draw(
+                st.sampled_from(["extra", "ring", "rcd", "curve_points", "type", "r1_plus_r2_ohm", "c_max", "phase"])
+            )
             parent[extra] = draw(values)
     return item
 

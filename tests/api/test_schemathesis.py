@@ -53,7 +53,7 @@ NEGATIVE_CHECKS = [
 ]
 
 
-PER_ITEM = ("/v1/circuits/check-batch", "/v1/test-results/verify")
+PER_ITEM = ("/v1/circuits/check-batch", "/v1/test-results/verify", "/v1/installations/check")
 
 
 @NEGATIVE.parametrize()
@@ -75,3 +75,6 @@ def test_every_operation_rejects_invalid_input(case):
         results = response.json()["results"]
         assert [r["index"] for r in results] == list(range(len(body["circuits"])))
         assert all(("result" in r) != ("problem" in r) for r in results)
+    if response.status_code == 200 and isinstance(body.get("boards"), list):
+        for board in response.json()["boards"]:
+            assert all(("result" in r) != ("problem" in r) for r in board["circuits"])

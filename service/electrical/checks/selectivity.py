@@ -1,7 +1,8 @@
 """The selectivity step: each circuit's device against the device that feeds its board (BS 7671:2018 536.4).
 
-Reported wherever the upstream device is known (a circuit of an installation's board); it counts in the
-circuit's verdict only where selectivity is required (``selectivity_required``: a fault here must not take
+Reported wherever the upstream device is known (a circuit of an installation's board) or selectivity is
+required (not-verified where the upstream device is not known); it counts in the circuit's verdict only
+where selectivity is required (``selectivity_required``: a fault here must not take
 out the board above). ``total`` passes; ``partial`` (the largest fault at the device can exceed the limit)
 and ``none`` fail; ``not-verified`` where standard data cannot show it. The largest fault at the device is
 the prospective fault current at its board (434.1: line-neutral, line-earth or three-phase, the largest).
@@ -19,6 +20,7 @@ from ..response import DeviceResponse
 from ..selectivity import Selective
 from .base import CheckColumns, Earlier, check_step
 
+NO_UPSTREAM = "the device feeding the board is not known: give it (an installation's board device, or its feed)"
 BASIS = "BS 7671:2018 536.4: a fault on this circuit clears without operating the device that feeds its board"
 
 
@@ -43,6 +45,7 @@ def _residual(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
 def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Total selectivity passes; partial or none fails; not-verified where the data cannot show it."""
     has_upstream = np.array([c.upstream_device is not None for c in cols.circuits], dtype=bool)
+    required = np.array([c.selectivity_required for c in cols.circuits], dtype=bool)
     limit, basis = _pairs(cols)
     max_fault_a = loop.pfc_ka * 1000.0
     word, up_to = selectivity.verdicts_of(limit, max_fault_a)
@@ -52,18 +55,17 @@ def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
         [verdicts.NOT_VERIFIED, verdicts.PASS],
         verdicts.FAIL,
     ).astype(np.int8)
+    basis = np.where(has_upstream, basis, NO_UPSTREAM).astype(object)
     upstream = np.array([c.upstream_id for c in cols.circuits], dtype=object)
     detail = {
         "with": upstream,
-        "verdict": verdict,
-        "selectivity": word,
+        "verdict": word,
         "up_to_a": up_to,
         "max_fault_current_a": max_fault_a,
         "basis": basis,
         "residual": rcd_word,
         "residual_basis": rcd_basis,
     }
-    required = np.array([c.selectivity_required for c in cols.circuits], dtype=bool)
     return CheckColumns(
         "selectivity",
         "A",
@@ -72,7 +74,7 @@ def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
         np.where(np.isinf(limit), np.nan, limit),
         np.full(cols.n, BASIS, dtype=object),
         basis,
-        applies=has_upstream,
+        applies=has_upstream | required,
         counts=required,
         detail=("selectivity", detail),
     )

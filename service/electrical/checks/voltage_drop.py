@@ -27,6 +27,7 @@ NOTES = {
     "no-design-current": "State the design current (circuit.design_current_a) to work out the voltage drop.",
     "no-installation": "State the cable (circuit.installation) for its mV/A/m, to work out the voltage drop.",
     "no-cell": "The cable's table has no mV/A/m for this size: give the maker's or the book's figure.",
+    "no-upstream": "The drop from the origin to this board is not known: its feed needs a design current and a cable.",
 }
 
 
@@ -72,8 +73,8 @@ def voltage_drop(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, ea
     )
     no_inst = np.array([ci.installation is None for ci in cols.circuits], dtype=bool)
     note = pick(
-        [np.isnan(cols.design_current_a), no_inst | ~c.present, np.isnan(mv)],
-        [NOTES["no-design-current"], NOTES["no-installation"], NOTES["no-cell"]],
+        [np.isnan(cols.design_current_a), no_inst | ~c.present, np.isnan(mv), np.isnan(cols.upstream_drop_percent)],
+        [NOTES["no-design-current"], NOTES["no-installation"], NOTES["no-cell"], NOTES["no-upstream"]],
     )
     basis = np.where(cols.role == "distribution", BASES["distribution"], BASES["final"]).astype(object)
     detail = {

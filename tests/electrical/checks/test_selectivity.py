@@ -25,7 +25,7 @@ def test_shown_only_with_an_upstream_device_and_counted_only_where_required():
     assert [VERDICTS[v] for v in c.verdict[1:]] == ["fail", "fail"] and c.limit[1] == 315
     results = assemble(run(BAKERY, alone, under, required))
     assert results[0].selectivity is None
-    assert results[1].selectivity["selectivity"] == "partial" and results[1].selectivity["up_to_a"] == 315
+    assert results[1].selectivity["verdict"] == "partial" and results[1].selectivity["up_to_a"] == 315
     assert "selectivity" in results[1].verdict_scope["left_out"] and results[1].check("selectivity").verdict == "fail"
     assert "selectivity" in results[2].verdict_scope["covered"] and results[2].verdict == "fail"
 
@@ -47,3 +47,9 @@ def test_not_verified_where_the_data_cannot_show_it():
     rewirable = DeviceSpec(rating_a=60, standard="BS 3036")
     c = step(run(BAKERY, circuit(B32, upstream_device=rewirable, selectivity_required=True)), "selectivity")
     assert VERDICTS[c.verdict[0]] == "not-verified" and "maker" in c.note[0]
+
+
+def test_required_without_an_upstream_device_is_not_verified_not_skipped():
+    c = step(run(BAKERY, circuit(B32, selectivity_required=True)), "selectivity")
+    assert c.applies.tolist() == [True] and VERDICTS[c.verdict[0]] == "not-verified"
+    assert "not known" in c.note[0]

@@ -1,0 +1,269 @@
+"""What each board of an installation sees: its demand per phase, and its loops and fault currents.
+
+Demand (bottom-up, BS 7671 Appendix 1 leaves diversity to the designer): a board's design current per
+phase is the sum of what its circuits draw, each times its own ``diversity``, the whole times the board's
+``diversity``; a stated ``design_current_a`` on the board replaces the sum. A three-phase circuit draws on
+every phase; a single-phase one on its ``phase``, or, where none is named, on every phase (the safe side for
+the feed). A circuit that feeds a board draws the larger of its stated Ib and that board's demand (a
+three-phase feed: that board's demand on each phase, unless its stated Ib is larger). A demand is complete
+only where every circuit states its Ib (or the board states its own).
+
+Faults (top-down, IEC 60909-0 method; BS 7671:2018 411.4.4, 434.1): a board's Ze and line-neutral loop are
+its parent's plus the feed's R1+R2 and R1+Rn at the temperatures the rules assume, moduli added (an
+impedance never underestimated: the smallest fault currents, Cmin, never overestimated). For the largest
+currents (cmax) the feed's resistances are taken at 20 degC and added to the parent's impedance as the root
+of the sum of squares, which is the least the sum of two impedances of angle 0 to 90 degrees can be (the
+largest currents never underestimated). A cable reactance given in the feed's installation enters both.
+The three-phase loop is the line conductor alone.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from . import faults
+from .model import Board, Installation, Supply, Unread
+from .tree import Tree
+
+PHASES = ("L1", "L2", "L3")
+CAUTIONS = {
+    "unallocated": "{n} single-phase circuit(s) name no phase: counted on every phase of the board's demand.",
+    "incomplete": "The board's demand is incomplete: {missing} state no design current; the feed's own Ib is used.",
+    "raised": "The feed's stated design current {stated:g} A is below the board's demand {demand:g} A: the demand is "
+    "used.",
+    "no-reactance": (
+        "The feed's reactance is not given: its loops are resistance only. Above 35 mm2 give "
+        "installation.reactance_mohm_per_m (the maker's figure), or the fault currents below it are optimistic."
+    ),
+}
+
+
+@dataclass
+class Demand:
+    """A board's design current per phase (one entry on a single-phase board), and how it is known."""
+
+    per_phase_a: np.ndarray
+    complete: bool
+    stated: bool
+    missing: list[str] = field(default_factory=list)
+    unallocated: int = 0
+
+    @property
+    def design_current_a(self) -> float:
+        return float(self.per_phase_a.max()) if self.complete else math.nan
+
+    def imbalance(self) -> tuple[float | None, float | None]:
+        """(largest deviation from the mean phase current over the mean, %; the neutral current, A) on three
+        phases, for loads of one power factor and no harmonics (common practice); None on one phase."""
+        if len(self.per_phase_a) != 3 or not self.complete:
+            return None, None
+        i1, i2, i3 = self.per_phase_a.tolist()
+        mean = (i1 + i2 + i3) / 3
+        spread = float(np.abs(self.per_phase_a - mean).max() / mean * 100) if mean > 0 else 0.0
+        neutral = math.sqrt(max(i1 * i1 + i2 * i2 + i3 * i3 - i1 * i2 - i2 * i3 - i3 * i1, 0.0))
+        return spread, neutral
+
+
+def _draw(board_phases: int, circuit_phases: int, phase: str | None, current_a: float) -> tuple[np.ndarray, bool]:
+    """What one circuit draws on each phase of its board, and whether it was left without a phase."""
+    if board_phases != 3:
+        return np.array([current_a]), False
+    if circuit_phases == 3:
+        return np.full(3, current_a), False
+    if phase in PHASES:
+        return np.where(np.arange(3) == PHASES.index(phase), current_a, 0.0), False
+    return np.full(3, current_a), True
+
+
+def demands(
+    inst: Installation, tree: Tree
+) -> tuple[list[Demand], dict[tuple[int, int], tuple[float | None, str | None]]]:
+    """Each board's :class:`Demand`, and each feed's design current with a caution where it changed."""
+    out: list[Demand | None] = [None] * len(inst.boards)
+    feed_current: dict[tuple[int, int], tuple[float | None, str | None]] = {}
+    child_of = {feed: b for b, feed in enumerate(tree.feed) if feed is not None}
+    for b in reversed(tree.order):
+        board, n = inst.boards[b], (3 if tree.phases[b] == 3 else 1)
+        total, complete, missing, unallocated = np.zeros(n), True, [], 0
+        for c, circuit in enumerate(board.circuits):
+            current = None if isinstance(circuit, Unread) else circuit.design_current_a
+            if (b, c) in child_of and not isinstance(circuit, Unread):
+                current, note = _feed_current(current, out[child_of[(b, c)]])
+                feed_current[(b, c)] = (current, note)
+            if current is None or math.isnan(current):
+                complete = False
+                missing.append(circuit.id or f"circuit {c + 1}")
+                continue
+            draw, left = _draw(tree.phases[b], circuit.phases, circuit.phase, current)
+            fed = out[child_of[(b, c)]] if (b, c) in child_of else None
+            if fed is not None and fed.complete and len(fed.per_phase_a) == len(draw) == 3:
+                draw = np.maximum(fed.per_phase_a, current if current > fed.design_current_a else 0.0)
+            total += draw * (1.0 if circuit.diversity is None else circuit.diversity)
+            unallocated += left
+        if board.design_current_a is not None:
+            out[b] = Demand(np.full(n, float(board.design_current_a)), True, True, missing, unallocated)
+        else:
+            out[b] = Demand(total * board.diversity, complete, False, missing, unallocated)
+    return out, feed_current  # type: ignore[return-value]
+
+
+def _feed_current(stated: float | None, below: Demand | None) -> tuple[float | None, str | None]:
+    if below is None or not below.complete:
+        return stated, None
+    demand = below.design_current_a
+    if stated is None or stated >= demand:
+        return (demand if stated is None else stated), None
+    return demand, CAUTIONS["raised"].format(stated=stated, demand=demand)
+
+
+@dataclass(frozen=True)
+class FeedLoop:
+    """What a feed adds to the loops below it, ohm: hot (the rules' temperatures) and at 20 degC, and its drop."""
+
+    r1r2_hot: float
+    r1rn_hot: float
+    r1r2_20: float
+    r1rn_20: float
+    r1_20: float
+    x_loop: float  # line and return conductor (NaN where not given: taken as 0)
+    three_phase: bool
+    drop_percent: float
+    large_without_reactance: bool = False
+
+
+@dataclass(frozen=True)
+class BoardFaults:
+    """A board's loops (ohm) and fault currents (A), and its drop from the origin (%).
+
+    ``ze_ohm``/``zpn_ohm``: moduli added, hot (for the smallest currents); ``*_min_ohm``: the least the
+    impedance can be (for the largest currents). ``pfc_a`` is the larger of line-neutral, line-earth (not in
+    TT) and, on three phases, the symmetrical three-phase current (434.1).
+    """
+
+    ze_ohm: float
+    zpn_ohm: float
+    ze_min_ohm: float
+    zpn_min_ohm: float
+    z3_min_ohm: float
+    c_max: float
+    u0_v: float
+    tt: bool
+    three_phase: bool
+    voltage_drop_percent: float
+    cautions: tuple[str, ...] = ()
+
+    def _current(self, factor: float, impedance: float) -> float:
+        return factor * self.u0_v / impedance if impedance > 0 else math.nan
+
+    @property
+    def max_earth_fault_a(self) -> float:
+        return self._current(self.c_max, self.ze_min_ohm)
+
+    @property
+    def max_line_neutral_a(self) -> float:
+        return self._current(self.c_max, self.zpn_min_ohm)
+
+    @property
+    def three_phase_a(self) -> float:
+        return self._current(self.c_max, self.z3_min_ohm) if self.three_phase else math.nan
+
+    @property
+    def pfc_a(self) -> float:
+        known = [self.max_line_neutral_a, math.nan if self.tt else self.max_earth_fault_a, self.three_phase_a]
+        known = [x for x in known if not math.isnan(x)]
+        return max(known) if known else math.nan
+
+    @property
+    def min_earth_fault_a(self) -> float:
+        return self._current(faults.c_min(), self.ze_ohm)
+
+    @property
+    def min_line_neutral_a(self) -> float:
+        return self._current(faults.c_min(), self.zpn_ohm)
+
+
+def origin_faults(supply: Supply) -> BoardFaults:
+    """The origin's values, by the same rules as a circuit's origin (:mod:`service.electrical.faults`)."""
+    one = lambda v: np.array([math.nan if v is None else v], dtype=float)  # noqa: E731
+    tt = np.array([supply.earthing == "TT"])
+    c_max = faults.c_max_default() if supply.c_max is None else supply.c_max
+    zpn, zpn_key = faults.line_neutral_origin(
+        one(supply.line_neutral_loop_ohm), one(supply.prospective_fault_current_ka), one(supply.u0_v),
+        one(supply.ze_ohm), tt,
+    )  # fmt: skip
+    pfc_ka, pfc_key, _ = faults.prospective_fault_current_ka(
+        supply.u0_v,
+        supply.ze_ohm,
+        tt,
+        one(supply.prospective_fault_current_ka),
+        one(supply.line_neutral_loop_ohm),
+        c_max,
+    )
+    ik3, twice = faults.three_phase_a(
+        one(supply.three_phase_fault_current_ka), np.array([supply.phases]), pfc_ka * 1000
+    )
+    ef_max = c_max * supply.u0_v / supply.ze_ohm
+    if supply.max_earth_fault_current_ka is not None:
+        ef_max = supply.max_earth_fault_current_ka * 1000.0
+    cautions = [faults.CAUTIONS[k] for k in (zpn_key[0],) if k in ("zpn-from-pfc", "zpn-from-ze")]
+    if pfc_key[0] == "line-earth":
+        cautions.append(faults.CAUTIONS["pfc-from-ze"])
+    if twice[0]:
+        cautions.append(faults.CAUTIONS["ik3-twice"])
+    impedance = lambda current: c_max * supply.u0_v / current if current > 0 else math.nan  # noqa: E731
+    return BoardFaults(
+        ze_ohm=supply.ze_ohm,
+        zpn_ohm=float(zpn[0]),
+        ze_min_ohm=impedance(ef_max),
+        zpn_min_ohm=impedance(float(pfc_ka[0]) * 1000.0),
+        z3_min_ohm=impedance(float(ik3[0])),
+        c_max=c_max,
+        u0_v=supply.u0_v,
+        tt=bool(tt[0]),
+        three_phase=supply.phases == 3,
+        voltage_drop_percent=supply.voltage_drop_percent,
+        cautions=tuple(cautions),
+    )
+
+
+def below(parent: BoardFaults, feed: FeedLoop) -> BoardFaults:
+    """The values at the board a feed supplies (the module's text says how the impedances combine)."""
+    x = 0.0 if math.isnan(feed.x_loop) else feed.x_loop
+    cautions = parent.cautions
+    if not feed.three_phase:
+        cautions = tuple(c for c in cautions if c != faults.CAUTIONS["ik3-twice"])
+    return dataclasses.replace(
+        parent,
+        ze_ohm=parent.ze_ohm + math.hypot(feed.r1r2_hot, x),
+        zpn_ohm=parent.zpn_ohm + math.hypot(feed.r1rn_hot, x),
+        ze_min_ohm=math.hypot(parent.ze_min_ohm, math.hypot(feed.r1r2_20, x)),
+        zpn_min_ohm=math.hypot(parent.zpn_min_ohm, math.hypot(feed.r1rn_20, x)),
+        z3_min_ohm=math.hypot(parent.z3_min_ohm, math.hypot(feed.r1_20, x / 2)) if feed.three_phase else math.nan,
+        three_phase=feed.three_phase,
+        voltage_drop_percent=parent.voltage_drop_percent + feed.drop_percent,
+        cautions=cautions,
+    )
+
+
+def board_supply(origin: Supply, board: Board, values: BoardFaults, phases: int, extra: tuple[str, ...]) -> Supply:
+    """The supply as the circuits of a board below the origin see it: the values carried down to it."""
+
+    def known(value: float, scale: float = 1.0) -> float | None:
+        return None if math.isnan(value) else value / scale
+
+    return dataclasses.replace(
+        origin,
+        ze_ohm=values.ze_ohm,
+        prospective_fault_current_ka=known(values.pfc_a, 1000.0),
+        line_neutral_loop_ohm=known(values.zpn_ohm),
+        phases=phases,
+        three_phase_fault_current_ka=known(values.three_phase_a, 1000.0),
+        max_earth_fault_current_ka=known(values.max_earth_fault_a, 1000.0),
+        voltage_drop_percent=values.voltage_drop_percent,
+        board=board.id,
+        cautions=tuple(dict.fromkeys(origin.cautions + values.cautions + extra)),
+    )
