@@ -1,6 +1,7 @@
-"""`python -m service check FILE`: check a whole schedule from a JSON or CSV file.
+"""`python -m service check FILE`: check a whole schedule, or a whole installation, from a JSON or CSV file.
 
-JSON: the body of POST /v1/circuits/check-batch (``{"supply": {...}, "circuits": [...]}``).
+JSON: the body of POST /v1/circuits/check-batch (``{"supply": {...}, "circuits": [...]}``), or of POST
+/v1/installations/check (``{"supply": {...}, "boards": [...]}``, :mod:`service.cli_installation`).
 CSV: one row a circuit, each with its own supply, in the columns of :data:`CSV_COLUMNS`.
 Input goes through the same schemas as the HTTP API, so a bad row gets the same messages.
 
@@ -16,15 +17,17 @@ import csv
 import io
 import json
 import sys
-import time
 from pathlib import Path
 from typing import Any, TextIO
 
 from marshmallow import ValidationError
 
+from . import cli_installation
 from .api.errors import core_errors, flatten, json_bytes, pointer_of
 from .api.fastload import Refused, fast_load
 from .api.schemas import CircuitSchema, SupplySchema
+from .api.strictjson import strict_loads
+from .cli_status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
 from .electrical.arrays import paused_gc
 from .electrical.circuit import check_circuits
 from .electrical.columns import CircuitFailure
@@ -86,7 +89,7 @@ RESULT_COLUMNS = (
     "not_verified_checks",
     "problem",
 )
-CHUNK = 2000
+
 SUPPLY_SCHEMA = SupplySchema()
 CIRCUIT_SCHEMA = CircuitSchema()
 
@@ -218,9 +221,11 @@ def _validated(
 
 
 def read_json(stream: TextIO) -> list[Row]:
-    from .api.strictjson import strict_loads
+    return rows_of(strict_loads(stream.read()))
 
-    body = strict_loads(stream.read())
+
+def rows_of(body: Any) -> list[Row]:
+    """The rows of a JSON schedule already parsed."""
     if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
         raise ScheduleError(
             'a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes'
@@ -231,25 +236,6 @@ def read_json(stream: TextIO) -> list[Row]:
             _validated(i, body["supply"], item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
             for i, item in enumerate(body["circuits"])
         ]
-
-
-class Progress:
-    """A bar on standard error when it is a terminal; silent otherwise."""
-
-    def __init__(self, total: int, stream: TextIO):
-        self.total, self.stream, self.shown = total, stream, stream.isatty() and total >= CHUNK
-        self.started = time.monotonic()
-
-    def update(self, done: int) -> None:
-        if not self.shown:
-            return
-        width = 30
-        filled = int(width * done / max(self.total, 1))
-        rate = done / max(time.monotonic() - self.started, 1e-9)
-        self.stream.write(f"\r[{'#' * filled}{'.' * (width - filled)}] {done}/{self.total} circuits, {rate:,.0f}/s")
-        self.stream.flush()
-        if done >= self.total:
-            self.stream.write("\n")
 
 
 def run_chunks(rows: list[Row], progress: Progress):
@@ -327,7 +313,12 @@ def main(args: argparse.Namespace) -> int:
     kind = args.input_format or ("csv" if path.suffix.lower() == ".csv" else "json")
     try:
         with path.open(encoding="utf-8", newline="") as stream:
-            rows = read_csv(stream) if kind == "csv" else read_json(stream)
+            body = None if kind == "csv" else strict_loads(stream.read())
+            if cli_installation.is_installation(body):
+                return _installation(body, path, args)
+            if args.report:
+                raise ScheduleError("--report needs an installation file (the body of POST /v1/installations/check)")
+            rows = read_csv(stream) if kind == "csv" else rows_of(body)
     except (OSError, UnicodeDecodeError, json.JSONDecodeError, ScheduleError) as err:
         print(f"cannot read {path}: {err}", file=sys.stderr)
         return EXIT_UNREADABLE
@@ -362,18 +353,10 @@ def main(args: argparse.Namespace) -> int:
     return exit_status(counts)
 
 
-EXIT_PASS, EXIT_FAIL, EXIT_UNREADABLE, EXIT_INVALID, EXIT_NOT_VERIFIED = 0, 1, 2, 3, 4
-
-
-def exit_status(counts: dict[str, int]) -> int:
-    """0 only when every circuit passes; 1 any fails; else 3 some could not be checked; else 4 some not-verified."""
-    if counts[Verdict.FAIL]:
-        return EXIT_FAIL
-    if counts["invalid"]:
-        return EXIT_INVALID
-    if counts[Verdict.NOT_VERIFIED]:
-        return EXIT_NOT_VERIFIED
-    return EXIT_PASS
+def _installation(body: dict, path: Path, args: argparse.Namespace) -> int:
+    if args.format == "csv" or (args.output or "").lower().endswith(".csv"):
+        raise ScheduleError("an installation's answer is JSON (and --report writes the HTML report)")
+    return cli_installation.run(body, path, args, lambda total: Progress(total, sys.stderr))
 
 
 def add_parser(sub) -> None:
@@ -382,6 +365,7 @@ def add_parser(sub) -> None:
     p.add_argument("--input-format", choices=["json", "csv"], help="default: from the file's extension")
     p.add_argument("--format", choices=["json", "csv"], help="output format (default: json, or csv for a .csv output)")
     p.add_argument("-o", "--output", help="write the results here (default: standard output)")
+    p.add_argument("--report", metavar="FILE.html", help="an installation file: write the printable report here too")
     p.add_argument(
         "--strict", action="store_true", help="no effect: not-verified circuits always exit 4 (kept for scripts)"
     )

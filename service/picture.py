@@ -22,6 +22,8 @@ STYLE = {
     "limit": "#b03a2e",
     "point": "#111111",
     "grid": "#d9d9d9",
+    "upstream": "#3b4f8c",
+    "level": "#5c5c5c",
     "face": "#fbfbf8",
 }
 _LOCK = threading.Lock()
@@ -88,7 +90,7 @@ def _curve(ax, device: Device, x_hi: float, prefix: str = "curve", colour: str |
         (line,) = ax.plot(
             currents[k : k + 2],
             times[k : k + 2],
-            color=STYLE["estimated"] if estimated else colour or STYLE["curve"],
+            color=STYLE["estimated"] if estimated and colour is None else colour or STYLE["curve"],
             linestyle="--" if estimated else "-",
             linewidth=2.2,
             label=None if label in shown else label,
@@ -151,7 +153,7 @@ def _operating_point(ax, current_a: float, time_s: float | None, bound: str | No
 def _svg(fig, ax, title: str) -> bytes:
     ax.set_title(title, fontsize=12, loc="left")
     ax.legend(loc="upper right", fontsize=8, frameon=True, framealpha=0.9).set_gid("legend")
-    fig.subplots_adjust(left=0.14, right=0.97, bottom=0.11, top=0.92)
+    fig.subplots_adjust(left=0.14, right=0.95, bottom=0.11, top=0.92)
     buffer = io.BytesIO()
     fig.savefig(buffer, format="svg", metadata={"Date": None, "Creator": "Faultpath"})
     return buffer.getvalue()
@@ -196,3 +198,35 @@ def characteristic_svg(
     if _finite(fault_current_a):
         _operating_point(ax, fault_current_a, time_s, bound, x_range, y_range[1])
     return _svg(fig, ax, device.label + (f": {verdict}" if verdict else ""))
+
+
+def coordination_svg(
+    downstream: Device,
+    upstream: Device,
+    fault_levels_a: dict[str, float | None],
+    limit_a: float | None = None,
+    title: str = "",
+) -> bytes:
+    """A circuit's device and the device feeding its board on the same axes, with the board's fault levels.
+
+    Both curves are maximum operating times (the upstream device may operate sooner: its minimum times are
+    the maker's), so the picture shows where the curves lie; the selectivity verdict rests on the basis the
+    result gives. ``fault_levels_a`` names each current marked as a vertical line; ``limit_a`` is the
+    current up to which selectivity is shown.
+    """
+    warm()
+    x_range, y_range = ranges([downstream, upstream], [*fault_levels_a.values(), limit_a], [1])
+    fig, ax = _axes(x_range, y_range)
+    _curve(ax, downstream, x_range[1], prefix="downstream", name=f"{downstream.label}: ")
+    _curve(ax, upstream, x_range[1], prefix="upstream", colour=STYLE["upstream"], name=f"{upstream.label}: ")
+    styles = iter(["-", "--", ":", "-."])
+    for k, (name, current) in enumerate(fault_levels_a.items()):
+        if _finite(current):
+            line = ax.axvline(
+                current, color=STYLE["level"], linestyle=next(styles), linewidth=1.2, label=f"{name} {current:,.0f} A"
+            )
+            line.set_gid(f"fault-level-{k}")
+    if _finite(limit_a):
+        line = ax.axvline(limit_a, color=STYLE["limit"], linewidth=1.6, label=f"selective up to {limit_a:,.0f} A")
+        line.set_gid("selectivity-limit")
+    return _svg(fig, ax, title or f"{downstream.label} under {upstream.label}")

@@ -57,3 +57,33 @@ def test_all_pass_exits_0_and_not_verified_exits_4(tmp_path):
 
 def test_unreadable_file_exits_2(tmp_path):
     assert run(str(tmp_path / "missing.json")).returncode == 2
+
+
+INSTALLATION = ROOT / "schemas" / "examples" / "installations-check.json"
+
+
+def test_an_installation_file_gives_the_installation_answer_and_its_report(tmp_path):
+    report = tmp_path / "joinery.html"
+    r = run(str(INSTALLATION), "--report", str(report))
+    assert r.returncode == 1, r.stderr  # the yard lights fail (voltage drop, tests/api/test_installation_views.py)
+    body = json.loads(r.stdout)
+    assert [b["id"] for b in body["boards"]] == ["MAIN", "WORKSHOP", "OFFICE"]
+    assert body["boards"][1]["ze_ohm"] == 0.2883 and b"boards=3 circuits=8" in r.stderr
+    html = report.read_text()
+    assert html.startswith("<!doctype html>") and html.count('class="circuit"') == 8
+
+
+def test_a_bad_tree_in_a_file_exits_2_naming_the_field(tmp_path):
+    body = json.loads(INSTALLATION.read_text())
+    body["boards"][2]["fed_from"] = "NOWHERE"
+    source = tmp_path / "bad.json"
+    source.write_text(json.dumps(body))
+    r = run(str(source))
+    assert r.returncode == 2 and b"/boards/2/fed_from" in r.stderr
+
+
+def test_a_report_needs_an_installation_and_an_installation_answers_in_json(tmp_path):
+    r = run(str(ROOT / "schemas" / "examples" / "circuits-check-batch.json"), "--report", str(tmp_path / "x.html"))
+    assert r.returncode == 2 and b"--report needs an installation" in r.stderr
+    r = run(str(INSTALLATION), "--format", "csv")
+    assert r.returncode == 2 and b"answer is JSON" in r.stderr

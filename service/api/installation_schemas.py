@@ -2,12 +2,18 @@
 
 from __future__ import annotations
 
+from typing import Any
+
 from marshmallow import Schema, fields, validate
 
+from ..electrical.columns import CircuitFailure
+from ..electrical.installation import InstallationResult
 from ..electrical.model import Board, Installation, Unread
 from ..electrical.verdicts import VERDICTS, Verdict
 from . import fastload
+from .errors import flatten
 from .fields import Flag, Number, Text
+from .helpers import failed_item, invalid_item
 from .result_schemas import BatchItemSchema, nullable_number
 from .schemas import CircuitSchema, DeviceSchema, ItemProblem, PerItemList, ScopedSchema, SupplySchema
 
@@ -157,6 +163,35 @@ def installation_of(body: dict) -> tuple[Installation, dict[tuple[int, int], Ite
                 circuits.append(circuit)
         boards.append(Board(**{**item, "circuits": tuple(circuits)}))
     return Installation(body["supply"], tuple(boards), body.get("id")), problems
+
+
+def records(inst: Installation, result: InstallationResult, problems: dict) -> dict[str, Any]:
+    """The answer: each board with its circuits as results or problems, the pointers into the request."""
+    positions = {board.id: b for b, board in enumerate(inst.boards)}
+    boards = []
+    for board in result.boards:
+        b = positions[board.id]
+        items = [_item(b, c, item, problems) for c, item in enumerate(board.circuits)]
+        boards.append({**vars(board), "circuits": items})
+    return {**vars(result), "boards": boards}
+
+
+def _item(b: int, c: int, item: Any, problems: dict) -> dict[str, Any]:
+    base = f"/boards/{b}/circuits/{c}"
+    if isinstance(item, Unread):
+        problem = problems[(b, c)]
+        return invalid_item(c, problem.id, problem.messages, base)
+    if isinstance(item, CircuitFailure):
+        return failed_item(c, item.id, item, {"supply": "/supply", "circuit": base})
+    return {"index": c, "id": item.id, "result": item}
+
+
+def problem_messages(problems: dict) -> dict[tuple[int, int], list[str]]:
+    """Each unreadable circuit's messages as 'pointer: message' lines (for the report)."""
+    return {
+        key: [f"{e['pointer']}: {e['message']}" for e in flatten(p.messages, f"/boards/{key[0]}/circuits/{key[1]}")]
+        for key, p in problems.items()
+    }
 
 
 fastload.register(BoardCircuitSchema)

@@ -2,20 +2,22 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 import flask
 
 from ..electrical.arrays import paused_gc
-from ..electrical.columns import CircuitFailure
 from ..electrical.errors import ElectricalError
 from ..electrical.installation import InstallationResult, check_installation
-from ..electrical.model import Unread
+from ..electrical.model import Installation
 from . import metrics
 from .base import Blueprint
 from .errors import CoreInputError, json_response
-from .helpers import failed_item, invalid_item
-from .installation_schemas import InstallationRequestSchema, InstallationResultSchema, installation_of
+from .installation_schemas import (
+    InstallationRequestSchema,
+    InstallationResultSchema,
+    installation_of,
+    problem_messages,
+    records,
+)
 
 blp = Blueprint(
     "installations",
@@ -25,9 +27,9 @@ blp = Blueprint(
 )
 
 
-def checked(body: dict) -> tuple[InstallationResult, dict, dict[str, int]]:
-    """The core's check of the request's installation (a bad tree is a 422 naming the field), the problems of
-    the circuits that did not validate, and each board's position in the request."""
+def checked(body: dict) -> tuple[Installation, InstallationResult, dict]:
+    """The request's installation, the core's check of it (a bad tree is a 422 naming the field), and the
+    problems of the circuits that did not validate."""
     inst, problems = installation_of(body)
     count = sum(len(board.circuits) for board in inst.boards)
     limit = flask.current_app.config["FAULTPATH_BATCH_LIMIT"]
@@ -38,27 +40,7 @@ def checked(body: dict) -> tuple[InstallationResult, dict, dict[str, int]]:
             result = check_installation(inst, body.get("checks"))
     except ElectricalError as err:
         raise CoreInputError.of(err) from None
-    return result, problems, {board.id: b for b, board in enumerate(inst.boards)}
-
-
-def records(result: InstallationResult, problems: dict, positions: dict[str, int]) -> dict[str, Any]:
-    """The answer: each board with its circuits as results or problems, the pointers into the request."""
-    boards = []
-    for board in result.boards:
-        b = positions[board.id]
-        items = [_item(b, c, item, problems) for c, item in enumerate(board.circuits)]
-        boards.append({**vars(board), "circuits": items})
-    return {**vars(result), "boards": boards}
-
-
-def _item(b: int, c: int, item: Any, problems: dict) -> dict[str, Any]:
-    base = f"/boards/{b}/circuits/{c}"
-    if isinstance(item, Unread):
-        problem = problems[(b, c)]
-        return invalid_item(c, problem.id, problem.messages, base)
-    if isinstance(item, CircuitFailure):
-        return failed_item(c, item.id, item, {"supply": "/supply", "circuit": base})
-    return {"index": c, "id": item.id, "result": item}
+    return inst, result, problems
 
 
 @blp.route("/check", methods=["POST"])
@@ -73,6 +55,35 @@ def check(body):
     board's values, its drop from the origin and its selectivity with the device feeding its board. One
     result or one problem per circuit; a bad tree is a 422 naming the field.
     """
-    result, problems, positions = checked(body)
+    inst, result, problems = checked(body)
     metrics.count_verdicts([i.verdict for board in result.boards for i in board.circuits if hasattr(i, "checks")])
-    return json_response(records(result, problems, positions))
+    return json_response(records(inst, result, problems))
+
+
+HTML = "text/html"
+
+
+@blp.route("/report", methods=["POST"])
+@blp.arguments(InstallationRequestSchema)
+@blp.doc(
+    responses={
+        "200": {
+            "description": "The printable report: per board its values and schedule, the pictures, the cautions",
+            "content": {HTML: {"schema": {"type": "string"}}},
+        }
+    }
+)
+def report(body):
+    """A printable report of a whole installation (HTML)
+
+    The same body as installations/check. One HTML document with its print styles and pictures inline:
+    per board its values carried down from the origin, a schedule of its circuits with their figures and
+    verdicts, a coordination picture for each pair of devices, and the cautions.
+    """
+    from ..report import report_html
+
+    inst, result, problems = checked(body)
+    response = flask.Response(report_html(inst, result, problem_messages(problems)), mimetype=HTML)
+    response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'; img-src data:"
+    response.headers["Cache-Control"] = "no-store"
+    return response

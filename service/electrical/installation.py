@@ -15,7 +15,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
@@ -38,6 +38,7 @@ COMBINED = (
     "currents, Cmin 0.95); the largest currents: cmax, the feeds at 20 degC added as the root of the sum of squares "
     "(IEC 60909-0 method; BS 7671:2018 411.4.4, 434.1)"
 )
+CHUNK = 2000  # circuits per pipeline run where progress is reported
 FEED_UNREAD = "the feed could not be read: see its problem"
 FEED_NEEDS_CONDUCTORS = "a circuit that feeds a board needs its conductors: the loops below it follow from them"
 
@@ -200,11 +201,18 @@ def _walk(inst: Installation, tree: Tree, loops: dict[int, bv.FeedLoop], failed:
 
 
 def _run(
-    circuits: list[list[Circuit]], supplies: dict[int, Supply], unreachable: dict[int, str], scope, exact: bool
+    circuits: list[list[Circuit]], supplies: dict[int, Supply], unreachable: dict[int, str], scope, exact, progress
 ) -> list[list[CircuitResult | CircuitFailure]]:
-    """Every circuit of every reachable board through the pipeline as one set of arrays, in board order."""
+    """Every circuit of every reachable board through the pipeline as one set of arrays (a chunk at a time where
+    ``progress`` wants to hear of it), in board order."""
     where = [(b, c) for b in sorted(supplies) for c, item in enumerate(circuits[b]) if not isinstance(item, Unread)]
-    done = check_circuits([supplies[b] for b, _ in where], [circuits[b][c] for b, c in where], scope, exact)
+    step = CHUNK if progress else max(len(where), 1)
+    done: list[Any] = []
+    for start in range(0, len(where), step):
+        part = where[start : start + step]
+        done += check_circuits([supplies[b] for b, _ in part], [circuits[b][c] for b, c in part], scope, exact)
+        if progress:
+            progress(len(done))
     out: list[list[Any]] = [list(board) for board in circuits]  # Unread items stay, for the caller to report
     for b, reason in unreachable.items():
         for c, item in enumerate(circuits[b]):
@@ -216,16 +224,20 @@ def _run(
 
 
 def check_installation(
-    inst: Installation, scope: Sequence[str] | None = None, exact: bool = False
+    inst: Installation,
+    scope: Sequence[str] | None = None,
+    exact: bool = False,
+    progress: Callable[[int], None] | None = None,
 ) -> InstallationResult:
-    """Check every board and circuit of ``inst`` (see the module's text); ``scope`` and ``exact`` as for circuits."""
+    """Check every board and circuit of ``inst`` (see the module's text); ``scope`` and ``exact`` as for circuits;
+    ``progress`` is told how many circuits are done, a chunk at a time."""
     tree = tree_of(inst)
     _check_diversity(inst)
     demand, feed_current = bv.demands(inst, tree)
     circuits = _as_checked(inst, tree, feed_current)
     loops, failed = _feed_loops(inst, tree, circuits)
     values, supplies, unreachable = _walk(inst, tree, loops, failed)
-    results = _run(circuits, supplies, unreachable, scope, exact)
+    results = _run(circuits, supplies, unreachable, scope, exact, progress)
     for (b, c), (_, note) in feed_current.items():
         if note and isinstance(results[b][c], CircuitResult):
             results[b][c].cautions.append(note)

@@ -96,3 +96,39 @@ def test_the_form_shows_api_errors_next_to_their_fields(browser, base_url):
     assert ze.get_attribute("aria-invalid") == "true"
     assert "greater than or equal to" in browser.find_element(By.ID, "err-ze").text
     assert not browser.find_element(By.ID, "result").is_displayed()
+
+
+def test_the_installation_report_prints_to_pdf_with_every_circuit(base_url, tmp_path):
+    """POST /v1/installations/report, printed by the headless browser (--print-to-pdf), read back with pypdf."""
+    import json
+    import re
+    import subprocess
+    import unicodedata
+    import urllib.request
+
+    from pypdf import PdfReader
+
+    from tests.paths import EXAMPLES
+
+    body = (EXAMPLES / "installations-check.json").read_bytes()
+    request = urllib.request.Request(
+        f"{base_url}/v1/installations/report", data=body, headers={"Content-Type": "application/json"}
+    )
+    with urllib.request.urlopen(request, timeout=60) as response:
+        assert response.headers.get_content_type() == "text/html"
+        page = tmp_path / "report.html"
+        page.write_bytes(response.read())
+    pdf = tmp_path / "report.pdf"
+    subprocess.run(
+        [CHROMIUM, "--headless=new", "--no-sandbox", "--disable-gpu", "--no-pdf-header-footer",
+         f"--user-data-dir={tmp_path / 'profile'}", f"--print-to-pdf={pdf}", page.as_uri()],
+        capture_output=True, timeout=120, check=True,
+    )  # fmt: skip
+    reader = PdfReader(pdf)  # text without the printer's ligatures (ffi, fi) below
+    text = re.sub(r"\s+", " ", unicodedata.normalize("NFKC", " ".join(p.extract_text() for p in reader.pages)))
+    boards = json.loads(body)["boards"]
+    assert len(reader.pages) >= 1 + len(boards)  # the summary, then each board from a new page
+    for board in boards:
+        assert f"Board {board['id']}" in text
+        for circuit in board["circuits"]:
+            assert circuit["id"] in text, circuit["id"]

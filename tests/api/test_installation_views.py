@@ -157,3 +157,14 @@ def test_ohms_and_amps_are_not_float_noise(answer):
     for board in answer["boards"]:
         figures = [v for k, v in board.items() if k.endswith(("_ohm", "_ka", "_a", "_percent")) and v is not None]
         assert figures and all(math.isclose(v, round(v, 4)) for v in figures)
+
+
+def test_the_report_is_html_that_fetches_nothing(client):
+    response = client.post("/v1/installations/report", json=DEMO)
+    assert response.status_code == 200 and response.mimetype == "text/html"
+    assert "default-src 'none'" in response.headers["Content-Security-Policy"]
+    page = response.get_data(as_text=True)
+    assert page.count('class="circuit"') == 8 and "Board OFFICE" in page
+    spoiled = copy.deepcopy(DEMO)
+    spoiled["boards"][2]["fed_from"] = "NOWHERE"
+    assert client.post("/v1/installations/report", json=spoiled).status_code == 422

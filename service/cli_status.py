@@ -1,0 +1,42 @@
+"""What both file checks share: their exit statuses and the progress bar on standard error."""
+
+from __future__ import annotations
+
+import time
+from typing import TextIO
+
+from .electrical.verdicts import Verdict
+
+CHUNK = 2000  # the bar shows from this many circuits
+
+EXIT_PASS, EXIT_FAIL, EXIT_UNREADABLE, EXIT_INVALID, EXIT_NOT_VERIFIED = 0, 1, 2, 3, 4
+
+
+def exit_status(counts: dict[str, int]) -> int:
+    """0 only when every circuit passes; 1 any fails; else 3 some could not be checked; else 4 some not-verified."""
+    if counts[Verdict.FAIL]:
+        return EXIT_FAIL
+    if counts["invalid"]:
+        return EXIT_INVALID
+    if counts[Verdict.NOT_VERIFIED]:
+        return EXIT_NOT_VERIFIED
+    return EXIT_PASS
+
+
+class Progress:
+    """A bar on standard error when it is a terminal; silent otherwise."""
+
+    def __init__(self, total: int, stream: TextIO):
+        self.total, self.stream, self.shown = total, stream, stream.isatty() and total >= CHUNK
+        self.started = time.monotonic()
+
+    def update(self, done: int) -> None:
+        if not self.shown:
+            return
+        width = 30
+        filled = int(width * done / max(self.total, 1))
+        rate = done / max(time.monotonic() - self.started, 1e-9)
+        self.stream.write(f"\r[{'#' * filled}{'.' * (width - filled)}] {done}/{self.total} circuits, {rate:,.0f}/s")
+        self.stream.flush()
+        if done >= self.total:
+            self.stream.write("\n")

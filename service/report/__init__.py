@@ -1,0 +1,109 @@
+"""The printable report of an installation: per board its values and a schedule of its circuits, the
+coordination pictures, the cautions. One HTML file with its print styles and pictures inline (no CDN)."""
+
+from __future__ import annotations
+
+import datetime as dt
+from collections.abc import Mapping, Sequence
+from pathlib import Path
+from typing import Any
+
+from jinja2 import Environment, FileSystemLoader, select_autoescape
+from markupsafe import Markup
+
+from ..electrical.columns import CircuitFailure
+from ..electrical.devices.catalogue import resolve
+from ..electrical.installation import BoardResult, InstallationResult
+from ..electrical.model import Circuit, Installation, Unread
+from ..electrical.results import CircuitResult
+from ..electrical.verdicts import Verdict
+from ..picture import coordination_svg
+
+HERE = Path(__file__).parent
+ENV = Environment(loader=FileSystemLoader(HERE), autoescape=select_autoescape(["html"]), trim_blocks=True)
+
+
+def _cable(circuit: Circuit) -> str:
+    c = circuit.conductors
+    if c is None:
+        return f"R1+R2 {circuit.r1_plus_r2_ohm:g} ohm (given)"
+    parallel = f"{c.parallel_cables} x " if c.parallel_cables > 1 else ""
+    ring = ", ring" if c.ring else ""
+    return f"{parallel}{c.line_csa_mm2:g}/{c.cpc_csa_mm2:g} mm2 {c.material}, {c.length_m:g} m{ring}"
+
+
+def _row(item: Any, circuit: Any, problems: Sequence[str]) -> dict[str, Any]:
+    """One line of a board's schedule."""
+    if isinstance(item, CircuitResult):
+        return {
+            "id": item.id,
+            "device": item.device["label"],
+            "cable": _cable(circuit),
+            "result": item,
+            "issues": [
+                c for c in item.checks if c.verdict != Verdict.PASS and c.check in item.verdict_scope["covered"]
+            ],
+            "reported": [
+                c for c in item.checks if c.verdict != Verdict.PASS and c.check in item.verdict_scope["left_out"]
+            ],
+            "selectivity": item.selectivity,
+        }
+    message = item.message if isinstance(item, CircuitFailure) else "; ".join(problems)
+    return {"id": getattr(item, "id", None), "problem": message or "not checked"}
+
+
+def _pictures(board: BoardResult, circuits: Sequence[Any], upstream: Any) -> list[dict[str, Any]]:
+    """One coordination picture per distinct pair of devices on the board, with the board's fault levels."""
+    if upstream is None:
+        return []
+    pairs: dict[tuple, dict[str, Any]] = {}
+    for item, circuit in zip(board.circuits, circuits, strict=True):
+        if not isinstance(item, CircuitResult) or item.selectivity is None:
+            continue
+        key = (circuit.device.curve_key, item.selectivity["verdict"], item.selectivity["up_to_a"])
+        pairs.setdefault(key, {"device": circuit.device, "selectivity": item.selectivity, "ids": []})["ids"].append(
+            item.id or "(no id)"
+        )
+    levels = {
+        "largest fault at the board": None if board.max_fault_current_ka is None else board.max_fault_current_ka * 1000,
+        "smallest earth fault at the board": board.min_earth_fault_current_a,
+    }
+    out = []
+    for pair in pairs.values():
+        down, up = resolve(pair["device"]), resolve(upstream)
+        title = f"{down.label} under {up.label}: {pair['selectivity']['verdict']}"
+        svg = coordination_svg(down, up, levels, pair["selectivity"]["up_to_a"], title).decode()
+        out.append({"svg": Markup(svg[svg.index("<svg") :]), **pair})
+    return out
+
+
+def report_html(
+    inst: Installation,
+    result: InstallationResult,
+    problems: Mapping[tuple[int, int], Sequence[str]] | None = None,
+    generated: dt.datetime | None = None,
+) -> str:
+    """The report as one HTML document; ``problems`` holds the messages of circuits the caller could not read."""
+    positions = {board.id: b for b, board in enumerate(inst.boards)}
+    sections = []
+    for board in result.boards:
+        b = positions[board.id]
+        circuits = inst.boards[b].circuits
+        rows = [
+            _row(item, circuit, (problems or {}).get((b, c), ()))
+            for c, (item, circuit) in enumerate(zip(board.circuits, circuits, strict=True))
+        ]
+        upstream = _upstream_of(inst, result, board)
+        pictures = [] if board.not_checked else _pictures(board, circuits, upstream)
+        sections.append({"board": board, "rows": rows, "pictures": pictures})
+    when = (generated or dt.datetime.now(dt.UTC)).strftime("%Y-%m-%d %H:%M UTC")
+    return ENV.get_template("report.html").render(inst=inst, result=result, sections=sections, generated=when)
+
+
+def _upstream_of(inst: Installation, result: InstallationResult, board: BoardResult) -> Any:
+    """The device feeding the board: the feed's, or the origin board's own."""
+    if board.fed_from is None:
+        return next(b.device for b in inst.boards if b.id == board.id)
+    parent = next(b for b in inst.boards if b.id == board.fed_from)
+    feed = next((c for c in parent.circuits if c.feeds_board == board.id), None)
+    return None if feed is None or isinstance(feed, Unread) else feed.device

@@ -1,0 +1,56 @@
+"""The printable report of an installation: every board and circuit in it, pictures inline, nothing fetched."""
+
+import copy
+import json
+import re
+
+import pytest
+
+from service.api.installation_schemas import InstallationRequestSchema, installation_of, problem_messages
+from service.electrical.installation import check_installation
+from service.report import report_html
+from tests.paths import EXAMPLES
+
+DEMO = json.loads((EXAMPLES / "installations-check.json").read_text())
+
+
+def rendered(body):
+    inst, problems = installation_of(InstallationRequestSchema().load(copy.deepcopy(body)))
+    return report_html(inst, check_installation(inst), problem_messages(problems))
+
+
+@pytest.fixture(scope="module")
+def html():
+    return rendered(DEMO)
+
+
+def test_every_board_and_circuit_is_in_the_report(html):
+    assert re.findall(r'<section class="board" id="board-([^"]+)"', html) == ["MAIN", "WORKSHOP", "OFFICE"]
+    ids = re.findall(r'<tr class="circuit" data-circuit="([^"]*)"', html)
+    assert ids == [c["id"] for b in DEMO["boards"] for c in b["circuits"]]
+
+
+def test_the_pictures_are_inline_and_nothing_is_fetched(html):
+    # one coordination picture per pair of devices on a board: three on MAIN, three on WORKSHOP, two on OFFICE
+    assert html.count("<svg") == 8 and html.count("<figure>") == 8
+    assert not re.search(r'(src|href)="(https?:)?//', html) and "@page" in html and "@import" not in html
+
+
+def test_the_figures_and_verdicts_read_as_the_answer_does(html):
+    assert "Board WORKSHOP" in html and "0.2883 ohm" in html and "3.897 kA" in html
+    assert "none" in html and "reported, not in the verdict" in html
+    assert 'class="verdict fail">fail' in html
+
+
+def test_a_circuit_that_did_not_validate_is_listed_with_its_problem():
+    body = copy.deepcopy(DEMO)
+    body["boards"][2]["circuits"][1]["conductors"]["length_m"] = "far"
+    page = rendered(body)
+    assert "/boards/2/circuits/1/conductors/length_m: Not a number." in page
+    assert page.count('class="circuit"') == 8
+
+
+def test_user_text_is_escaped():
+    body = copy.deepcopy(DEMO)
+    body["id"] = "<script>alert(1)</script>"
+    assert "<script>" not in rendered(body)
