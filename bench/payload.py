@@ -54,3 +54,54 @@ def circuits(n: int, seed: int = 7) -> list[dict]:
 
 def batch(n: int, seed: int = 7) -> dict:
     return {"supply": SUPPLY, "circuits": circuits(n, seed)}
+
+
+THREE_PHASE = {"earthing": "TN-C-S", "u0_v": 230, "phases": 3, "ze_ohm": 0.15, "line_neutral_loop_ohm": 0.08}
+
+
+def _feed(target: str, rating_a: float, csa_mm2: float, length_m: float) -> dict:
+    return {
+        "id": f"{target} feed",
+        "role": "distribution",
+        "phases": 3,
+        "feeds_board": target,
+        "device": {"standard": "BS 88-2", "type": "gG", "rating_a": rating_a},
+        "conductors": {
+            "material": "copper",
+            "insulation": "thermosetting-90",
+            "line_csa_mm2": csa_mm2,
+            "cpc_csa_mm2": csa_mm2,
+            "length_m": length_m,
+        },
+        "installation": {"cable": "multicore-armoured-90c", "installation_method": "C"},
+    }
+
+
+def installation(n_circuits: int = 2000, groups: int = 7, per_group: int = 6, seed: int = 7) -> dict:
+    """An invented estate: a main board feeding ``groups`` distribution boards, each feeding ``per_group``
+    sub-boards (1 + 7 + 42 = 50 boards by default), the final circuits shared over the boards below the main."""
+    boards = [{"id": "MAIN", "fed_from": None, "circuits": [_feed(f"DB-{g}", 160, 70, 30) for g in range(groups)]}]
+    for g in range(groups):
+        subs = [f"DB-{g}.{s}" for s in range(per_group)]
+        boards.append({"id": f"DB-{g}", "fed_from": "MAIN", "circuits": [_feed(s, 63, 16, 20) for s in subs]})
+        boards += [{"id": s, "fed_from": f"DB-{g}", "circuits": []} for s in subs]
+    below = boards[1:]
+    feeds = sum(len(b["circuits"]) for b in boards)
+    for i, item in enumerate(circuits(n_circuits - feeds, seed)):
+        item = {
+            **item,
+            "design_current_a": round(0.6 * item["device"]["rating_a"], 1),
+            "phase": ("L1", "L2", "L3")[i % 3],
+        }
+        below[i % len(below)]["circuits"].append(item)
+    return {"id": "bench estate", "supply": THREE_PHASE, "boards": boards}
+
+
+def flat(installation_body: dict) -> dict:
+    """The same circuits as one flat batch on the origin's supply (no places in a tree)."""
+    items = [
+        {k: v for k, v in c.items() if k not in ("feeds_board", "diversity", "selectivity_required")}
+        for board in installation_body["boards"]
+        for c in board["circuits"]
+    ]
+    return {"supply": installation_body["supply"], "circuits": items}

@@ -25,7 +25,7 @@ ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
 from bench.harness import PY, Nginx, Server, load, median_time, peak_rss_mb, post  # noqa: E402
-from bench.payload import SUPPLY, batch, circuits  # noqa: E402
+from bench.payload import SUPPLY, batch, circuits, flat, installation  # noqa: E402
 
 ROWS: list[tuple[str, str, str, str, str]] = []
 
@@ -78,6 +78,26 @@ def bench_batch(server: Server) -> None:
     row("same batch streamed as NDJSON", f"{streamed * 1000:,.0f} ms", "", f"{streamed / floor:.1f}x", "")
     peak = max(peak_rss_mb(pid) for pid in server.worker_pids())
     row("peak worker memory after 10 000-circuit batches", f"{peak:,.0f} MB", "", "", "<= 250 MB")
+
+
+# ---------------------------------------------------------------- a whole installation
+
+
+def bench_installation(server: Server) -> None:
+    body = installation()
+    sent, as_batch = json.dumps(body).encode(), json.dumps(flat(body)).encode()
+    status, data = post(server.port, "/v1/installations/check", sent)
+    assert status == 200, data[:300]
+    whole = median_time(lambda: post(server.port, "/v1/installations/check", sent), 5)
+    batch_s = median_time(lambda: post(server.port, "/v1/circuits/check-batch", as_batch), 5)
+    boards, n = len(body["boards"]), sum(len(b["circuits"]) for b in body["boards"])
+    row(
+        f"installation of {boards} boards and {n:,} circuits over HTTP, end to end",
+        f"{whole * 1000:,.0f} ms",
+        f"the same circuits as a flat batch {batch_s * 1000:,.0f} ms",
+        f"{whole / batch_s:.2f}x",
+        "<= 1.5x",
+    )
 
 
 # ---------------------------------------------------------------- 3. single check under load
@@ -208,6 +228,7 @@ def main() -> int:
     bare = Server(app="bench.bare_app:app", workers=2)
     try:
         bench_batch(server)
+        bench_installation(server)
         bench_single(server, bare, seconds)
     finally:
         server.stop()

@@ -68,15 +68,43 @@ class Demand:
         return spread, neutral
 
 
-def _draw(board_phases: int, circuit_phases: int, phase: str | None, current_a: float) -> tuple[np.ndarray, bool]:
+def _draw(board_phases: int, circuit_phases: int, phase: str | None, current_a: float) -> tuple[list[float], bool]:
     """What one circuit draws on each phase of its board, and whether it was left without a phase."""
     if board_phases != 3:
-        return np.array([current_a]), False
+        return [current_a], False
     if circuit_phases == 3:
-        return np.full(3, current_a), False
+        return [current_a] * 3, False
     if phase in PHASES:
-        return np.where(np.arange(3) == PHASES.index(phase), current_a, 0.0), False
-    return np.full(3, current_a), True
+        return [current_a if p == phase else 0.0 for p in PHASES], False
+    return [current_a] * 3, True
+
+
+def _board_demand(b: int, inst: Installation, tree: Tree, out: list, child_of: dict, feed_current: dict) -> Demand:
+    """One board's demand, its feeds' currents recorded in ``feed_current`` (the boards below come first)."""
+    board, n = inst.boards[b], (3 if tree.phases[b] == 3 else 1)
+    total, complete, missing, unallocated = [0.0] * n, True, [], 0
+    for c, circuit in enumerate(board.circuits):
+        if isinstance(circuit, Unread):
+            complete = False
+            missing.append(circuit.id or f"circuit {c + 1}")
+            continue
+        current, fed = circuit.design_current_a, out[child_of[(b, c)]] if (b, c) in child_of else None
+        if (b, c) in child_of:
+            current, note = _feed_current(current, fed)
+            feed_current[(b, c)] = (current, note)
+        if current is None or math.isnan(current):
+            complete = False
+            missing.append(circuit.id or f"circuit {c + 1}")
+            continue
+        draw, left = _draw(tree.phases[b], circuit.phases, circuit.phase, current)
+        if fed is not None and fed.complete and len(fed.per_phase_a) == len(draw) == 3:
+            draw = [max(x, current if current > fed.design_current_a else 0.0) for x in fed.per_phase_a.tolist()]
+        share = 1.0 if circuit.diversity is None else circuit.diversity
+        total = [t + d * share for t, d in zip(total, draw, strict=True)]
+        unallocated += left
+    if board.design_current_a is not None:
+        return Demand(np.full(n, float(board.design_current_a)), True, True, missing, unallocated)
+    return Demand(np.array(total) * board.diversity, complete, False, missing, unallocated)
 
 
 def demands(
@@ -87,27 +115,7 @@ def demands(
     feed_current: dict[tuple[int, int], tuple[float | None, str | None]] = {}
     child_of = {feed: b for b, feed in enumerate(tree.feed) if feed is not None}
     for b in reversed(tree.order):
-        board, n = inst.boards[b], (3 if tree.phases[b] == 3 else 1)
-        total, complete, missing, unallocated = np.zeros(n), True, [], 0
-        for c, circuit in enumerate(board.circuits):
-            current = None if isinstance(circuit, Unread) else circuit.design_current_a
-            if (b, c) in child_of and not isinstance(circuit, Unread):
-                current, note = _feed_current(current, out[child_of[(b, c)]])
-                feed_current[(b, c)] = (current, note)
-            if current is None or math.isnan(current):
-                complete = False
-                missing.append(circuit.id or f"circuit {c + 1}")
-                continue
-            draw, left = _draw(tree.phases[b], circuit.phases, circuit.phase, current)
-            fed = out[child_of[(b, c)]] if (b, c) in child_of else None
-            if fed is not None and fed.complete and len(fed.per_phase_a) == len(draw) == 3:
-                draw = np.maximum(fed.per_phase_a, current if current > fed.design_current_a else 0.0)
-            total += draw * (1.0 if circuit.diversity is None else circuit.diversity)
-            unallocated += left
-        if board.design_current_a is not None:
-            out[b] = Demand(np.full(n, float(board.design_current_a)), True, True, missing, unallocated)
-        else:
-            out[b] = Demand(total * board.diversity, complete, False, missing, unallocated)
+        out[b] = _board_demand(b, inst, tree, out, child_of, feed_current)
     return out, feed_current  # type: ignore[return-value]
 
 

@@ -104,6 +104,12 @@ class CircuitColumns:
         return len(self.circuits)
 
 
+def _conditional(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> np.ndarray:
+    """The conditional short-circuit rating each circuit's device is used under: its own, else its board's."""
+    own = [c.conditional_short_circuit_ka for c in circuits]
+    return _optional([s.conditional_short_circuit_ka if o is None else o for s, o in zip(supplies, own, strict=True)])
+
+
 def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> CircuitColumns:
     """The columns of circuits that :func:`prepare` accepted."""
     device_groups = groups([c.device.curve_key for c in circuits])
@@ -155,7 +161,7 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         let_through_a2s=_optional([c.device.let_through_a2s for c in circuits]),
         energy_class=[c.device.energy_limiting_class for c in circuits],
         breaking_capacity_ka=_optional([c.device.breaking_capacity_ka for c in circuits]),
-        conditional_ka=_optional([c.conditional_short_circuit_ka for c in circuits]),
+        conditional_ka=_conditional(supplies, circuits),
         line_neutral_loop_ohm=_optional([s.line_neutral_loop_ohm for s in supplies]),
         board=np.array([s.board for s in supplies], dtype=object),
     )

@@ -109,28 +109,26 @@ def _upstream(inst: Installation, tree: Tree, b: int) -> tuple[Any, str | None]:
     return getattr(inst.boards[pb].circuits[pc], "device", None), _label(inst, pb, pc)
 
 
-def _as_checked(inst: Installation, tree: Tree, feed_current: dict) -> list[list[Circuit | Unread]]:
-    """Each board's circuits as the pipeline checks them: the feed's Ib, the upstream device, the board's ratings."""
-    out = []
-    for b, board in enumerate(inst.boards):
-        device, device_id = _upstream(inst, tree, b)
-        out.append(
-            [
-                circuit
-                if isinstance(circuit, Unread)
-                else dataclasses.replace(
-                    circuit,
-                    design_current_a=feed_current.get((b, c), (circuit.design_current_a, None))[0],
-                    upstream_device=device,
-                    upstream_id=device_id,
-                    selectivity_required=circuit.selectivity_required or board.selectivity_required,
-                    conditional_short_circuit_ka=circuit.conditional_short_circuit_ka
-                    or board.conditional_short_circuit_ka,
-                )
-                for c, circuit in enumerate(board.circuits)
-            ]
-        )
+def _as_checked(inst: Installation, feed_current: dict) -> list[list[Circuit | Unread]]:
+    """Each board's circuits as the pipeline checks them: a feed with the design current of the board below."""
+    out = [list(board.circuits) for board in inst.boards]
+    for (b, c), (current, _) in feed_current.items():
+        if not isinstance(out[b][c], Unread):
+            out[b][c] = dataclasses.replace(out[b][c], design_current_a=current)  # type: ignore[arg-type]
     return out
+
+
+def _at_board(inst: Installation, tree: Tree, b: int, supply: Supply) -> Supply:
+    """The supply of board ``b``'s circuits with what the board adds: the device feeding it, its requirements."""
+    board = inst.boards[b]
+    device, device_id = _upstream(inst, tree, b)
+    return dataclasses.replace(
+        supply,
+        upstream_device=device,
+        upstream_id=device_id,
+        selectivity_required=board.selectivity_required,
+        conditional_short_circuit_ka=board.conditional_short_circuit_ka,
+    )
 
 
 def _feed_loops(
@@ -185,7 +183,7 @@ def _feed_loop(checked: Any, j: int) -> bv.FeedLoop:
 def _walk(inst: Installation, tree: Tree, loops: dict[int, bv.FeedLoop], failed: dict[int, str]):
     """Each board's values and supply top-down; why, for the boards that cannot be reached."""
     values: dict[int, bv.BoardFaults] = {tree.origin: bv.origin_faults(inst.supply)}
-    supplies: dict[int, Supply] = {tree.origin: inst.supply}
+    supplies: dict[int, Supply] = {tree.origin: _at_board(inst, tree, tree.origin, inst.supply)}
     unreachable: dict[int, str] = {}
     for b in tree.order[1:]:
         parent, (pb, pc) = tree.parent[b], tree.feed[b]  # type: ignore[misc]
@@ -196,7 +194,8 @@ def _walk(inst: Installation, tree: Tree, loops: dict[int, bv.FeedLoop], failed:
         else:
             values[b] = bv.below(values[parent], loops[b])
             extra = (bv.CAUTIONS["no-reactance"],) if loops[b].large_without_reactance else ()
-            supplies[b] = bv.board_supply(inst.supply, inst.boards[b], values[b], tree.phases[b], extra)
+            below = bv.board_supply(inst.supply, inst.boards[b], values[b], tree.phases[b], extra)
+            supplies[b] = _at_board(inst, tree, b, below)
     return values, supplies, unreachable
 
 
@@ -234,7 +233,7 @@ def check_installation(
     tree = tree_of(inst)
     _check_diversity(inst)
     demand, feed_current = bv.demands(inst, tree)
-    circuits = _as_checked(inst, tree, feed_current)
+    circuits = _as_checked(inst, feed_current)
     loops, failed = _feed_loops(inst, tree, circuits)
     values, supplies, unreachable = _walk(inst, tree, loops, failed)
     results = _run(circuits, supplies, unreachable, scope, exact, progress)

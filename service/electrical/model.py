@@ -30,6 +30,12 @@ class Supply:
     voltage_drop_percent: float = 0.0  # the drop from the origin to this point (a board of an installation)
     board: str | None = None  # set where the values are those carried down to a board of an installation
     cautions: tuple[str, ...] = ()  # what every result at this point must say (carried down from the origin)
+    # at a board of an installation: the device feeding it (selectivity, 536.4), whether selectivity is required
+    # for all its circuits, and the assembly's conditional short-circuit rating (BS EN 61439-3)
+    upstream_device: DeviceSpec | None = None
+    upstream_id: str | None = None
+    selectivity_required: bool = False
+    conditional_short_circuit_ka: float | None = None
 
 
 @dataclass(frozen=True)
@@ -124,10 +130,8 @@ class Circuit:
     phase: str | None = None  # L1, L2 or L3 for a single-phase circuit of a three-phase board
     use: str = "other"  # lighting or other, for the voltage drop limit
     voltage_drop_limit_percent: float | None = None  # in place of Appendix 4's
-    upstream_device: DeviceSpec | None = None  # the device feeding the circuit's board (selectivity, 536.4)
-    upstream_id: str | None = None
     selectivity_limit_a: float | None = None  # the maker's selectivity limit for the pair
-    selectivity_required: bool = False  # a fault here must not take out the board above
+    selectivity_required: bool = False  # a fault here must not take out the board above (or the supply's)
     feeds_board: str | None = None  # the id of the board this circuit supplies (a sub-main)
     diversity: float | None = None  # the share of the design current counted in the board's demand
 

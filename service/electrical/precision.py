@@ -8,6 +8,7 @@ rule by the unit in its name (``zs_ohm``, ``min_csa_mm2``) or, for a check, by t
 
 from __future__ import annotations
 
+import math
 from typing import Any
 
 import numpy as np
@@ -78,5 +79,7 @@ def _rounded_value(key: str, value: Any, unit: str | None) -> Any:
         return rounded_record(value, key)
     if isinstance(value, float) and not isinstance(value, bool):
         rule = rule_for(key) or (rule_for(unit) if unit else None)
+        if rule and rule[0] == "decimals" and math.isfinite(value):
+            return round(value, rule[1]) + 0.0  # one number: Python's round, no array (+ 0.0: no -0.0)
         return float(rounded(value, rule)) if rule else value
     return value

@@ -1,12 +1,12 @@
 """The selectivity step: each circuit's device against the device that feeds its board (BS 7671:2018 536.4).
 
-Reported wherever the upstream device is known (a circuit of an installation's board) or selectivity is
-required (not-verified where the upstream device is not known); it counts in the circuit's verdict only
-where selectivity is required (``selectivity_required``: a fault here must not take
-out the board above). ``total`` passes; ``partial`` (the largest fault at the device can exceed the limit)
-and ``none`` fail; ``not-verified`` where standard data cannot show it. The largest fault at the device is
-the prospective fault current at its board (434.1: line-neutral, line-earth or three-phase, the largest).
-The rules are in :mod:`service.electrical.selectivity`.
+Reported wherever the upstream device is known (the supply of a circuit of an installation's board carries
+it) or selectivity is required (not-verified where the upstream device is not known); it counts in the
+circuit's verdict only where selectivity is required (the circuit's or its board's ``selectivity_required``:
+a fault here must not take out the board above). ``total`` passes; ``partial`` (the largest fault at the
+device can exceed the limit) and ``none`` fail; ``not-verified`` where standard data cannot show it. The
+largest fault at the device is the prospective fault current at its board (434.1: line-neutral, line-earth
+or three-phase, the largest). The rules are in :mod:`service.electrical.selectivity`.
 """
 
 from __future__ import annotations
@@ -26,17 +26,17 @@ BASIS = "BS 7671:2018 536.4: a fault on this circuit clears without operating th
 
 def _pairs(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
     limit, basis = np.full(cols.n, np.nan), np.full(cols.n, None, dtype=object)
-    for i, circuit in enumerate(cols.circuits):
-        if circuit.upstream_device is not None:
-            pair = selectivity.pair_limit(circuit.device, circuit.upstream_device, circuit.selectivity_limit_a)
+    for i, (supply, circuit) in enumerate(zip(cols.supplies, cols.circuits, strict=True)):
+        if supply.upstream_device is not None:
+            pair = selectivity.pair_limit(circuit.device, supply.upstream_device, circuit.selectivity_limit_a)
             limit[i], basis[i] = pair.limit_a, pair.basis
     return limit, basis
 
 
 def _residual(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
     words, bases = np.full(cols.n, None, dtype=object), np.full(cols.n, None, dtype=object)
-    for i, circuit in enumerate(cols.circuits):
-        up = circuit.upstream_device
+    for i, (supply, circuit) in enumerate(zip(cols.supplies, cols.circuits, strict=True)):
+        up = supply.upstream_device
         words[i], bases[i] = selectivity.rcd_pair(circuit.device.rcd, None if up is None else up.rcd)
     return words, bases
 
@@ -44,8 +44,11 @@ def _residual(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
 @check_step("selectivity")
 def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Total selectivity passes; partial or none fails; not-verified where the data cannot show it."""
-    has_upstream = np.array([c.upstream_device is not None for c in cols.circuits], dtype=bool)
-    required = np.array([c.selectivity_required for c in cols.circuits], dtype=bool)
+    has_upstream = np.array([s.upstream_device is not None for s in cols.supplies], dtype=bool)
+    required = np.array(
+        [c.selectivity_required or s.selectivity_required for s, c in zip(cols.supplies, cols.circuits, strict=True)],
+        dtype=bool,
+    )
     limit, basis = _pairs(cols)
     max_fault_a = loop.pfc_ka * 1000.0
     word, up_to = selectivity.verdicts_of(limit, max_fault_a)
@@ -56,7 +59,7 @@ def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
         verdicts.FAIL,
     ).astype(np.int8)
     basis = np.where(has_upstream, basis, NO_UPSTREAM).astype(object)
-    upstream = np.array([c.upstream_id for c in cols.circuits], dtype=object)
+    upstream = np.array([s.upstream_id for s in cols.supplies], dtype=object)
     detail = {
         "with": upstream,
         "verdict": word,
