@@ -87,6 +87,7 @@ class OverloadResultSchema(Schema):
     iz_a = nullable_number("It x Ca x Cg x Ci x Cc, times the cables in parallel")
     factors = fields.Dict(keys=fields.String(), values=fields.Nested("FactorSchema"), allow_none=True, required=True)
     capacity_confidence = fields.String(allow_none=True, required=True)
+    capacity_basis = fields.String(allow_none=True, required=True, metadata={"description": "where It comes from"})
     verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
     basis = fields.String(required=True)
 

@@ -18,13 +18,13 @@ from ..electrical.checks import CHECKS
 from ..electrical.columns import PHASES
 from ..electrical.devices import catalogue, residual
 from ..electrical.devices.let_through import ENERGY_CLASSES
-from ..electrical.model import CableRun, Circuit, Conductors, DeviceSpec, Rcd, Supply
+from ..electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
 from . import fastload
+from .cable_schemas import InstallationSchema
 from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
 
 DEVICE_STANDARDS = catalogue.standards()
-ALL_METHODS = sorted({m for cable in capacity.CABLES for m in capacity.methods(cable)})
 DEVICE_TYPES = catalogue.types()
 
 
@@ -238,30 +238,6 @@ class SupplySchema(Schema):
     @post_load
     def make(self, data, **kwargs):
         return Supply(**data)
-
-
-class InstallationSchema(Schema):
-    cable = choice(capacity.CABLES, required=True, metadata={"description": "which BS 7671 table: 4D5, 4E4A or 4E1A"})
-    installation_method = choice(ALL_METHODS, required=True, metadata={"description": "a method of that table"})
-    ambient_c = Number(minimum=-10, maximum=60, load_default=30.0)
-    grouping = choice(capacity.GROUPINGS, load_default="bunched")
-    grouped_circuits = WholeNumber(minimum=1, maximum=60, load_default=1)
-    thermal_insulation_mm = Number(
-        minimum=0,
-        maximum=2000,
-        load_default=0.0,
-        metadata={"description": "length totally surrounded by insulation (Table 52.2)"},
-    )
-    ground_c = Number(minimum=0, maximum=40, metadata={"description": "method D: ground temperature (default 20)"})
-    soil_resistivity_k_m_per_w = Number(
-        minimum=0.5, maximum=3, metadata={"description": "method D: soil thermal resistivity"}
-    )
-    in_duct = Flag(load_default=False)
-    reactance_mohm_per_m = Number(minimum=0, maximum=1, metadata={"description": "for a drop computed from resistance"})
-
-    @post_load
-    def make(self, data, **kwargs):
-        return CableRun(**data)
 
 
 class CircuitSchema(Schema):

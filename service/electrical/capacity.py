@@ -22,10 +22,22 @@ from .model import CableRun
 
 CABLES = {
     "flat-twin-earth-70c": "capacity_flat_twin_earth_70c",
-    "multicore-armoured-90c": "capacity_multicore_armoured_90c",
+    "single-core-70c": "capacity_single_core_70c",
     "single-core-90c": "capacity_single_core_90c",
+    "multicore-armoured-70c": "capacity_multicore_armoured_70c",
+    "multicore-armoured-90c": "capacity_multicore_armoured_90c",
+    "multicore-armoured-90c-aluminium": "capacity_multicore_armoured_90c_aluminium",
+    "mineral-light-70c": "capacity_mineral_light_70c",
+    "mineral-heavy-70c": "capacity_mineral_heavy_70c",
+    "mineral-light-105c": "capacity_mineral_light_105c",
+    "mineral-heavy-105c": "capacity_mineral_heavy_105c",
 }
-GROUPINGS = ("bunched", "single-layer-touching", "under-wooden-ceiling", "perforated-tray", "ladder-or-cleats")
+# the 70 degC table of the same construction, for a hotter cable landing on 70 degC terminals (512.1.5)
+AT_70C = {"single-core-90c": "single-core-70c", "multicore-armoured-90c": "multicore-armoured-70c"}
+AIR_GROUPINGS = ("bunched", "single-layer-touching", "under-wooden-ceiling", "perforated-tray", "ladder-or-cleats")
+BURIED_GROUPINGS = ("buried-direct", "buried-in-ducts")
+GROUPINGS = AIR_GROUPINGS + BURIED_GROUPINGS
+BURIED_SPACINGS = ("touching", "one-cable-diameter", "125-mm", "250-mm", "500-mm", "1000-mm")
 USES = ("lighting", "other")
 SUPPLY_KINDS = ("public", "private")
 
@@ -95,6 +107,34 @@ def ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
     return 1.0, "BS 7671 Table 4B1: 1.00 taken between 25 and 30 degC (conservative)"
 
 
+def mineral_ambient_factor(insulation: str, ambient_c: float) -> tuple[float, str]:
+    """Ca for a mineral-insulated cable (BS 7671 Table 4B1, its own column, from memory): the next warmer value."""
+    table = core_table("correction_factors")["mineral_ambient"][insulation]
+    if ambient_c <= 30:
+        return 1.0, "BS 7671 Table 4B1, mineral: 1.00 taken at and below 30 degC (conservative)"
+    temps = sorted(int(t) for t in table)
+    warmer = next((t for t in temps if t >= ambient_c), None)
+    if warmer is None:
+        raise InvalidInput("ambient_c", f"Table 4B1 goes to {temps[-1]} degC for this mineral-insulated cable")
+    return float(table[str(warmer)]), f"BS 7671 Table 4B1, mineral, at {warmer} degC (from memory)"
+
+
+def _check_buried(inst: CableRun, buried: bool) -> None:
+    """Buried runs (method D) take the buried groupings, and those only them; ducts as the grouping says."""
+    if buried and inst.grouping not in BURIED_GROUPINGS and inst.grouped_circuits > 1:
+        raise InvalidInput(
+            "grouping", f"a buried run (method D) is grouped by Table 4C2 or 4C3: {list(BURIED_GROUPINGS)}"
+        )
+    if not buried and inst.grouping in BURIED_GROUPINGS:
+        raise InvalidInput("grouping", f"{inst.grouping} is for buried runs (installation_method D)")
+    if inst.grouping in BURIED_GROUPINGS and inst.in_duct != (inst.grouping == "buried-in-ducts"):
+        raise InvalidInput("in_duct", f"in_duct must agree with the grouping {inst.grouping}")
+    if inst.buried_spacing is not None and inst.grouping not in BURIED_GROUPINGS:
+        raise InvalidInput(
+            "buried_spacing", "buried_spacing goes with a buried grouping (buried-direct, buried-in-ducts)"
+        )
+
+
 def ground_factor(insulation: str, ground_c: float) -> tuple[float, str]:
     """Ca for a ground temperature (BS 7671 Table 4B2, from memory): the next warmer tabulated value."""
     table = core_table("correction_factors")["ground"]
@@ -107,18 +147,42 @@ def ground_factor(insulation: str, ground_c: float) -> tuple[float, str]:
 
 
 def soil_factor(resistivity_k_m_per_w: float, in_duct: bool) -> tuple[float, str]:
-    """Factor for soil thermal resistivity (BS 7671 Table 4B3, from memory): the next higher tabulated value."""
-    table = core_table("correction_factors")["soil_resistivity"]["in-duct" if in_duct else "direct"]
-    values = sorted(float(v) for v in table)
-    higher = next((v for v in values if v >= resistivity_k_m_per_w), None)
-    if higher is None:
-        raise InvalidInput("soil_resistivity_k_m_per_w", f"resistivities up to {values[-1]:g} K m/W are tabulated")
-    return float(table[f"{higher:g}"]), f"BS 7671 Table 4B3 at {higher:g} K m/W (from memory)"
+    """Factor for soil thermal resistivity (BS 7671 Table 4B3, from memory): one of the table's own columns."""
+    table = core_table("correction_factors")["soil_resistivity"]
+    columns = [float(c) for c in table["columns_k_m_per_w"]]
+    if float(resistivity_k_m_per_w) not in columns:
+        raise InvalidInput(
+            "soil_resistivity_k_m_per_w",
+            f"Table 4B3's columns are {[f'{c:g}' for c in columns]} K m/W; use one of them",
+        )
+    value = table["in-duct" if in_duct else "direct"][f"{float(resistivity_k_m_per_w):g}"]
+    where = "in ducts" if in_duct else "direct in the ground"
+    return float(value), f"BS 7671 Table 4B3, {where}, {resistivity_k_m_per_w:g} K m/W (from memory)"
 
 
-def grouping_factor(arrangement: str, circuits: int) -> tuple[float, str]:
-    """Cg for ``circuits`` circuits grouped in ``arrangement`` (BS 7671 Table 4C1)."""
+def buried_grouping_factor(arrangement: str, circuits: int, spacing: str | None) -> tuple[float, str]:
+    """Cg for buried circuits (BS 7671 Table 4C2 direct in the ground, 4C3 in ducts; from memory)."""
+    table = core_table("correction_factors")["buried_grouping"]
+    kind = "in-duct" if arrangement == "buried-in-ducts" else "direct"
+    if circuits == 1:
+        return 1.0, "one buried circuit: no grouping"
+    spacings = list(table[kind])
+    if spacing not in spacings:
+        raise InvalidInput("buried_spacing", f"{arrangement} takes buried_spacing, one of {spacings}")
+    rows = table["circuits"]
+    row = next((i for i, n in enumerate(rows) if n >= circuits), None)
+    if row is None:
+        raise InvalidInput("grouped_circuits", f"Tables 4C2 and 4C3 go to {rows[-1]} circuits")
+    name = "4C3" if kind == "in-duct" else "4C2"
+    counted = f"{circuits} circuits" + ("" if rows[row] == circuits else f" (the {rows[row]}-circuit row)")
+    return float(table[kind][spacing][row]), f"BS 7671 Table {name}, {spacing}, {counted} (from memory)"
+
+
+def grouping_factor(arrangement: str, circuits: int, spacing: str | None = None) -> tuple[float, str]:
+    """Cg for ``circuits`` circuits grouped in ``arrangement`` (BS 7671 Table 4C1; buried: Tables 4C2, 4C3)."""
     table = core_table("correction_factors")["grouping"]
+    if arrangement in BURIED_GROUPINGS:
+        return buried_grouping_factor(arrangement, circuits, spacing)
     if arrangement not in GROUPINGS:
         raise InvalidInput("grouping", f"grouping is one of {list(GROUPINGS)}, not {arrangement!r}")
     row = table[arrangement]
@@ -151,35 +215,48 @@ def thermal_insulation_factor(length_mm: float, csa_mm2: float = 0.0) -> tuple[f
 
 
 def voltage_drop_mv_per_a_m(
-    cable: str, csa_mm2: float, phases: int, reactance_mohm_per_m: float | None = None
+    cable: str, csa_mm2: float, phases: int, reactance_mohm_per_m: float | None = None, method: str | None = None
 ) -> tuple[float, str]:
     """Voltage drop per ampere per metre (mV/A/m) at the conductor's operating temperature.
 
-    From the tabulated value where the table has one (BS 7671 Tables 4D5, 4E4B: z, or sqrt(r^2 + x^2));
-    otherwise 2 (single-phase) or sqrt(3) (three-phase) x R20 x (1 + 0.004 (theta - 20)), with a stated
-    reactance added as sqrt(r^2 + x^2).
+    From the tabulated value where the table has one (BS 7671 Tables 4D1B, 4D4B, 4D5, 4E1B, 4E4B: z, or
+    sqrt(r^2 + x^2)); for single-core cables the column of the method's arrangement (enclosed, or touching).
+    Otherwise 2 (single-phase) or sqrt(3) (three-phase) x R20 x (1 + 0.004 (theta - 20)) of the table's
+    conductor material, with a stated reactance added as sqrt(r^2 + x^2).
     """
     table = cable_table(cable)
     sizes = [float(s) for s in table["csa_mm2"]]
     if float(csa_mm2) not in sizes:
         raise UnknownConductor("line_csa_mm2", f"{cable} is tabulated for {sizes}")
     i = sizes.index(float(csa_mm2))
-    vd = (table.get("voltage_drop_mv_per_a_m") or {}).get(str(phases))
+    columns = table.get("voltage_drop_mv_per_a_m") or {}
+    arrangement = (table.get("voltage_drop_arrangements") or {}).get(method)
+    if "voltage_drop_arrangements" in table:
+        columns = columns.get(arrangement, {}) if arrangement else {}
+    vd = columns.get(str(phases))
     if vd is not None:
+        where = f" ({arrangement})" if arrangement else ""
         z = vd.get("z", [None] * len(sizes))[i]
         if z is not None:
-            return float(z), f"{table['source']}: tabulated {z:g} mV/A/m"
+            return float(z), f"{table['source']}: tabulated {z:g} mV/A/m{where}"
         r, x = vd.get("r", [None] * len(sizes))[i], vd.get("x", [None] * len(sizes))[i]
         if r is not None and x is not None:
-            return math.hypot(r, x), f"{table['source']}: sqrt(r^2 + x^2) from r {r:g} and x {x:g} mV/A/m"
+            return math.hypot(r, x), f"{table['source']}: sqrt(r^2 + x^2) from r {r:g} and x {x:g} mV/A/m{where}"
+    return _computed_drop(table, csa_mm2, phases, reactance_mohm_per_m)
+
+
+def _computed_drop(table: dict, csa_mm2: float, phases: int, reactance_mohm_per_m: float | None) -> tuple[float, str]:
     factor = 2.0 if phases == 1 else math.sqrt(3.0)
-    r20 = float(cond.resistance_mohm_per_m("copper", csa_mm2))
+    material = table.get("material", "copper")
+    r20 = float(cond.resistance_mohm_per_m(material, csa_mm2))
     multiplier = float(cond.temperature_multiplier(table["conductor_operating_c"]))
     r = factor * r20 * multiplier
     x = 0.0 if reactance_mohm_per_m is None else factor * reactance_mohm_per_m
-    basis = f"computed: {factor:.3g} x R20 {r20:g} mohm/m x {multiplier:.2f}"
+    basis = f"computed: {factor:.3g} x R20 {r20:g} mohm/m ({material}) x {multiplier:.2f}"
     if reactance_mohm_per_m is not None:
         basis += f", with reactance {reactance_mohm_per_m:g} mohm/m"
+    elif csa_mm2 > 16:
+        basis += ", no reactance given: resistance alone understates the drop of a large cable"
     return math.hypot(r, x), basis
 
 
@@ -229,15 +306,18 @@ def derating(inst: CableRun, insulation: str, device_standard: str | None, csa_m
     """
     factors: dict[str, dict[str, Any]] = {}
     buried = inst.installation_method == "D"
+    _check_buried(inst, buried)
     if buried:
         ca, basis = ground_factor(insulation, 20.0 if inst.ground_c is None else inst.ground_c)
+    elif insulation.startswith("mineral"):
+        ca, basis = mineral_ambient_factor(insulation, inst.ambient_c)
     else:
         ca, basis = ambient_factor(insulation, inst.ambient_c)
     factors["ambient"] = {"factor": ca, "basis": basis}
     if buried and inst.soil_resistivity_k_m_per_w is not None:
         cs, basis = soil_factor(inst.soil_resistivity_k_m_per_w, inst.in_duct)
         factors["soil"] = {"factor": cs, "basis": basis}
-    cg, basis = grouping_factor(inst.grouping, inst.grouped_circuits)
+    cg, basis = grouping_factor(inst.grouping, inst.grouped_circuits, inst.buried_spacing)
     factors["grouping"] = {"factor": cg, "basis": basis}
     if inst.thermal_insulation_mm > 0 and inst.installation_method in cable_table(inst.cable).get(
         "methods_with_insulation_allowed", []

@@ -111,6 +111,10 @@ class CableRun:
     soil_resistivity_k_m_per_w: float | None = None
     in_duct: bool = False
     reactance_mohm_per_m: float | None = None
+    buried_spacing: str | None = None  # Tables 4C2/4C3: touching, one-cable-diameter, 125-mm ... 1000-mm
+    capacity_a: float | None = None  # the tabulated It from the maker or the book, in place of the data files
+    voltage_drop_mv_per_a_m: float | None = None  # likewise the cable's mV/A/m
+    terminals_c: float | None = None  # the equipment's terminal rating, where the cable runs above 70 degC
 
 
 @dataclass(frozen=True)

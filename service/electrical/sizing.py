@@ -154,7 +154,12 @@ def voltage_drop(inst: CableRun, demand: Demand, csa: float, ib: float, u0_v: fl
 
     The limit beside it is the request's, else Appendix 4 section 6.4's for the supply and use.
     """
-    mv, basis = cap.voltage_drop_mv_per_a_m(inst.cable, csa, demand.phases, inst.reactance_mohm_per_m)
+    if inst.voltage_drop_mv_per_a_m is not None:
+        mv, basis = inst.voltage_drop_mv_per_a_m, "given in the request (installation.voltage_drop_mv_per_a_m)"
+    else:
+        mv, basis = cap.voltage_drop_mv_per_a_m(
+            inst.cable, csa, demand.phases, inst.reactance_mohm_per_m, inst.installation_method
+        )
     nominal = float(cap.nominal_voltage_v(u0_v, demand.phases))
     drop = float(cap.drop_v(mv, ib, length_m))
     if demand.voltage_drop_limit_percent is not None:

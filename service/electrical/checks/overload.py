@@ -27,35 +27,62 @@ NOTES = {
     "no-design-current": "State the design current (circuit.design_current_a) to check overload protection.",
     "no-installation": "State how the cable is run (circuit.installation) to check overload protection.",
     "no-cell": "The capacity table has no cell for this size and method: give the maker's or the book's figure.",
-    "aluminium": "The capacity tables here are for copper: an aluminium cable's capacity needs its own table.",
+    "material": "The cable family's table is for another conductor material: choose the family of the conductors.",
     "ring-outside": (
         "433.1.204 covers rings of 2.5 mm2 copper (or larger) on 30 or 32 A devices; for another ring the load "
         "sharing must be shown by the design."
     ),
-    "memory": "A capacity cell or factor used is from memory (unverified): see the factors' bases.",
+    "memory": "A capacity cell or factor used is from memory or derived (unverified): see the factors' bases.",
+    "terminals": (
+        "The cable is rated for a conductor above 70 degC: the equipment it lands on must have terminals rated for "
+        "that temperature, or the cable is taken at its 70 degC rating (512.1.5; state installation.terminals_c)."
+    ),
 }
 
 
 def _capacity(cols: CircuitColumns):
-    """It, Iz, the factors and the confidence for every circuit with an installation (NaN elsewhere)."""
+    """It, Iz, the factors, the confidence and the basis of It for every circuit with an installation (NaN
+    elsewhere): the request's capacity_a, else the table's cell (the 70 degC table's where the cable runs
+    hotter than terminals rated 70 degC, 512.1.5)."""
     n = cols.n
     it, iz = np.full(n, np.nan), np.full(n, np.nan)
     factors, confidence = np.full(n, None, dtype=object), np.full(n, None, dtype=object)
+    basis = np.full(n, None, dtype=object)
     c = cols.conductors
     for i, circuit in enumerate(cols.circuits):
         inst = circuit.installation
-        if inst is None or not c.present[i] or c.line_material[i] != "copper":
+        if inst is None or not c.present[i]:
             continue
-        try:
-            cell = capacity.tabulated(inst.cable, inst.installation_method, circuit.phases, float(c.line_csa[i]))
-        except ElectricalError:  # no column for these phases
-            cell = None
+        cell = _cell(inst, circuit.phases, float(c.line_csa[i]), c.line_material[i])
         if cell is None:
             continue
         insulation = capacity.cable_table(inst.cable)["insulation"]
         product, factors[i] = capacity.derating(inst, insulation, circuit.device.standard, float(c.line_csa[i]))
-        it[i], iz[i], confidence[i] = cell.it_a, cell.it_a * product * c.parallel[i], cell.confidence
-    return it, iz, factors, confidence
+        it[i], iz[i], confidence[i], basis[i] = cell[0], cell[0] * product * c.parallel[i], cell[1], cell[2]
+    return it, iz, factors, confidence, basis
+
+
+def _cell(inst, phases: int, csa_mm2: float, material: str) -> tuple[float, str, str] | None:
+    """(It, its confidence, its basis), or None where no table cell or given value covers the cable."""
+    if inst.capacity_a is not None:
+        return inst.capacity_a, "given", "given in the request (installation.capacity_a)"
+    table = capacity.cable_table(inst.cable)
+    if material != table.get("material", "copper"):
+        return None
+    cable = inst.cable
+    if inst.terminals_c is not None and inst.terminals_c < table["conductor_operating_c"]:
+        cable = capacity.AT_70C.get(cable)
+        if cable is None or inst.terminals_c < 70:
+            return None
+    try:
+        cell = capacity.tabulated(cable, inst.installation_method, phases, csa_mm2)
+    except ElectricalError:  # no column for these phases, or the method is not in the 70 degC table
+        return None
+    if cell is None:
+        return None
+    source = capacity.cable_table(cable)["source"]
+    at = f", at 70 degC for terminals rated {inst.terminals_c:g} degC" if cable != inst.cable else ""
+    return cell.it_a, cell.confidence, f"{source}, method {inst.installation_method}{at}"
 
 
 def _ring_rule(cols: CircuitColumns) -> tuple[np.ndarray, dict]:
@@ -66,11 +93,35 @@ def _ring_rule(cols: CircuitColumns) -> tuple[np.ndarray, dict]:
     return covered, ring
 
 
+def _other_material(cols: CircuitColumns) -> np.ndarray:
+    """Where the conductors' material is not the one the cable family's table is for (and no capacity is given)."""
+    out = np.zeros(cols.n, dtype=bool)
+    for i, circuit in enumerate(cols.circuits):
+        inst = circuit.installation
+        if inst is not None and cols.conductors.present[i] and inst.capacity_a is None:
+            out[i] = cols.conductors.line_material[i] != capacity.cable_table(inst.cable).get("material", "copper")
+    return out
+
+
+def _hot_terminals(cols: CircuitColumns) -> np.ndarray:
+    """Where a cable rated above 70 degC is used without a stated terminal rating."""
+    return np.array(
+        [
+            c.installation is not None
+            and c.installation.terminals_c is None
+            and capacity.cable_table(c.installation.cable)["conductor_operating_c"] > 70
+            for c in cols.circuits
+        ],
+        dtype=bool,
+    )
+
+
 def _from_memory(factors: np.ndarray, confidence: np.ndarray) -> np.ndarray:
     """Where the capacity cell or a factor used is from memory."""
     return np.array(
         [
-            f is not None and ("M" in (conf or "") or any("memory" in v["basis"] for v in f.values()))
+            f is not None
+            and (conf in ("M", "D") or "M " in (conf or "") or any("memory" in v["basis"] for v in f.values()))
             for f, conf in zip(factors, confidence, strict=True)
         ],
         dtype=bool,
@@ -81,7 +132,7 @@ def _from_memory(factors: np.ndarray, confidence: np.ndarray) -> np.ndarray:
 def overload(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where Ib <= In <= Iz (or the ring rule); not-verified without the design current or the installation."""
     c = cols.conductors
-    it, iz, factors, confidence = _capacity(cols)
+    it, iz, factors, confidence, it_basis = _capacity(cols)
     ib, in_a = cols.design_current_a, cols.rating_a
     ring_rule, ring = _ring_rule(cols)
     with np.errstate(invalid="ignore"):
@@ -92,8 +143,8 @@ def overload(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
     choices = [verdicts.FAIL, verdicts.NOT_VERIFIED, verdicts.NOT_VERIFIED, ring_ok, verdicts.PASS]
     verdict = np.select(conditions, choices, verdicts.FAIL).astype(np.int8)
     no_inst = np.array([ci.installation is None for ci in cols.circuits], dtype=bool)
-    why = [ib_over, np.isnan(ib), no_inst, c.present & (c.line_material != "copper"), np.isnan(iz), c.ring & ~ring_rule]
-    names = ["ib-over-in", "no-design-current", "no-installation", "aluminium", "no-cell", "ring-outside"]
+    why = [ib_over, np.isnan(ib), no_inst, _other_material(cols), np.isnan(iz), c.ring & ~ring_rule]
+    names = ["ib-over-in", "no-design-current", "no-installation", "material", "no-cell", "ring-outside"]
     note = pick(why, [NOTES[name] for name in names])
     basis = np.where(ring_rule, BASES["ring"], BASES["general"]).astype(object)
     detail = {
@@ -103,6 +154,7 @@ def overload(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
         "iz_a": iz,
         "factors": factors,
         "capacity_confidence": confidence,
+        "capacity_basis": it_basis,
         "verdict": verdict,
         "basis": basis,
     }
@@ -115,5 +167,5 @@ def overload(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
         basis,
         note,
         detail=("overload", detail),
-        cautions=[(_from_memory(factors, confidence), NOTES["memory"])],
+        cautions=[(_from_memory(factors, confidence), NOTES["memory"]), (_hot_terminals(cols), NOTES["terminals"])],
     )

@@ -39,7 +39,10 @@ def _mv_per_a_m(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
         run = circuit.installation
         if run is None or not c.present[i]:
             continue
-        key = (run.cable, float(c.line_csa[i]), circuit.phases, run.reactance_mohm_per_m)
+        if run.voltage_drop_mv_per_a_m is not None:
+            mv[i], basis[i] = run.voltage_drop_mv_per_a_m, "given in the request (installation.voltage_drop_mv_per_a_m)"
+            continue
+        key = (run.cable, float(c.line_csa[i]), circuit.phases, run.reactance_mohm_per_m, run.installation_method)
         if key not in seen:
             try:
                 seen[key] = capacity.voltage_drop_mv_per_a_m(*key)

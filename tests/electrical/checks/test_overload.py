@@ -3,6 +3,8 @@
 Capacities: BS 7671 Table 4D5 (tests/data/capacity/flat-twin-earth-70c-copper.csv); factors Appendix 4.
 """
 
+import dataclasses
+
 import pytest
 
 from service.electrical.model import CableRun, Conductors, DeviceSpec
@@ -65,3 +67,38 @@ def test_parallel_cables_share_the_load():
         device=fuse, conductors=pair, design_current_a=150, installation=CLIPPED, role="distribution"
     )
     assert c.limit[0] == 170 and verdict == "pass"
+
+
+SINGLES_16 = Conductors("copper", "thermosetting-90", 16, 16, 20)
+B80 = DeviceSpec(rating_a=80, standard="BS EN 60898", type="C", breaking_capacity_ka=10)
+
+
+def test_a_capacity_given_in_the_request_replaces_the_table_and_says_so():
+    given = CableRun("single-core-90c", "B", capacity_a=70)
+    verdict, c = verdict_of(device=B80, conductors=SINGLES_16, design_current_a=60, installation=given)
+    assert verdict == "fail" and c.limit[0] == 70 and "given in the request" in c.detail[1]["capacity_basis"][0]
+
+
+def test_terminals_rated_70c_take_the_70c_table():
+    # Table 4E1A method B 16 mm2 100 A at 90 degC, but on 70 degC terminals Table 4D1A's 76 A (from memory) applies
+    at_90 = CableRun("single-core-90c", "B")
+    verdict, c = verdict_of(device=B80, conductors=SINGLES_16, design_current_a=60, installation=at_90)
+    assert verdict == "pass" and c.limit[0] == 100
+    assert any("terminals" in text and mask[0] for mask, text in c.cautions)
+    at_70 = CableRun("single-core-90c", "B", terminals_c=70)
+    verdict, c = verdict_of(device=B80, conductors=SINGLES_16, design_current_a=60, installation=at_70)
+    assert verdict == "fail" and c.limit[0] == 76 and "70 degC for terminals" in c.detail[1]["capacity_basis"][0]
+
+
+def test_a_table_of_another_material_is_not_used():
+    aluminium = Conductors("aluminium", "thermosetting-90", 16, 16, 20)
+    copper_table = CableRun("multicore-armoured-90c", "C")
+    verdict, c = verdict_of(device=B80, conductors=aluminium, design_current_a=60, installation=copper_table)
+    assert verdict == "not-verified" and "another conductor material" in c.note[0]
+    # the aluminium family, three-phase: Table 4E4A's 94 A x 73/96 (IEC B.52.5) = 71 A (derived), below In 80 A
+    al_table = CableRun("multicore-armoured-90c-aluminium", "C")
+    three = dataclasses.replace(BAKERY, phases=3)
+    one = circuit(device=B80, conductors=aluminium, design_current_a=60, installation=al_table, phases=3)
+    c = step(run(three, one), "overload")
+    assert VERDICTS[c.verdict[0]] == "fail" and c.limit[0] == 71
+    assert c.detail[1]["capacity_confidence"][0] == "D" and any(mask[0] for mask, _ in c.cautions[:1])
