@@ -22,6 +22,7 @@ from werkzeug.exceptions import HTTPException
 from werkzeug.routing import BaseConverter
 
 from .api import (
+    cable_views,
     circuit_views,
     device_views,
     docs,
@@ -155,6 +156,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
         sizing_views.blp,
         measurement_views.blp,
         device_views.blp,
+        cable_views.blp,
         health.blp,
     ):
         api.register_blueprint(blueprint)

@@ -35,6 +35,14 @@ class MeasuredSchema(Schema):
     rcd_time_ms_at_idn = Number(minimum=0, maximum=10000)
     rcd_time_ms_at_5idn = Number(minimum=0, maximum=10000)
     polarity_confirmed = Flag()
+    ze_ohm = Number(minimum=0.001, maximum=2000, metadata={"description": "against the Ze the design assumed"})
+    prospective_fault_current_ka = Number(
+        minimum=0.001, maximum=200, metadata={"description": "against the device's breaking capacity"}
+    )
+    ring_r1_ohm = Number(minimum=0.0001, maximum=100, metadata={"description": "ring: line, end to end"})
+    ring_rn_ohm = Number(minimum=0.0001, maximum=100, metadata={"description": "ring: neutral, end to end"})
+    ring_r2_ohm = Number(minimum=0.0001, maximum=100, metadata={"description": "ring: cpc, end to end"})
+    rcd_tripped_at_half_idn = Flag(metadata={"description": "did the RCD trip at half IΔn (it must not)"})
 
     @post_load
     def make(self, data, **kwargs):
@@ -91,7 +99,7 @@ class VerifyResultSchema(Schema):
 @blp.arguments(VerifyRequestSchema)
 @blp.response(200, VerifyResultSchema)
 def verify_results(body):
-    """Judge measured Zs, R1+R2, insulation resistance, RCD times and polarity per circuit
+    """Judge measured Ze, fault level, Zs, R1+R2, ring continuity, insulation, RCD tests and polarity per circuit
 
     Zs and R1+R2 measured cold are compared with the design limit scaled by the ratio of resistances,
     with the 0.8 rule shown beside it. One result or problem per item, in order.

@@ -161,6 +161,16 @@ class ConductorsSchema(Schema):
         minimum=0.01, maximum=1000, metadata={"description": "maker's cpc (e.g. armour) resistance at 20 degC"}
     )
     bare_condition = choice(protective.BARE_CONDITIONS, metadata={"description": "for a bare cpc (Table 54.6)"})
+    cores = WholeNumber(
+        minimum=2,
+        maximum=5,
+        metadata={"description": "an armoured multicore cable's cores: the armour's resistance without the maker's"},
+    )
+
+    @validates_schema
+    def one_cable_or_parallel(self, data, **kwargs):
+        if data.get("ring") and data.get("parallel_cables", 1) > 1:
+            raise ValidationError("a ring final circuit is one cable: not run in parallel cables", "parallel_cables")
 
     @post_load
     def make(self, data, **kwargs):

@@ -9,12 +9,21 @@ from ..electrical import disconnection
 from ..electrical.errors import ElectricalError
 from ..electrical.model import DeviceSpec
 from ..electrical.reach import max_length, size_with_reach
-from ..electrical.sizing import RULED_OUT_ORDER, Demand
+from ..electrical.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand
 from .base import Blueprint
 from .errors import CoreInputError, json_response
-from .fields import Number, Text, WholeNumber, choice
+from .fields import Flag, Number, Text, WholeNumber, choice
 from .result_schemas import CircuitResultSchema, nullable_number
-from .schemas import DEVICE_STANDARDS, DEVICE_TYPES, CircuitSchema, InstallationSchema, RcdSchema, SupplySchema
+from .schemas import (
+    DEVICE_STANDARDS,
+    DEVICE_TYPES,
+    CircuitSchema,
+    InstallationSchema,
+    RcdSchema,
+    SupplySchema,
+    check_phases,
+    phases_field,
+)
 
 blp = Blueprint(
     "sizing",
@@ -43,7 +52,7 @@ class SizeRequestSchema(Schema):
     design_current_a = Number(minimum=0.1, maximum=1000, metadata={"description": "Ib; or give power_kw"})
     power_kw = Number(minimum=0.01, maximum=1000)
     power_factor = Number(minimum=0.1, maximum=1, load_default=1.0)
-    phases = WholeNumber(minimum=1, maximum=3, validate=validate.OneOf([1, 3]), load_default=1)
+    phases = phases_field("1 or 3")
     use = choice(cap.USES, load_default="other", metadata={"description": "for the voltage drop limit"})
     supply_kind = choice(cap.SUPPLY_KINDS, load_default="public")
     voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
@@ -55,9 +64,22 @@ class SizeRequestSchema(Schema):
     conditional_short_circuit_ka = Number(
         minimum=0.1, maximum=200, metadata={"description": "the board's conditional short-circuit rating, if any"}
     )
+    parallel_cables = WholeNumber(
+        minimum=1, maximum=12, load_default=1, metadata={"description": "equal cables in parallel (523.7)"}
+    )
+    ring = Flag(load_default=False, metadata={"description": "a ring final circuit: length_m is the whole ring"})
+    cpc = choice(
+        CPC_CHOICES,
+        load_default="cable",
+        metadata={"description": "the family's own cpc (a core, the twin-and-earth cpc, Table 54.7), or the armour"},
+    )
+    cores = WholeNumber(minimum=2, maximum=5, metadata={"description": "an armoured cable's cores, for armour as cpc"})
 
     @validates_schema
     def complete(self, data, **kwargs):
+        check_phases(data)
+        if data.get("ring") and data.get("parallel_cables", 1) > 1:
+            raise ValidationError("a ring final circuit is not run in parallel cables: give one or the other", "ring")
         if ("design_current_a" in data) == ("power_kw" in data):
             raise ValidationError("give either design_current_a or power_kw", "design_current_a")
         if data.get("role") == "final" and "load" not in data:
@@ -82,7 +104,12 @@ class VoltageDropSchema(Schema):
 
 class SelectedSchema(Schema):
     line_csa_mm2 = fields.Float(required=True)
-    cpc_csa_mm2 = fields.Float(required=True)
+    cpc_csa_mm2 = fields.Float(
+        required=True, metadata={"description": "the armour's cross-section where cpc is armour"}
+    )
+    cpc = fields.String(required=True, validate=validate.OneOf(CPC_CHOICES))
+    parallel_cables = fields.Integer(required=True)
+    ring = fields.Boolean(required=True)
     material = fields.String(required=True)
     insulation = fields.String(required=True)
     capacity = fields.Nested(CapacitySchema, required=True)
@@ -153,6 +180,10 @@ def size(body):
         load=body.get("load"),
         id=body.get("id"),
         conditional_short_circuit_ka=body.get("conditional_short_circuit_ka"),
+        parallel_cables=body["parallel_cables"],
+        ring=body["ring"],
+        cpc=body["cpc"],
+        cores=body.get("cores"),
     )
     try:
         result, reach = size_with_reach(body["supply"], demand, body["installation"], body["device"])
@@ -179,13 +210,14 @@ class MaxLengthRequestSchema(Schema):
     installation = fields.Nested(
         InstallationSchema, metadata={"description": "adds the voltage drop rule (with the circuit's design_current_a)"}
     )
-    phases = WholeNumber(minimum=1, maximum=3, validate=validate.OneOf([1, 3]), load_default=1)
+    phases = phases_field("1 or 3")
     use = choice(cap.USES, load_default="other")
     supply_kind = choice(cap.SUPPLY_KINDS, load_default="public")
     voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
 
     @validates_schema
     def has_conductors(self, data, **kwargs):
+        check_phases(data)
         circuit = data.get("circuit")
         if circuit is not None and circuit.conductors is None:
             raise ValidationError("the longest run needs the circuit's conductors", "circuit")

@@ -337,3 +337,39 @@ def installed_capacity(
     """Iz = It x Ca x Cg x Ci x Cc (BS 7671 Appendix 4), A, with each factor's value and basis."""
     product, factors = derating(inst, insulation, device_standard, float(csa_mm2))
     return it_a * product, factors
+
+
+def families() -> list[dict[str, Any]]:
+    """Every cable family: what it is, its methods with the sizes tabulated for each, its cpc, its sources."""
+    out = []
+    for cable in CABLES:
+        table = cable_table(cable)
+        methods_out = []
+        for method, text in table["methods"].items():
+            columns = table["capacity_a"].get(method, {})
+            methods_out.append(
+                {
+                    "method": method,
+                    "description": text,
+                    "sizes_mm2": {
+                        ("single-phase" if phases == "1" else "three-phase"): [
+                            c.csa_mm2 for c in capacities(cable, method, int(phases))
+                        ]
+                        for phases in sorted(columns)
+                    },
+                }
+            )
+        out.append(
+            {
+                "cable": cable,
+                "title": table["title"],
+                "material": table.get("material", "copper"),
+                "insulation": table["insulation"],
+                "conductor_operating_c": table["conductor_operating_c"],
+                "methods": methods_out,
+                "cpc": table["cpc"]["kind"],
+                "voltage_drop_table": bool(table.get("voltage_drop_mv_per_a_m")),
+                "data": {k: table[k] for k in ("title", "source", "edition", "confidence", "notes") if k in table},
+            }
+        )
+    return out

@@ -190,8 +190,8 @@ def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
         return InvalidInput(("circuit", "conductors"), "give the conductors, or a known r1_plus_r2_ohm")
     c = circuit.conductors
     for problem in (
-        _device_problem(circuit.device),
-        None if c is None else _conductor_problem(cond.arrangement(c), c.parallel_cables),
+        device_problem(circuit.device),
+        None if c is None else _conductor_problem(cond.arrangement(c), c.parallel_cables, c.ring),
         _rules_problem(supply, circuit.role, circuit.load, circuit.device.rating_a),
         _phase_problem(supply.phases, circuit.phases, circuit.phase, circuit.use, supply.supply_kind),
         None if circuit.installation is None else _installation_problem(circuit.installation, circuit.phases),
@@ -202,7 +202,7 @@ def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
 
 
 @lru_cache(maxsize=4096)
-def _device_problem(spec) -> ElectricalError | None:
+def device_problem(spec) -> ElectricalError | None:
     try:
         dev = resolve(spec)
         if spec.energy_limiting_class is not None and spec.energy_limiting_class not in let_through.ENERGY_CLASSES:
@@ -217,9 +217,11 @@ def _device_problem(spec) -> ElectricalError | None:
 
 
 @lru_cache(maxsize=4096)
-def _conductor_problem(arrangement: tuple, parallel_cables: int) -> ElectricalError | None:
+def _conductor_problem(arrangement: tuple, parallel_cables: int, ring: bool = False) -> ElectricalError | None:
     try:
         cond.check_parallel_cables(parallel_cables)
+        if ring and parallel_cables > 1:
+            raise InvalidInput("parallel_cables", "a ring final circuit is one cable: not run in parallel cables")
         cond.constants_of(*arrangement)
     except ElectricalError as err:
         return err.within("circuit", "conductors")

@@ -149,6 +149,7 @@ def arrangement(c: Conductors) -> tuple:
         c.cpc_resistance_mohm_per_m,
         c.bare_condition,
         c.neutral_csa_mm2,
+        c.cores,
     )
 
 
@@ -169,6 +170,7 @@ def constants_of(
     cpc_resistance_mohm_per_m: float | None,
     bare_condition: str | None,
     neutral_csa_mm2: float | None = None,
+    cores: int | None = None,
 ) -> tuple:
     """What a conductor arrangement contributes whatever its length.
 
@@ -187,10 +189,13 @@ def constants_of(
         cpc_r20 = float(cpc_resistance_mohm_per_m)
     elif cpc_mat in MATERIALS:
         cpc_r20 = resistance_mohm_per_m(cpc_mat, cpc_csa_mm2, conductor_class, field="cpc_csa_mm2")
+    elif cpc_arrangement == "armour" and cpc_mat == "steel" and cores is not None:
+        cpc_r20 = armour_resistance_mohm_per_m(insulation, line_csa_mm2, cores)
     else:
+        hint = " (or, for a thermosetting steel-wire-armoured cable, its cores)" if cpc_arrangement == "armour" else ""
         raise InvalidInput(
             "cpc_resistance_mohm_per_m",
-            f"a {cpc_mat} {cpc_arrangement} used as the cpc needs its resistance at 20 degC from the maker's data",
+            f"a {cpc_mat} {cpc_arrangement} as the cpc needs its resistance at 20 degC from the maker's data{hint}",
         )
     neutral_r20 = line_r20
     if neutral_csa_mm2 is not None:
@@ -209,6 +214,25 @@ def constants_of(
         k_line,
     )
     return tuple(float(v) for v in numbers) + (case["table"], cpc_mat)
+
+
+def armour_resistance_mohm_per_m(insulation: str, line_csa_mm2: float, cores: int) -> float:
+    """Steel wire armour resistance at 20 degC, mohm/m: rho20 / area x the a.c. factor (data/armour_resistance.json).
+
+    BS 5467 (thermosetting) cables of 2, 3 or 4 cores; raises InvalidInput naming ``cores`` or the size otherwise.
+    """
+    table = core_table("armour_resistance")
+    if insulation != table["insulation"]:
+        raise InvalidInput(
+            "cpc_resistance_mohm_per_m", "armour data are for thermosetting (BS 5467) cables: give the maker's"
+        )
+    if str(cores) not in table["armour_area_mm2"]:
+        raise InvalidInput("cores", f"armour data are for {sorted(table['armour_area_mm2'])} cores")
+    sizes = [float(s) for s in table["csa_mm2"]]
+    if float(line_csa_mm2) not in sizes:
+        raise InvalidInput("line_csa_mm2", f"armour data are for {sizes} mm2")
+    area = table["armour_area_mm2"][str(cores)][sizes.index(float(line_csa_mm2))]
+    return table["steel_rho20_ohm_mm2_per_m"] / area * 1000.0 * table["ac_factor"]
 
 
 _CONSTANTS = ("line_r20", "cpc_r20", "neutral_r20", "line_temp", "cpc_temp", "k", "k_formula", "k_tabulated", "k_line")

@@ -95,6 +95,7 @@ class Conductors:
     cpc_resistance_mohm_per_m: float | None = None
     bare_condition: str | None = None
     neutral_csa_mm2: float | None = None  # default: the line conductor's size
+    cores: int | None = None  # an armoured multicore cable's cores (2, 3, 4): the armour's resistance as the cpc
 
 
 @dataclass(frozen=True)

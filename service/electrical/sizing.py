@@ -19,8 +19,9 @@ from typing import Any
 from . import capacity as cap
 from . import precision
 from .circuit import check_circuits
-from .columns import CircuitFailure
-from .devices import catalogue
+from .columns import CircuitFailure, device_problem
+from .datafiles import core_table
+from .devices import adjustable, catalogue
 from .errors import ElectricalError, InvalidInput, NoRule
 from .model import CableRun, Circuit, Conductors, DeviceSpec, Supply
 from .protective import selection_csa_mm2
@@ -55,6 +56,10 @@ class Demand:
     load: str | None = None
     id: str | None = None
     conditional_short_circuit_ka: float | None = None  # the board's rating with its upstream device
+    parallel_cables: int = 1  # equal cables in parallel, sharing the load (523.7)
+    ring: bool = False  # a ring final circuit (433.1.204): length_m is the whole ring
+    cpc: str = "cable"  # the family's own cpc (a core, the twin-and-earth cpc, Table 54.7), or "armour"
+    cores: int | None = None  # an armoured cable's cores, for its armour as the cpc
 
 
 INSTALLATION_FIELDS = frozenset(f.name for f in dataclasses.fields(CableRun))
@@ -107,9 +112,17 @@ def design_current(demand: Demand, u0_v: float) -> float:
     return cap.design_current_a(demand.power_kw, demand.power_factor, demand.phases, u0_v)
 
 
-def cpc_for(cable: str, line_csa_mm2: float) -> float:
-    """The cpc a cable family gives: its own (twin and earth), a core (multicore), or Table 54.7 (single-core)."""
+CPC_CHOICES = ("cable", "armour")
+
+
+def cpc_for(cable: str, line_csa_mm2: float, cpc: str = "cable", cores: int | None = None) -> float:
+    """The cpc a cable family gives: its own (twin and earth), a core (multicore), or Table 54.7 (single-core);
+    or the armour of an armoured multicore cable (its cross-section, data/armour_resistance.json)."""
+    if cpc == "armour":
+        return armour_area_mm2(cable, line_csa_mm2, cores)
     rule = cap.cable_table(cable)["cpc"]
+    if rule["kind"] == "sheath":
+        raise InvalidInput("cable", f"{cable}: the sheath is the cpc and its resistance is the maker's")
     if rule["kind"] == "fixed":
         try:
             return float(rule["cpc_csa_mm2"][f"{line_csa_mm2:g}"])
@@ -118,6 +131,27 @@ def cpc_for(cable: str, line_csa_mm2: float) -> float:
     if rule["kind"] == "core":
         return float(line_csa_mm2)
     return float(selection_csa_mm2(line_csa_mm2))
+
+
+def armour_area_mm2(cable: str, line_csa_mm2: float, cores: int | None) -> float:
+    """The steel wire armour's cross-section of an armoured multicore cable of this size and cores."""
+    table = core_table("armour_resistance")
+    if "armoured" not in cable or cap.cable_table(cable)["insulation"] != table["insulation"]:
+        raise InvalidInput("cpc", f"armour data are for thermosetting armoured multicore cables, not {cable}")
+    if cores is None or str(cores) not in table["armour_area_mm2"]:
+        raise InvalidInput("cores", f"armour as the cpc needs the cable's cores: {sorted(table['armour_area_mm2'])}")
+    sizes = [float(x) for x in table["csa_mm2"]]
+    if float(line_csa_mm2) not in sizes:
+        raise NoRule("line_csa_mm2", f"no armour data for {line_csa_mm2:g} mm2")
+    return float(table["armour_area_mm2"][str(cores)][sizes.index(float(line_csa_mm2))])
+
+
+def check_arrangement(demand: Demand) -> None:
+    """A ring is one cable: not one of cables in parallel (each would carry an unknown share)."""
+    if demand.ring and demand.parallel_cables > 1:
+        raise InvalidInput("ring", "a ring final circuit is not run in parallel cables: give one or the other")
+    if demand.cpc not in CPC_CHOICES:
+        raise InvalidInput("cpc", f"cpc is one of {list(CPC_CHOICES)}")
 
 
 RULE_CHECKS = {"capacity": "overload", "voltage-drop": "voltage-drop"}  # the rules that only fail, never block
@@ -179,16 +213,30 @@ def voltage_drop(inst: CableRun, demand: Demand, csa: float, ib: float, u0_v: fl
 def _candidates(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec, ib: float):
     """The circuits to try, one per tabulated size with a cpc (each with its installation and Ib, so the
     pipeline's overload check judges its capacity), and the size rows beside them."""
-    in_a = _rating(device, ib)
+    in_a = _rating(device, ib, demand.ring)
     spec = dataclasses.replace(device, rating_a=in_a)
-    insulation = cap.cable_table(inst.cable)["insulation"]
+    problem = device_problem(spec)
+    if problem is not None:  # the device, not a size: say so once
+        raise type(problem)(("device",) + problem.path[2:], problem.message)
+    table = cap.cable_table(inst.cable)
+    insulation, material = table["insulation"], table.get("material", "copper")
     circuits, rows = [], []
     for size in cap.capacities(inst.cable, inst.installation_method, demand.phases):
         try:
-            cpc = cpc_for(inst.cable, size.csa_mm2)
+            cpc = cpc_for(inst.cable, size.csa_mm2, demand.cpc, demand.cores)
         except NoRule:
             continue
-        conductors = Conductors("copper", insulation, size.csa_mm2, cpc, demand.length_m)
+        conductors = Conductors(
+            material,
+            insulation,
+            size.csa_mm2,
+            cpc,
+            demand.length_m,
+            ring=demand.ring,
+            parallel_cables=demand.parallel_cables,
+            cpc_arrangement="armour" if demand.cpc == "armour" else "in-cable",
+            cores=demand.cores if demand.cpc == "armour" else None,
+        )
         circuits.append(
             Circuit(
                 device=spec,
@@ -208,8 +256,21 @@ def _candidates(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSp
     return in_a, insulation, circuits, rows
 
 
-def _rating(device: DeviceSpec, ib: float) -> float:
+def _rating(device: DeviceSpec, ib: float, ring: bool = False) -> float:
+    """The smallest standard rating at or above Ib; for a ring, the smallest the ring rule covers (30 or 32 A)."""
+    if device.standard == adjustable.standard():
+        raise InvalidInput(
+            ("device", "standard"), "an adjustable breaker is set, not chosen by rating: check it with circuits/check"
+        )
     ratings = [r for r in catalogue.ratings_for(device.standard) if r >= ib - 1e-9] if device.standard else []
+    if ring:
+        rule = core_table("ring_final")
+        ratings = [r for r in ratings if r in rule["ratings_a"]] if device.standard in rule["standards"] else []
+        if not ratings:
+            raise InvalidInput(
+                "ring",
+                f"a ring under 433.1.204 takes a {rule['ratings_a']} A device of {rule['standards']}, Ib at most",
+            )
     if not ratings:
         raise InvalidInput(("device", "rating_a"), f"no standard rating of {device.standard} reaches Ib = {ib:.1f} A")
     return ratings[0]
@@ -224,7 +285,9 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
     does not rule sizes out: a caution says so.
     """
     ib = design_current(demand, supply.u0_v)
+    check_arrangement(demand)
     with installation_paths():
+        cap.derating(inst, cap.cable_table(inst.cable)["insulation"], device.standard, 0.0)  # the run itself, once
         in_a, insulation, circuits, rows = _candidates(supply, demand, inst, device, ib)
         outcomes = check_circuits(dataclasses.replace(supply, supply_kind=demand.supply_kind), circuits)
     lenient = _never_shown(outcomes)
@@ -252,7 +315,10 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
             selected = {
                 "line_csa_mm2": size.csa_mm2,
                 "cpc_csa_mm2": cpc,
-                "material": "copper",
+                "cpc": demand.cpc,
+                "parallel_cables": demand.parallel_cables,
+                "ring": demand.ring,
+                "material": outcome_material(circuits, size.csa_mm2),
                 "insulation": insulation,
                 "capacity": capacity,
                 "voltage_drop": vd,
@@ -267,8 +333,13 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
         device={"standard": device.standard, "type": device.type, "rating_a": in_a},
         selected=selected,
         tried=tried,
-        cautions=_sizing_cautions(selected, inst, lenient, outcomes),
+        cautions=_sizing_cautions(selected, inst, lenient, outcomes) + _arrangement_cautions(demand),
     )
+
+
+def outcome_material(circuits: list[Circuit], csa_mm2: float) -> str:
+    """The conductor material of the size chosen (the cable family's)."""
+    return next(c.conductors.material for c in circuits if c.conductors and c.conductors.line_csa_mm2 == csa_mm2)
 
 
 def _never_shown(outcomes: list) -> frozenset[str]:
@@ -280,6 +351,21 @@ def _never_shown(outcomes: list) -> frozenset[str]:
         for n in names
         if results and all((c := r.check(n)) is not None and c.verdict == Verdict.NOT_VERIFIED for r in results)
     )
+
+
+def _arrangement_cautions(demand: Demand) -> list[str]:
+    out = []
+    if demand.parallel_cables > 1:
+        out.append(
+            f"{demand.parallel_cables} cables in parallel are taken to share the load equally (523.7): the same "
+            "type, size, length and route, connected together at both ends."
+        )
+    if demand.cpc == "armour":
+        out.append(
+            "The armour as the cpc: its resistance is worked from the armour's cross-section (makers' tables, see "
+            "the data file's confidence); the glands must be made to carry the fault current."
+        )
+    return out
 
 
 def _sizing_cautions(selected: dict[str, Any] | None, inst: CableRun, lenient: frozenset[str], outcomes) -> list[str]:

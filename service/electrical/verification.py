@@ -7,6 +7,11 @@
 - Insulation resistance: at least the minimum for the circuit voltage at its test voltage (Table 64, from memory).
 - RCD: operating time at IΔn and at 5 IΔn within the device's limits (BS EN 61008-1 / 61009-1 Table 1).
 - Polarity: confirmed.
+- Ze measured against the Ze the design assumed; the prospective fault current measured against the device's
+  breaking capacity (434.5.1, or the board's conditional rating).
+- Ring continuity (643.2.1, common practice): the end-to-end r1 and rn within 0.05 ohm of each other, r2 within
+  0.05 ohm of r1 times the line/cpc size ratio, and (r1 + r2) / 4 within 0.05 ohm of the R1+R2 measured.
+- RCD at half IΔn: it must not trip (BS EN 61008-1 / 61009-1, from memory).
 """
 
 from __future__ import annotations
@@ -43,6 +48,12 @@ class Measured:
     rcd_time_ms_at_idn: float | None = None
     rcd_time_ms_at_5idn: float | None = None
     polarity_confirmed: bool | None = None
+    ze_ohm: float | None = None
+    prospective_fault_current_ka: float | None = None
+    ring_r1_ohm: float | None = None  # end to end
+    ring_rn_ohm: float | None = None
+    ring_r2_ohm: float | None = None
+    rcd_tripped_at_half_idn: bool | None = None
 
 
 @dataclass
@@ -215,7 +226,91 @@ def judge_polarity(ctx: Context) -> list[Judgement]:
     return [Judgement("polarity", PASS if confirmed else FAIL, None, None, "", "BS 7671:2018 643.6, polarity")]
 
 
-JUDGES = (judge_zs, judge_zs_continuity, judge_r1_plus_r2, judge_insulation, judge_rcd_times, judge_polarity)
+def judge_ze(ctx: Context) -> list[Judgement]:
+    """Ze measured against the Ze the design's limits were worked from (no higher, or the design must be redone)."""
+    m = ctx.measured
+    if m.ze_ohm is None:
+        return []
+    design = ctx.supply.ze_ohm
+    basis = f"the design assumed Ze {design:g} ohm; every limit of this circuit was worked from it (411.4.4)"
+    note = "above the design's Ze: check the circuit again with the measured value" if m.ze_ohm > design else None
+    return [Judgement("ze", PASS if m.ze_ohm <= design * (1 + 1e-9) else FAIL, m.ze_ohm, design, "ohm", basis, note)]
+
+
+def judge_fault_level(ctx: Context) -> list[Judgement]:
+    """The prospective fault current measured against the device's breaking capacity (or the board's rating)."""
+    m = ctx.measured
+    if m.prospective_fault_current_ka is None:
+        return []
+    check = ctx.design.check("breaking-capacity")
+    limit = None if check is None else check.limit
+    if limit is None:
+        note = "the device's breaking capacity is not known: state breaking_capacity_ka"
+        return [Judgement("fault-level", NOT_VERIFIED, m.prospective_fault_current_ka, None, "kA", BC_BASIS, note)]
+    verdict = PASS if m.prospective_fault_current_ka <= limit * (1 + 1e-9) else FAIL
+    return [Judgement("fault-level", verdict, m.prospective_fault_current_ka, limit, "kA", check.basis, check.note)]
+
+
+BC_BASIS = "BS 7671:2018 434.5.1: the breaking capacity at least the prospective fault current measured"
+RING_TOLERANCE_OHM = 0.05  # common practice
+
+
+def judge_ring(ctx: Context) -> list[Judgement]:
+    """Ring continuity from the end-to-end readings (643.2.1; tolerances common practice)."""
+    m, c = ctx.measured, ctx.circuit.conductors
+    readings = (m.ring_r1_ohm, m.ring_rn_ohm, m.ring_r2_ohm)
+    if all(r is None for r in readings):
+        return []
+    if c is None or not c.ring:
+        raise InvalidInput(("measured", "ring_r1_ohm"), "ring continuity readings are for a ring final circuit")
+    out = []
+    tol = RING_TOLERANCE_OHM
+    if m.ring_r1_ohm is not None and m.ring_rn_ohm is not None:
+        basis = f"643.2.1: the end-to-end line and neutral readings within {tol:g} ohm of each other (common practice)"
+        verdict = PASS if abs(m.ring_r1_ohm - m.ring_rn_ohm) <= tol + 1e-12 else FAIL
+        out.append(Judgement("ring-r1-rn", verdict, m.ring_rn_ohm, m.ring_r1_ohm, "ohm", basis))
+    if m.ring_r1_ohm is not None and m.ring_r2_ohm is not None:
+        expected = m.ring_r1_ohm * c.line_csa_mm2 / c.cpc_csa_mm2
+        basis = (
+            f"643.2.1: r2 about r1 x {c.line_csa_mm2:g}/{c.cpc_csa_mm2:g} = {expected:.3f} ohm, within {tol:g} ohm "
+            "(common practice)"
+        )
+        verdict = PASS if abs(m.ring_r2_ohm - expected) <= tol + 1e-12 else FAIL
+        out.append(Judgement("ring-r2", verdict, m.ring_r2_ohm, expected, "ohm", basis))
+    if m.ring_r1_ohm is not None and m.ring_r2_ohm is not None and m.r1_plus_r2_ohm is not None:
+        expected = (m.ring_r1_ohm + m.ring_r2_ohm) / 4
+        basis = (
+            f"643.2.1: R1+R2 at the sockets about (r1 + r2) / 4 = {expected:.3f} ohm, within {tol:g} ohm (common "
+            "practice; the highest reading is at the mid-point)"
+        )
+        verdict = PASS if abs(m.r1_plus_r2_ohm - expected) <= tol + 1e-12 else FAIL
+        out.append(Judgement("ring-r1-plus-r2", verdict, m.r1_plus_r2_ohm, expected, "ohm", basis))
+    return out
+
+
+def judge_rcd_half(ctx: Context) -> list[Judgement]:
+    """At half its IΔn an RCD must not trip (BS EN 61008-1 / 61009-1, from memory)."""
+    tripped = ctx.measured.rcd_tripped_at_half_idn
+    if tripped is None:
+        return []
+    if ctx.circuit.device.rcd is None:
+        raise InvalidInput(("measured", "rcd_tripped_at_half_idn"), "the circuit has no RCD")
+    basis = "BS EN 61008-1 / 61009-1: no tripping at 0.5 x IΔn (from memory)"
+    return [Judgement("rcd-half-idn", FAIL if tripped else PASS, None, None, "", basis)]
+
+
+JUDGES = (
+    judge_ze,
+    judge_fault_level,
+    judge_zs,
+    judge_zs_continuity,
+    judge_r1_plus_r2,
+    judge_ring,
+    judge_insulation,
+    judge_rcd_times,
+    judge_rcd_half,
+    judge_polarity,
+)
 CAUTION_TABLE_64 = "The insulation resistance minimum is from memory (BS 7671 Table 64, unverified)."
 
 

@@ -82,3 +82,44 @@ def test_a_tn_loop_far_above_the_conductors_fails_as_a_probable_open_cpc():
     assert "200 ohm" in j["zs"].note and out.verdict == "fail"
     (sound,) = verify(BAKERY, [(RING, Measured(zs_ohm=0.62))])
     assert judged(sound)["zs-continuity"].verdict == "pass"
+
+
+def test_measured_ze_and_fault_level():
+    # the design assumed Ze 0.28 ohm: 0.31 measured fails (411.4.4), 0.25 passes
+    (high,) = verify(BAKERY, [(OVEN, Measured(ze_ohm=0.31))])
+    (low,) = verify(BAKERY, [(OVEN, Measured(ze_ohm=0.25))])
+    assert judged(high)["ze"].verdict == "fail" and judged(low)["ze"].verdict == "pass"
+    # 434.5.1: 6 kA measured on a 6 kA breaker passes, 7.2 kA fails
+    (ok,) = verify(BAKERY, [(OVEN, Measured(prospective_fault_current_ka=6.0))])
+    (over,) = verify(BAKERY, [(OVEN, Measured(prospective_fault_current_ka=7.2))])
+    assert judged(ok)["fault-level"].verdict == "pass" and judged(over)["fault-level"].limit == 6
+
+
+def test_ring_continuity_readings():
+    # 64 m ring of 2.5/1.5 mm2 at 20 degC: r1 = rn = 7.41 x 0.064 = 0.474 ohm, r2 = 12.1 x 0.064 = 0.774 ohm;
+    # r1 x 2.5 / 1.5 = 0.790 (within 0.05: common practice); (0.474 + 0.774) / 4 = 0.312 ohm at the sockets
+    good = Measured(ring_r1_ohm=0.474, ring_rn_ohm=0.48, ring_r2_ohm=0.774, r1_plus_r2_ohm=0.32)
+    (out,) = verify(BAKERY, [(RING, good)])
+    j = judged(out)
+    assert [j[t].verdict for t in ("ring-r1-rn", "ring-r2", "ring-r1-plus-r2")] == ["pass"] * 3
+    assert j["ring-r2"].limit == pytest.approx(0.79) and j["ring-r1-plus-r2"].limit == pytest.approx(0.312)
+    # a broken neutral leg reads high end to end
+    (broken,) = verify(BAKERY, [(RING, Measured(ring_r1_ohm=0.474, ring_rn_ohm=0.61))])
+    assert judged(broken)["ring-r1-rn"].verdict == "fail"
+    (radial,) = verify(BAKERY, [(OVEN, Measured(ring_r1_ohm=0.2))])
+    assert isinstance(radial, CircuitFailure) and radial.path == ("measured", "ring_r1_ohm")
+
+
+def test_rcd_at_half_its_residual_current_must_not_trip():
+    (held,) = verify(BAKERY, [(RING, Measured(rcd_tripped_at_half_idn=False))])
+    (tripped,) = verify(BAKERY, [(RING, Measured(rcd_tripped_at_half_idn=True))])
+    assert judged(held)["rcd-half-idn"].verdict == "pass" and judged(tripped)["rcd-half-idn"].verdict == "fail"
+
+
+def test_a_ring_in_parallel_cables_is_refused():
+    both = Circuit(
+        id="odd", role="final", load="socket-outlets", device=RING.device,
+        conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 64, ring=True, parallel_cables=2),
+    )  # fmt: skip
+    (out,) = verify(BAKERY, [(both, Measured(zs_ohm=0.5))])
+    assert isinstance(out, CircuitFailure) and out.path == ("circuit", "conductors", "parallel_cables")
