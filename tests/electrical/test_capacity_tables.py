@@ -114,3 +114,40 @@ def test_buried_grouping_falls_with_more_circuits_and_rises_with_spacing(spacing
     fewer, _ = cap.grouping_factor("buried-direct", circuits, spacing)
     assert more <= fewer
     assert cap.grouping_factor("buried-direct", circuits, "touching")[0] <= fewer
+
+
+@given(st.sampled_from(sorted(cap.CABLES)), st.floats(31, 55), st.floats(0.5, 5), st.integers(1, 8))
+@settings(max_examples=80, deadline=None)
+def test_capacity_falls_with_ambient_and_grouping(cable, ambient, hotter_by, circuits):
+    # common practice (and Tables 4B1, 4C1): a hotter ambient or more circuits grouped never raise the capacity
+    insulation = cap.cable_table(cable)["insulation"]
+    method = cap.methods(cable)[0]
+    if method == "D":
+        return
+    cool = CableRun(cable, method, ambient_c=ambient, grouped_circuits=circuits)
+    hot = CableRun(cable, method, ambient_c=min(ambient + hotter_by, 60), grouped_circuits=circuits + 1)
+    try:
+        cold_factor, _ = cap.derating(cool, insulation, None, 10.0)
+        hot_factor, _ = cap.derating(hot, insulation, None, 10.0)
+    except InvalidInput:  # beyond the table's ambient range (a mineral cable's column ends at 60 degC)
+        return
+    assert hot_factor <= cold_factor
+
+
+@given(st.floats(10, 120), st.sampled_from([(2.5, 1.5), (4, 1.5)]))
+@settings(max_examples=40, deadline=None)
+def test_a_ring_never_exceeds_its_radial_equivalent(length_m, sizes):
+    # common practice: a ring of length L is at worst a radial to its far point (L/2) halved again: its R1+R2 and
+    # voltage drop never exceed those of one cable run out to the far point
+    from service.electrical.circuit import check_circuits
+    from service.electrical.model import Circuit, Conductors, DeviceSpec, Supply
+
+    supply = Supply("TN-C-S", 230, 0.3, prospective_fault_current_ka=2.0)
+    device = DeviceSpec(rating_a=32, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
+    run = CableRun("flat-twin-earth-70c", "C")
+    ring = Conductors("copper", "thermoplastic-70", *sizes, length_m, ring=True)
+    radial = Conductors("copper", "thermoplastic-70", *sizes, length_m / 2)
+    made = [Circuit(device, c, load="socket-outlets", design_current_a=26, installation=run) for c in (ring, radial)]
+    r_ring, r_radial = check_circuits(supply, made, exact=True)
+    assert r_ring.r1_plus_r2_ohm <= r_radial.r1_plus_r2_ohm
+    assert r_ring.voltage_drop["drop_v"] <= r_radial.voltage_drop["drop_v"]
