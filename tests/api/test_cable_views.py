@@ -46,3 +46,14 @@ def test_buried_grouping_needs_its_spacing_named(client):
     response = client.post("/v1/circuits/size", json=body)
     assert response.status_code == 422
     assert response.get_json()["errors"][0]["pointer"] == "/installation/buried_spacing"
+
+
+def test_a_rings_continuity_through_the_api(client):
+    # 64 m of 2.5/1.5 mm2 at 20 degC: r1 = 7.41 x 0.064 = 0.474, r2 = 12.1 x 0.064 = 0.774 ohm (IEC 60228);
+    # (r1 + r2) / 4 = 0.312 against the 0.30 measured at the sockets (within 0.05 ohm, common practice)
+    body = json.loads((EXAMPLES / "test-results-verify.json").read_text())
+    body["circuits"][0]["measured"].update(ring_r1_ohm=0.474, ring_rn_ohm=0.476, ring_r2_ohm=0.774)
+    result = client.post("/v1/test-results/verify", json=body).get_json()["results"][0]["result"]
+    tests = {j["test"]: j for j in result["judgements"]}
+    assert tests["ring-r1-plus-r2"]["verdict"] == "pass" and tests["ring-r1-plus-r2"]["limit"] == 0.312
+    assert "643.2.1" in tests["ring-r2"]["basis"]
