@@ -32,6 +32,7 @@ from .api import (
     measurement_views,
     metrics,
     question_views,
+    result_schemas,
     sizing_views,
     web,
 )
@@ -95,6 +96,9 @@ def spec_dict(api: Api) -> dict[str, Any]:
                     continue
                 responses.setdefault(str(status), {"description": HTTPStatus(status).phrase, **problem})
             if path == "/v1/circuits/check-batch":
+                responses["200"]["content"]["application/json"]["schema"] = {
+                    "oneOf": [{"$ref": "#/components/schemas/LeanBatch"}, {"$ref": "#/components/schemas/BatchResult"}]
+                }
                 responses["200"]["content"]["application/x-ndjson"] = {
                     "schema": {
                         "description": (
@@ -160,6 +164,8 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
         health.blp,
     ):
         api.register_blueprint(blueprint)
+    if "BatchResult" not in api.spec.components.schemas:  # the full form of check-batch (?form=full)
+        api.spec.components.schema("BatchResult", schema=result_schemas.BatchResultSchema)
     app.register_blueprint(docs.blp)
     app.register_blueprint(web.blp)
     app.extensions["faultpath_api"] = api

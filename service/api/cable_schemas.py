@@ -5,7 +5,7 @@ from __future__ import annotations
 from marshmallow import Schema, post_load
 
 from ..electrical import capacity
-from ..electrical.model import CableRun
+from ..electrical.model import CableRun, built
 from .fields import Flag, Number, WholeNumber, choice
 
 ALL_METHODS = sorted({m for cable in capacity.CABLES for m in capacity.methods(cable)})
@@ -48,4 +48,4 @@ class InstallationSchema(Schema):
 
     @post_load
     def make(self, data, **kwargs):
-        return CableRun(**data)
+        return built(CableRun, data)

@@ -14,7 +14,8 @@ from . import metrics
 from .base import Blueprint
 from .errors import CoreInputError, json_bytes, json_response
 from .helpers import failed_item, invalid_item, svg_response
-from .result_schemas import BatchResultSchema, CircuitResultSchema
+from .lean import FormSchema, LeanBatchSchema, lean_answer
+from .result_schemas import CircuitResultSchema
 from .schemas import BatchRequestSchema, CheckRequestSchema, ItemProblem
 
 blp = Blueprint(
@@ -79,15 +80,17 @@ def picture(body):
 
 
 @blp.route("/check-batch", methods=["POST"])
+@blp.arguments(FormSchema, location="query")
 @blp.arguments(BatchRequestSchema)
-@blp.response(200, BatchResultSchema)
-def check_batch(body):
+@blp.response(200, LeanBatchSchema)
+def check_batch(query, body):
     """Check many circuits sharing a supply
 
     One result or one problem per item, in order, each with its index and id; a bad item never
-    sinks the others. The summary counts the verdicts. With `Accept: application/x-ndjson` the
-    answer streams one JSON line per item, computed a chunk at a time, and a last line
-    `{"summary": ...}`.
+    sinks the others. The summary counts the verdicts. The answer is lean by default: a table with one
+    cell per circuit in each column, every text and device said once (`form=full`: a whole result per
+    item, texts inline). With `Accept: application/x-ndjson` the answer streams one JSON line per item
+    (the full form), computed a chunk at a time, and a last line `{"summary": ...}`.
     """
     items = body["circuits"]
     limit = flask.current_app.config["FAULTPATH_BATCH_LIMIT"]
@@ -95,9 +98,11 @@ def check_batch(body):
         flask.abort(413, description=f"a batch holds at most {limit} circuits")
     if flask.request.accept_mimetypes.best_match(["application/json", NDJSON]) == NDJSON:
         return flask.Response(flask.stream_with_context(_ndjson(body, items)), mimetype=NDJSON)
-    results = []
-    counts = Counts()
     with paused_gc():
+        if query["form"] == "lean":
+            return json_response(lean_answer(body["supply"], items, body.get("checks")))
+        results = []
+        counts = Counts()
         for start in range(0, len(items), CHUNK):
             results.extend(_checked(body, items[start : start + CHUNK], start, counts))
         return json_response({"results": results, "summary": counts.summary(len(items))})

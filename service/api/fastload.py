@@ -40,6 +40,11 @@ class _Plan:
         for name, field in schema.load_fields.items():
             self.fields.append((field.data_key or name, field.attribute or name, _field_check(field)))
         self.names = {key for key, _, _ in self.fields}
+        # the same, arranged for a loop over the keys an item has: its check by key, what must be there, the defaults
+        self.by_key = {key: (attribute, check[2]) for key, attribute, check in self.fields}
+        self.required = frozenset(key for key, _, check in self.fields if check[0])
+        self.constants = {a: c[1] for _, a, c in self.fields if c[1] is not _MISSING and not callable(c[1])}
+        self.factories = [(a, c[1]) for _, a, c in self.fields if c[1] is not _MISSING and callable(c[1])]
         hooks = _hooks_of(schema)
         for tag in hooks:
             if tag not in (VALIDATES_SCHEMA, POST_LOAD) and hooks[tag]:
@@ -48,21 +53,17 @@ class _Plan:
         self.post_loads = [getattr(schema, attr) for attr, many, _ in hooks[POST_LOAD] if not many]
 
     def load(self, value: Any) -> Any:
-        if type(value) is not dict:
+        if type(value) is not dict or not self.required <= value.keys():
             raise Refused
-        if not value.keys() <= self.names:
-            raise Refused
-        out: dict[str, Any] = {}
-        for key, attribute, check in self.fields:
-            raw = value.get(key, _MISSING)
-            if raw is _MISSING:
-                required, default = check[0], check[1]
-                if required:
-                    raise Refused
-                if default is not _MISSING:
-                    out[attribute] = default() if callable(default) else default
-                continue
-            out[attribute] = check[2](raw)
+        out: dict[str, Any] = dict(self.constants)
+        for attribute, factory in self.factories:
+            out[attribute] = factory()
+        by_key = self.by_key
+        for key, raw in value.items():
+            entry = by_key.get(key)
+            if entry is None:
+                raise Refused
+            out[entry[0]] = entry[1](raw)
         for validator in self.validators:
             try:
                 validator(out, partial=False, many=False)
@@ -151,8 +152,30 @@ def _text(field: fields.Field, limits: _Limits):
     return check
 
 
+CACHED = 2048  # distinct nested objects remembered per field: a schedule repeats its devices and cable runs
+
+
 def _nested(field: fields.Field, limits: _Limits):
-    return _Plan(field.schema).load
+    """A nested object's loader; an object of plain values seen before loads to the same (immutable) result."""
+    plan = _Plan(field.schema)
+    seen: dict[tuple, Any] = {}
+
+    def check(raw):
+        if type(raw) is not dict:
+            raise Refused
+        try:  # with each value's type: 1, 1.0 and True are equal in Python, not in the schema
+            key = tuple([(k, v.__class__, v) for k, v in raw.items()])
+            hit = seen.get(key, _MISSING)
+        except TypeError:  # a nested list or object inside: not remembered
+            return plan.load(raw)
+        if hit is _MISSING:
+            hit = plan.load(raw)
+            if len(seen) >= CACHED:
+                seen.clear()
+            seen[key] = hit
+        return hit
+
+    return check
 
 
 def _nested_list(field: fields.Field, limits: _Limits):

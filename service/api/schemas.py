@@ -18,7 +18,7 @@ from ..electrical.checks import CHECKS
 from ..electrical.columns import PHASES
 from ..electrical.devices import catalogue, residual
 from ..electrical.devices.let_through import ENERGY_CLASSES
-from ..electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
+from ..electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply, built
 from . import fastload
 from .cable_schemas import InstallationSchema
 from .fastload import Refused, fast_load
@@ -71,7 +71,7 @@ class RcdSchema(Schema):
 
     @post_load
     def make(self, data, **kwargs):
-        return Rcd(**data)
+        return built(Rcd, data)
 
 
 class DeviceSchema(Schema):
@@ -134,7 +134,7 @@ class DeviceSchema(Schema):
         points = data.pop("curve_points", None)
         if points is not None:
             data["curve_points"] = tuple((p["current_a"], p["time_s"]) for p in points)
-        return DeviceSpec(**data)
+        return built(DeviceSpec, data)
 
 
 class ConductorsSchema(Schema):
@@ -174,7 +174,7 @@ class ConductorsSchema(Schema):
 
     @post_load
     def make(self, data, **kwargs):
-        return Conductors(**data)
+        return built(Conductors, data)
 
 
 class SupplySchema(Schema):
@@ -247,7 +247,7 @@ class SupplySchema(Schema):
 
     @post_load
     def make(self, data, **kwargs):
-        return Supply(**data)
+        return built(Supply, data)
 
 
 class CircuitSchema(Schema):
@@ -300,7 +300,7 @@ class CircuitSchema(Schema):
         neutral = data.pop("neutral_csa_mm2", None)
         if neutral is not None:
             data["conductors"] = dataclasses.replace(data["conductors"], neutral_csa_mm2=neutral)
-        return Circuit(**data)
+        return built(Circuit, data)
 
 
 def checks_field() -> fields.List:

@@ -13,6 +13,7 @@ from __future__ import annotations
 from collections.abc import Hashable, Mapping, Sequence
 from dataclasses import dataclass
 from functools import lru_cache
+from typing import Any
 
 import numpy as np
 
@@ -110,6 +111,25 @@ def _conditional(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> np.
     return _optional([s.conditional_short_circuit_ka if o is None else o for s, o in zip(supplies, own, strict=True)])
 
 
+class _SupplyColumns:
+    """Columns of the supplies' fields; where every circuit has the same supply, each value is read once."""
+
+    def __init__(self, supplies: Sequence[Supply]):
+        first = supplies[0] if supplies else None
+        self.one = first if all(s is first for s in supplies) else None
+        self.supplies, self.n = supplies, len(supplies)
+
+    def values(self, name: str) -> list[Any]:
+        if self.one is not None:
+            return [getattr(self.one, name)] * self.n
+        return [getattr(s, name) for s in self.supplies]
+
+    def array(self, name: str, dtype: Any) -> np.ndarray:
+        if self.one is not None:
+            return np.full(self.n, getattr(self.one, name), dtype=dtype)
+        return np.array(self.values(name), dtype=dtype)
+
+
 def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> CircuitColumns:
     """The columns of circuits that :func:`prepare` accepted."""
     device_groups = groups([c.device.curve_key for c in circuits])
@@ -119,30 +139,31 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         for i in idx.tolist():
             devices[i] = dev
     rcds = [c.device.rcd for c in circuits]
-    earthing = np.array([s.earthing for s in supplies], dtype=object)
+    sc = _SupplyColumns(supplies)
+    earthing = sc.array("earthing", object)
     return CircuitColumns(
         supplies=supplies,
         circuits=circuits,
         earthing=earthing,
         tt=earthing == "TT",
-        u0_v=np.array([s.u0_v for s in supplies], dtype=float),
-        ze_ohm=np.array([s.ze_ohm for s in supplies], dtype=float),
-        pfc_stated_ka=_optional([s.prospective_fault_current_ka for s in supplies]),
-        c_max=[s.c_max for s in supplies],
-        electrode_ohm=_optional([s.electrode_ohm for s in supplies]),
-        bonded=np.array([s.bonding_complete for s in supplies], dtype=bool),
-        current_kind=np.array([s.current_kind for s in supplies], dtype=object),
-        reduced_low_voltage=np.array([s.reduced_low_voltage for s in supplies], dtype=bool),
+        u0_v=sc.array("u0_v", float),
+        ze_ohm=sc.array("ze_ohm", float),
+        pfc_stated_ka=_optional(sc.values("prospective_fault_current_ka")),
+        c_max=sc.values("c_max"),
+        electrode_ohm=_optional(sc.values("electrode_ohm")),
+        bonded=sc.array("bonding_complete", bool),
+        current_kind=sc.array("current_kind", object),
+        reduced_low_voltage=sc.array("reduced_low_voltage", bool),
         role=np.array([c.role for c in circuits], dtype=object),
         load=np.array([c.load for c in circuits], dtype=object),
         phases=np.array([c.phases for c in circuits], dtype=np.int8),
-        supply_phases=np.array([s.phases for s in supplies], dtype=np.int8),
+        supply_phases=sc.array("phases", np.int8),
         use=np.array([c.use for c in circuits], dtype=object),
-        supply_kind=np.array([s.supply_kind for s in supplies], dtype=object),
+        supply_kind=sc.array("supply_kind", object),
         drop_limit_percent=_optional([c.voltage_drop_limit_percent for c in circuits]),
-        upstream_drop_percent=np.array([s.voltage_drop_percent for s in supplies], dtype=float),
-        three_phase_ka=_optional([s.three_phase_fault_current_ka for s in supplies]),
-        earth_fault_max_ka=_optional([s.max_earth_fault_current_ka for s in supplies]),
+        upstream_drop_percent=sc.array("voltage_drop_percent", float),
+        three_phase_ka=_optional(sc.values("three_phase_fault_current_ka")),
+        earth_fault_max_ka=_optional(sc.values("max_earth_fault_current_ka")),
         rating_a=np.array([d.overload_current_a for d in devices], dtype=float),  # In, or Ir where adjustable
         design_current_a=_optional([c.design_current_a for c in circuits]),
         r1r2_given_ohm=_optional([c.r1_plus_r2_ohm for c in circuits]),
@@ -162,8 +183,8 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         energy_class=[c.device.energy_limiting_class for c in circuits],
         breaking_capacity_ka=_optional([c.device.breaking_capacity_ka for c in circuits]),
         conditional_ka=_conditional(supplies, circuits),
-        line_neutral_loop_ohm=_optional([s.line_neutral_loop_ohm for s in supplies]),
-        board=np.array([s.board for s in supplies], dtype=object),
+        line_neutral_loop_ohm=_optional(sc.values("line_neutral_loop_ohm")),
+        board=sc.array("board", object),
     )
 
 
@@ -171,8 +192,12 @@ def prepare(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> tuple[li
     """Which circuits can be computed (their indices) and a failure for each of the others, in order."""
     good: list[int] = []
     failures: list[CircuitFailure] = []
+    rules: dict[tuple, ElectricalError | None] = {}  # by the supply object: hashing a Supply is not free
     for i, (s, c) in enumerate(zip(supplies, circuits, strict=True)):
-        problem = _problem(s, c)
+        key = (id(s), c.role, c.load, c.device.rating_a)
+        if key not in rules:
+            rules[key] = _rules_problem(s, c.role, c.load, c.device.rating_a)
+        problem = _problem(s, c, rules[key])
         if problem is None:
             good.append(i)
         else:
@@ -180,7 +205,7 @@ def prepare(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> tuple[li
     return good, failures
 
 
-def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
+def _problem(supply: Supply, circuit: Circuit, rules: ElectricalError | None) -> ElectricalError | None:
     """The first per-item lookup that fails, with its path rooted at ``supply`` or ``circuit``.
 
     Each lookup is made once per distinct device, conductor arrangement and rule case, so a schedule
@@ -192,7 +217,7 @@ def _problem(supply: Supply, circuit: Circuit) -> ElectricalError | None:
     for problem in (
         device_problem(circuit.device),
         None if c is None else _conductor_problem(cond.arrangement(c), c.parallel_cables, c.ring),
-        _rules_problem(supply, circuit.role, circuit.load, circuit.device.rating_a),
+        rules,
         _phase_problem(supply.phases, circuit.phases, circuit.phase, circuit.use, supply.supply_kind),
         None if circuit.installation is None else _installation_problem(circuit.installation, circuit.phases),
     ):

@@ -169,7 +169,7 @@ def _cautions(checked: Checked) -> list[list[str]]:
     return out
 
 
-def _scope(checked: Checked, scope: Sequence[str] | None) -> tuple[np.ndarray, list[dict[str, list[str]]]]:
+def verdict_scopes(checked: Checked, scope: Sequence[str] | None) -> tuple[np.ndarray, list[dict[str, list[str]]]]:
     """Overall verdict codes over the checks that count and are in scope, and what each result covered.
 
     ``covered``: the checks the verdict rests on; ``left_out``: the checks reported but outside it (not in the
@@ -186,14 +186,17 @@ def _scope(checked: Checked, scope: Sequence[str] | None) -> tuple[np.ndarray, l
     ).max(axis=0)
     shown, counts = np.vstack(applies), np.vstack(counted)
     names = [c.check for c in checked.checks]
-    scopes = [
-        {
-            "covered": [x for x, k in zip(names, counts[:, i], strict=True) if k],
-            "left_out": [x for x, a, k in zip(names, shown[:, i], counts[:, i], strict=True) if a and not k],
+    # one pattern of (shown, counted) per circuit as an integer; the few distinct patterns are spelled out once
+    weights = 1 << np.arange(len(names), dtype=np.int64)
+    patterns = (shown.T.astype(np.int64) @ weights) << len(names) | (counts.T.astype(np.int64) @ weights)
+    spelled: dict[int, dict[str, list[str]]] = {}
+    for p in set(patterns.tolist()):
+        s, k = p >> len(names), p & ((1 << len(names)) - 1)
+        spelled[p] = {
+            "covered": [x for j, x in enumerate(names) if k >> j & 1],
+            "left_out": [x for j, x in enumerate(names) if s >> j & 1 and not k >> j & 1],
         }
-        for i in range(n)
-    ]
-    return codes, scopes
+    return codes, [spelled[p] for p in patterns.tolist()]
 
 
 def assemble(checked: Checked, scope: Sequence[str] | None = None, exact: bool = False) -> list[CircuitResult]:
@@ -209,7 +212,7 @@ def assemble(checked: Checked, scope: Sequence[str] | None = None, exact: bool =
     names = list(figures)
     per_check = [_check_records(c, n, exact) for c in checked.checks]
     details = {c.detail[0]: _detail_records(c, n, exact) for c in checked.checks if c.detail is not None}
-    codes, scopes = _scope(checked, scope)
+    codes, scopes = verdict_scopes(checked, scope)
     overall = verdicts.decode(codes)
     summaries = {id(d): d.summary() for d in {id(d): d for d in cols.devices}.values()}
     cautions = _cautions(checked)

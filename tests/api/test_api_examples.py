@@ -83,7 +83,7 @@ def test_an_earth_fault_only_question(client):
 
 
 def test_batch_example(client):
-    r = send(client, "/v1/circuits/check-batch", "circuits-check-batch.json")
+    r = send(client, "/v1/circuits/check-batch?form=full", "circuits-check-batch.json")
     items = r["results"]
     assert [i["index"] for i in items] == [0, 1, 2, 3]
     assert [i["id"] for i in items] == [
@@ -98,6 +98,25 @@ def test_batch_example(client):
     assert items[2]["problem"]["errors"][0]["pointer"] == "/circuits/2/device/rating_a"
     assert items[3]["result"]["r1_plus_r2_ohm"] == 0.3746  # (0.47424 + 0.7744) x 1.2 / 4
     assert r["summary"] == {"circuits": 4, "pass": 2, "fail": 1, "not-verified": 0, "invalid": 1}
+
+
+def test_the_lean_batch_says_each_text_once_and_matches_the_full_form(client):
+    full = send(client, "/v1/circuits/check-batch?form=full", "circuits-check-batch.json")
+    lean = send(client, "/v1/circuits/check-batch", "circuits-check-batch.json")
+    table, texts = lean["columns"], lean["texts"]
+    assert lean["form"] == "lean" and lean["summary"] == full["summary"] and len(texts) == len(set(texts))
+    assert table["verdict"] == ["pass", "fail", "invalid", "pass"] and table["problem"][2] == 0
+    assert lean["problems"][0]["problem"] == full["results"][2]["problem"]
+    for i in (0, 1, 3):
+        result = full["results"][i]["result"]
+        assert table["zs_ohm"][i] == result["zs_ohm"] and table["id"][i] == result["id"]
+        assert lean["devices"][table["device"][i]] == result["device"]
+        for check in result["checks"]:
+            name = check["check"]
+            assert table[f"{name}.verdict"][i] == check["verdict"] and table[f"{name}.value"][i] == check["value"]
+            assert texts[table[f"{name}.basis"][i]] == check["basis"]
+        own = [texts[k] for k in table["cautions"][i] or []]
+        assert lean["cautions"] + own == result["cautions"]
 
 
 def test_fault_current_examples(client):

@@ -135,7 +135,7 @@ def test_batch_keeps_every_item(client):
         "supply": EXAMPLE["supply"],
         "circuits": [EXAMPLE["circuit"], bad, {"nonsense": 1}, "text", EXAMPLE["circuit"]],
     }
-    r = client.post("/v1/circuits/check-batch", json=body)
+    r = client.post("/v1/circuits/check-batch?form=full", json=body)
     assert r.status_code == 200
     items = r.get_json()["results"]
     assert len(items) == 5 and [i["index"] for i in items] == [0, 1, 2, 3, 4]
@@ -185,7 +185,7 @@ def test_batch_streams_ndjson_in_order(client):
     assert [line.get("index") for line in lines[:3]] == [0, 1, 2]
     assert "result" in lines[0] and "problem" in lines[1] and "result" in lines[2]
     assert lines[3] == {"summary": {"circuits": 3, "pass": 2, "fail": 0, "not-verified": 0, "invalid": 1}}
-    plain = client.post("/v1/circuits/check-batch", json=body).get_json()
+    plain = client.post("/v1/circuits/check-batch?form=full", json=body).get_json()
     assert [line for line in lines[:3]] == plain["results"]
 
 

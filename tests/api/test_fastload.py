@@ -127,3 +127,15 @@ def test_only_and_exclude_are_refused():
 
     with pytest.raises(TypeError):
         fastload.register(Partial)
+
+
+def test_a_remembered_nested_object_is_not_confused_with_an_equal_value_of_another_type():
+    # 1 == 1.0 == True in Python: the schema tells them apart, and so must the loader's memory
+    item = example("circuits-check-batch.json")["circuits"][0]
+    first = copy.deepcopy(item)
+    first["conductors"]["ring"] = True
+    fast_load(CircuitSchema(), first)
+    second = copy.deepcopy(item)
+    second["conductors"]["ring"] = 1
+    with pytest.raises(Refused):
+        fast_load(CircuitSchema(), second)

@@ -32,5 +32,6 @@ STEPS: tuple[Step, ...] = (
     selectivity_check,
 )
 CHECKS: tuple[str, ...] = tuple(step.check_name for step in STEPS)  # type: ignore[attr-defined]
+UNITS: dict[str, str] = {step.check_name: step.unit for step in STEPS}  # type: ignore[attr-defined]
 
-__all__ = ["CHECKS", "STEPS", "CheckColumns", "Step"]
+__all__ = ["CHECKS", "STEPS", "UNITS", "CheckColumns", "Step"]

@@ -61,11 +61,13 @@ Earlier = Mapping[str, CheckColumns]  # the checks computed before this one, by 
 Step = Callable[["CircuitColumns", "FaultLoop", "DeviceResponse", Earlier], CheckColumns]
 
 
-def check_step(name: str) -> Callable[[Step], Step]:
-    """Mark a function as the step of check ``name`` (the name its results carry)."""
+def check_step(name: str, unit: str) -> Callable[[Step], Step]:
+    """Mark a function as the step of check ``name`` (the name its results carry), whose value and limit are
+    in ``unit``."""
 
     def mark(func: Step) -> Step:
         func.check_name = name  # type: ignore[attr-defined]
+        func.unit = unit  # type: ignore[attr-defined]
         return func
 
     return mark

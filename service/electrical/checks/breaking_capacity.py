@@ -52,7 +52,7 @@ def _defaults(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
     return default, note
 
 
-@check_step("breaking-capacity")
+@check_step("breaking-capacity", unit="kA")
 def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the rated (or minimum, or the board's conditional) capacity covers the prospective fault current."""
     default, default_note = _defaults(cols)

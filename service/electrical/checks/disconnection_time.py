@@ -27,7 +27,7 @@ NOTES = {
 }
 
 
-@check_step("disconnection-time")
+@check_step("disconnection-time", unit="s")
 def disconnection_time(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the device that disconnects (the overcurrent device, else the RCD) operates within the time."""
     unsure = trip.rcd_credited & (

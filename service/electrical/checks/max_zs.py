@@ -29,7 +29,7 @@ NOTES = {
 }
 
 
-@check_step("max-zs")
+@check_step("max-zs", unit="ohm")
 def max_zs(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where Zs is within the overcurrent device's limit, or (with an RCD) the RCD's 50 V limit."""
     limit_oc = trip.max_zs_oc_ohm

@@ -128,7 +128,7 @@ def _from_memory(factors: np.ndarray, confidence: np.ndarray) -> np.ndarray:
     )
 
 
-@check_step("overload")
+@check_step("overload", unit="A")
 def overload(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where Ib <= In <= Iz (or the ring rule); not-verified without the design current or the installation."""
     c = cols.conductors

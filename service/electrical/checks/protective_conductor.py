@@ -43,7 +43,7 @@ CAUTION_ENERGY = (
 )
 
 
-@check_step("protective-conductor")
+@check_step("protective-conductor", unit="mm2")
 def protective_conductor(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the cpc is at least the adiabatic minimum, or the Table 54.7 size; not-verified without conductors."""
     c = cols.conductors

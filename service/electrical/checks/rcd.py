@@ -35,7 +35,7 @@ CAUTIONS = {
 }
 
 
-@check_step("rcd")
+@check_step("rcd", unit="ohm")
 def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the loop the RCD protects stays within 50 V / IΔn; reported only where an RCD is fitted."""
     verdict = verdicts.where(trip.rcd_loop_ohm <= trip.rcd_limit_ohm, verdicts.PASS, verdicts.FAIL)

@@ -24,42 +24,50 @@ NO_UPSTREAM = "the device feeding the board is not known: give it (an installati
 BASIS = "BS 7671:2018 536.4: a fault on this circuit clears without operating the device that feeds its board"
 
 
-def _pairs(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
+def _pairs(cols: CircuitColumns, where: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     limit, basis = np.full(cols.n, np.nan), np.full(cols.n, None, dtype=object)
-    for i, (supply, circuit) in enumerate(zip(cols.supplies, cols.circuits, strict=True)):
-        if supply.upstream_device is not None:
-            pair = selectivity.pair_limit(circuit.device, supply.upstream_device, circuit.selectivity_limit_a)
-            limit[i], basis[i] = pair.limit_a, pair.basis
+    for i in np.flatnonzero(where).tolist():
+        supply, circuit = cols.supplies[i], cols.circuits[i]
+        pair = selectivity.pair_limit(circuit.device, supply.upstream_device, circuit.selectivity_limit_a)
+        limit[i], basis[i] = pair.limit_a, pair.basis
     return limit, basis
 
 
-def _residual(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
+def _residual(cols: CircuitColumns, where: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     words, bases = np.full(cols.n, None, dtype=object), np.full(cols.n, None, dtype=object)
-    for i, (supply, circuit) in enumerate(zip(cols.supplies, cols.circuits, strict=True)):
-        up = supply.upstream_device
-        words[i], bases[i] = selectivity.rcd_pair(circuit.device.rcd, None if up is None else up.rcd)
+    for i in np.flatnonzero(where).tolist():
+        up = cols.supplies[i].upstream_device
+        words[i], bases[i] = selectivity.rcd_pair(cols.circuits[i].device.rcd, up.rcd)
     return words, bases
 
 
-@check_step("selectivity")
+def _flags(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
+    """Where the upstream device is known, and where selectivity is required (each supply read once)."""
+    by_supply = {id(s): s for s in cols.supplies}
+    known = {k: s.upstream_device is not None for k, s in by_supply.items()}
+    wanted = {k: s.selectivity_required for k, s in by_supply.items()}
+    has_upstream = np.array([known[id(s)] for s in cols.supplies], dtype=bool)
+    required = np.array(
+        [c.selectivity_required or wanted[id(s)] for s, c in zip(cols.supplies, cols.circuits, strict=True)], dtype=bool
+    )
+    return has_upstream, required
+
+
+@check_step("selectivity", unit="A")
 def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Total selectivity passes; partial or none fails; not-verified where the data cannot show it."""
-    has_upstream = np.array([s.upstream_device is not None for s in cols.supplies], dtype=bool)
-    required = np.array(
-        [c.selectivity_required or s.selectivity_required for s, c in zip(cols.supplies, cols.circuits, strict=True)],
-        dtype=bool,
-    )
-    limit, basis = _pairs(cols)
+    has_upstream, required = _flags(cols)
+    limit, basis = _pairs(cols, has_upstream)
     max_fault_a = loop.pfc_ka * 1000.0
     word, up_to = selectivity.verdicts_of(limit, max_fault_a)
-    rcd_word, rcd_basis = _residual(cols)
+    rcd_word, rcd_basis = _residual(cols, has_upstream)
     verdict = np.select(
         [word == Selective.NOT_VERIFIED, (word == Selective.TOTAL) & (rcd_word != Selective.NONE)],
         [verdicts.NOT_VERIFIED, verdicts.PASS],
         verdicts.FAIL,
     ).astype(np.int8)
     basis = np.where(has_upstream, basis, NO_UPSTREAM).astype(object)
-    upstream = np.array([s.upstream_id for s in cols.supplies], dtype=object)
+    upstream = np.where(has_upstream, np.array([s.upstream_id for s in cols.supplies], dtype=object), None)
     detail = {
         "with": upstream,
         "verdict": word,

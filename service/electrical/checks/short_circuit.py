@@ -108,7 +108,7 @@ def _detail(cols: CircuitColumns, loop: FaultLoop, far: FaultEnergy, near: Fault
     }
 
 
-@check_step("short-circuit")
+@check_step("short-circuit", unit="A2s")
 def short_circuit(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the device protects the live conductors at both ends; not-verified where the data cannot show it."""
     c = cols.conductors

@@ -62,7 +62,7 @@ def _limits(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
     return np.where(own, cols.drop_limit_percent, limit), np.where(own, "set for the circuit", basis).astype(object)
 
 
-@check_step("voltage-drop")
+@check_step("voltage-drop", unit="%")
 def voltage_drop(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
     """Pass where the drop from the origin is within the limit; not-verified without Ib or the cable's mV/A/m."""
     c = cols.conductors

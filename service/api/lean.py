@@ -1,0 +1,124 @@
+"""The lean answer of a batch: the core's table (service.electrical.table) with its texts and devices once."""
+
+from __future__ import annotations
+
+from collections.abc import Sequence
+from typing import Any
+
+from marshmallow import Schema, fields, validate
+
+from ..electrical.checks import CHECKS, UNITS
+from ..electrical.columns import CircuitFailure
+from ..electrical.results import GENERAL_CAUTIONS
+from ..electrical.table import Interned, add_problem, check_table, column_names, empty_columns, extend
+from ..electrical.verdicts import COUNTED
+from . import metrics
+from .errors import ProblemSchema
+from .helpers import failed_item, invalid_item
+from .result_schemas import BatchSummarySchema, DeviceSummarySchema
+from .schemas import ItemProblem
+
+CHUNK = 2000
+FORMS = ("lean", "full")
+
+
+class FormSchema(Schema):
+    form = fields.String(
+        load_default="lean",
+        validate=validate.OneOf(FORMS),
+        metadata={"description": "lean: a table, each text once (default); full: a whole result per item"},
+    )
+
+
+class CheckUnitSchema(Schema):
+    check = fields.String(required=True, validate=validate.OneOf(CHECKS))
+    unit = fields.String(required=True, metadata={"description": "of its value and limit"})
+
+
+class ProblemItemSchema(Schema):
+    index = fields.Integer(required=True)
+    id = fields.String(allow_none=True, required=True)
+    problem = fields.Nested(ProblemSchema, required=True)
+
+
+class LeanBatchSchema(Schema):
+    form = fields.String(required=True, validate=validate.Equal("lean"))
+    columns = fields.Dict(
+        keys=fields.String(),
+        values=fields.List(fields.Raw(allow_none=True)),
+        required=True,
+        metadata={
+            "description": "one list per column, one cell per item in order. Columns: index, id, verdict (or "
+            "invalid), device (a position in devices), the circuit's figures as the full result names them, "
+            "prospective_fault_current_basis and max_disconnection_basis (positions in texts), per check "
+            "<check>.verdict (null where it does not apply), .value, .limit, .margin_percent, .basis and .note "
+            "(positions in texts), left_out (the checks reported outside the verdict), cautions (positions in "
+            "texts, beside the general ones), problem (a position in problems)"
+        },
+    )
+    texts = fields.List(fields.String(), required=True, metadata={"description": "every text, once"})
+    devices = fields.List(fields.Nested(DeviceSummarySchema), required=True)
+    checks = fields.List(fields.Nested(CheckUnitSchema), required=True)
+    problems = fields.List(fields.Nested(ProblemItemSchema), required=True)
+    cautions = fields.List(fields.String(), required=True, metadata={"description": "for every result"})
+    summary = fields.Nested(BatchSummarySchema, required=True)
+
+
+def lean_answer(supply: Any, items: Sequence[Any], scope: Sequence[str] | None) -> dict[str, Any]:
+    """The lean answer for the items of a batch (a chunk at a time through the core)."""
+    names = column_names(CHECKS)
+    table, texts, devices = empty_columns(names), Interned(), Interned()
+    problems: list[dict[str, Any]] = []
+    for start in range(0, len(items), CHUNK):
+        chunk = items[start : start + CHUNK]
+        places = [start + i for i, item in enumerate(chunk) if not isinstance(item, ItemProblem)]
+        part = check_table(supply, [items[i] for i in places], texts, devices, scope) if places else None
+        if part is not None and part.columns is not None:
+            part.columns["index"] = [places[i] for i in part.good]
+        _merge(table, part, places, chunk, start, problems)
+    counted = [v for v in table["verdict"] if v != "invalid"]
+    metrics.count_verdicts(counted)
+    summary = {"circuits": len(items), **{str(v): counted.count(str(v)) for v in COUNTED}}
+    summary["invalid"] = len(items) - len(counted)
+    steps = [{"check": name, "unit": UNITS[name]} for name in CHECKS]
+    return {
+        "form": "lean",
+        "columns": table,
+        "texts": texts.items,
+        "devices": devices.items,
+        "checks": steps,
+        "problems": problems,
+        "cautions": list(GENERAL_CAUTIONS),
+        "summary": summary,
+    }
+
+
+def _merge(table, part, places, chunk, start, problems) -> None:
+    """A chunk's cells into the table, in the items' order: the checked ones, and a problem row for the others."""
+    good, failures = (part.good, part.failures) if part is not None else ([], [])
+    rows_at = {places[i]: k for k, i in enumerate(good)}
+    failed_at = {places[f.index]: f for f in failures}
+    pending = 0
+    for offset, item in enumerate(chunk):
+        index = start + offset
+        if index in rows_at:
+            pending += 1
+            continue
+        if pending:
+            _take(table, part, rows_at, index - pending, pending)
+            pending = 0
+        problems.append(_problem(index, item, failed_at.get(index)))
+        add_problem(table, index, problems[-1]["id"], len(problems) - 1)
+    if pending:
+        _take(table, part, rows_at, start + len(chunk) - pending, pending)
+
+
+def _take(table, part, rows_at, first: int, count: int) -> None:
+    k = rows_at[first]
+    extend(table, {name: values[k : k + count] for name, values in part.columns.items()})
+
+
+def _problem(index: int, item: Any, failure: CircuitFailure | None) -> dict[str, Any]:
+    if isinstance(item, ItemProblem):
+        return invalid_item(index, item.id, item.messages, f"/circuits/{index}")
+    return failed_item(index, item.id, failure, {"supply": "/supply", "circuit": f"/circuits/{index}"})
