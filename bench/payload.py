@@ -26,8 +26,12 @@ _CABLES = [(1.5, 1.0), (2.5, 1.5), (4, 1.5), (6, 2.5), (10, 4), (16, 6)]
 
 def circuits(n: int, seed: int = 7) -> list[dict]:
     """``n`` circuits for one supply, the same for the same seed."""
+    return list(iter_circuits(n, seed))
+
+
+def iter_circuits(n: int, seed: int = 7):
+    """The same circuits one at a time (for files larger than memory should hold)."""
     rng = random.Random(seed)
-    out = []
     for i in range(n):
         device = dict(rng.choice(_DEVICES))
         line, cpc = rng.choice(_CABLES)
@@ -48,8 +52,18 @@ def circuits(n: int, seed: int = 7) -> list[dict]:
         }
         if role == "final":
             item["load"] = rng.choice(["socket-outlets", "fixed-equipment"])
-        out.append(item)
-    return out
+        yield item
+
+
+def write_schedule(path, n: int, seed: int = 7) -> None:
+    """A JSON schedule of ``n`` circuits written to ``path`` a circuit at a time."""
+    import json
+
+    with open(path, "w", encoding="utf-8") as out:
+        out.write('{"supply": ' + json.dumps(SUPPLY) + ', "circuits": [')
+        for i, item in enumerate(iter_circuits(n, seed)):
+            out.write(("," if i else "") + json.dumps(item))
+        out.write("]}")
 
 
 def batch(n: int, seed: int = 7) -> dict:

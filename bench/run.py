@@ -152,31 +152,51 @@ def bench_picture() -> None:
 # ---------------------------------------------------------------- 5. growth
 
 
-def bench_growth() -> None:
-    from service import cli
-    from service.api.errors import json_bytes
+def _cli_run(path: Path) -> tuple[float, float]:
+    """Seconds and peak memory (MB) of `python -m service check FILE` writing its JSON answer to /dev/null."""
+    code = (
+        "import resource, sys, time; from service.__main__ import main; t = time.perf_counter(); "
+        "sys.stdout = open('/dev/null', 'w'); rc = main(['check', sys.argv[1], '-o', '/dev/null']); "
+        "print(time.perf_counter() - t, resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024, file=sys.stderr)"
+    )
+    done = subprocess.run([PY, "-c", code, str(path)], cwd=ROOT, capture_output=True, text=True)
+    seconds, peak = done.stderr.strip().splitlines()[-1].split()
+    return float(seconds), float(peak)
 
-    per = []
-    for n in (100, 1_000, 10_000, 100_000):
-        text = json.dumps(batch(n))
 
-        def once(text=text, n=n):
-            import io
+def bench_growth(largest: int = 1_000_000) -> None:
+    """The CLI on JSON schedules of growing size, each in its own process: per-circuit cost and peak memory."""
+    import tempfile
 
-            with open(os.devnull, "w") as quiet, open(os.devnull, "wb") as sink:
-                for records in cli.run_chunks(cli.read_json(io.StringIO(text)), cli.Progress(n, quiet)):
-                    sink.write(b",".join(json_bytes(r) for r in records))
+    from bench.payload import write_schedule
 
-        seconds = median_time(once, 3 if n <= 10_000 else 1)
-        per.append(seconds / n * 1e6)
+    sizes = [n for n in (1_000, 10_000, 100_000, 1_000_000) if n <= largest]
+    figures = {}
+    with tempfile.TemporaryDirectory() as tmp:
+        for n in sizes:
+            path = Path(tmp) / f"schedule-{n}.json"
+            write_schedule(path, n)
+            seconds, peak = _cli_run(path)
+            figures[n] = (seconds / n * 1e6, peak)
+            row(
+                f"growth: {n:,} circuits through the CLI (a JSON file read incrementally, answer to /dev/null)",
+                f"{seconds:,.1f} s, peak {peak:,.0f} MB",
+                "",
+                f"{seconds / n * 1e6:.1f} us per circuit",
+                "< 300 MB at 1M" if n == 1_000_000 else "",
+            )
+            path.unlink()
+    if 10_000 in figures and 100_000 in figures:
+        ratio = figures[100_000][0] / figures[10_000][0]
+        growth = (figures[max(sizes)][1] - figures[10_000][1]) * 1024 * 1024 / (max(sizes) - 10_000)
+        row("growth: per-circuit cost, 100 000 against 10 000", "", "", f"{ratio:.2f}x", "<= 1.2x")
         row(
-            f"growth: {n:,} circuits through the CLI path (read, check, write)",
-            f"{seconds * 1000:,.0f} ms",
+            f"growth: peak memory per circuit, {max(sizes):,} against 10 000",
+            f"{growth:,.0f} bytes per circuit",
             "",
-            f"{seconds / n * 1e6:.1f} us per circuit",
-            "flat",
+            "",
+            "<= 200 bytes",
         )
-    row("growth: per-circuit cost, 100 000 against 1 000", "", "", f"{per[3] / per[1]:.2f}x", "about 1x")
 
 
 # ---------------------------------------------------------------- scale-out

@@ -10,7 +10,8 @@ bind = f"{env('FAULTPATH_BIND')}:{env('FAULTPATH_PORT')}"
 if ":" in env("FAULTPATH_BIND") and not env("FAULTPATH_BIND").startswith("["):
     bind = f"[{env('FAULTPATH_BIND')}]:{env('FAULTPATH_PORT')}"
 workers = int(env("FAULTPATH_WORKERS") or min(8, 2 * multiprocessing.cpu_count() + 1))
-worker_class = "sync"
+threads = int(env("FAULTPATH_THREADS"))
+worker_class = "gthread" if threads > 1 else "sync"  # threads let concurrent single checks be computed together
 timeout = int(env("FAULTPATH_TIMEOUT_S"))
 graceful_timeout = 30
 keepalive = 5

@@ -36,6 +36,7 @@ from .api import (
     sizing_views,
     web,
 )
+from .api.coalesce import Coalescer
 from .settings import Settings
 
 API_VERSION = "1.0.0"
@@ -140,6 +141,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
         },
         MAX_CONTENT_LENGTH=settings.max_body_bytes,
         FAULTPATH_BATCH_LIMIT=settings.batch_limit,
+        FAULTPATH_COALESCE_MS=settings.coalesce_ms,
         FAULTPATH_SETTINGS=settings,
         JSON_SORT_KEYS=False,
     )
@@ -169,6 +171,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     app.register_blueprint(docs.blp)
     app.register_blueprint(web.blp)
     app.extensions["faultpath_api"] = api
+    app.extensions["faultpath_coalescer"] = Coalescer(settings.coalesce_ms / 1000.0)
     _install_guards(app, settings)
     _install_rate_limit(app, settings)
     metrics.install(app)

@@ -26,17 +26,27 @@ def exit_status(counts: dict[str, int]) -> int:
 class Progress:
     """A bar on standard error when it is a terminal; silent otherwise."""
 
-    def __init__(self, total: int, stream: TextIO):
-        self.total, self.stream, self.shown = total, stream, stream.isatty() and total >= CHUNK
+    def __init__(self, total: int | None, stream: TextIO):
+        """``total`` None: not known beforehand (a JSON file read incrementally): the count and rate only."""
+        self.total, self.stream = total, stream
+        self.shown = stream.isatty() and (total is None or total >= CHUNK)
         self.started = time.monotonic()
 
     def update(self, done: int) -> None:
         if not self.shown:
             return
+        rate = done / max(time.monotonic() - self.started, 1e-9)
+        if self.total is None:
+            self.stream.write(f"\r{done} circuits, {rate:,.0f}/s")
+            self.stream.flush()
+            return
         width = 30
         filled = int(width * done / max(self.total, 1))
-        rate = done / max(time.monotonic() - self.started, 1e-9)
         self.stream.write(f"\r[{'#' * filled}{'.' * (width - filled)}] {done}/{self.total} circuits, {rate:,.0f}/s")
         self.stream.flush()
         if done >= self.total:
+            self.stream.write("\n")
+
+    def close(self) -> None:
+        if self.shown and self.total is None:
             self.stream.write("\n")

@@ -11,6 +11,11 @@ SETTINGS = {
     "FAULTPATH_BIND": ("127.0.0.1", "address to listen on"),
     "FAULTPATH_PORT": ("8000", "port to listen on"),
     "FAULTPATH_WORKERS": ("", "gunicorn worker processes; empty: 2 x CPU count + 1, at most 8"),
+    "FAULTPATH_THREADS": ("8", "threads per worker (gthread); 1: sync workers"),
+    "FAULTPATH_COALESCE_MS": (
+        "2",
+        "concurrent single checks in one worker wait this long to be computed together; 0: never wait",
+    ),
     "FAULTPATH_TIMEOUT_S": ("60", "seconds a worker may spend on one request"),
     "FAULTPATH_MAX_REQUESTS": ("20000", "a worker is replaced after this many requests (with jitter); 0: never"),
     "FAULTPATH_MAX_BODY_BYTES": ("16777216", "largest request body (16 MiB); larger gets 413"),
@@ -61,6 +66,7 @@ class Settings:
     rate_limit: str = ""
     rate_limit_storage: str = "memory://"
     proxies: int = 0
+    coalesce_ms: float = 2.0
 
     @classmethod
     def from_env(cls) -> Settings:
@@ -75,6 +81,7 @@ class Settings:
             rate_limit=env("FAULTPATH_RATE_LIMIT"),
             rate_limit_storage=env("FAULTPATH_RATE_LIMIT_STORAGE"),
             proxies=int(env("FAULTPATH_PROXIES")),
+            coalesce_ms=float(env("FAULTPATH_COALESCE_MS")),
         )
 
     @property

@@ -87,3 +87,22 @@ def test_a_report_needs_an_installation_and_an_installation_answers_in_json(tmp_
     assert r.returncode == 2 and b"--report needs an installation" in r.stderr
     r = run(str(INSTALLATION), "--format", "csv")
     assert r.returncode == 2 and b"answer is JSON" in r.stderr
+
+
+def test_ndjson_and_strictness_of_a_json_read_incrementally(tmp_path):
+    batch = json.loads((ROOT / "schemas" / "examples" / "circuits-check-batch.json").read_text())
+    lines = tmp_path / "board.ndjson"
+    lines.write_text("\n".join(json.dumps(x) for x in [{"supply": batch["supply"]}, *batch["circuits"]]) + "\n")
+    r = run(str(lines))
+    body = json.loads(r.stdout)
+    assert r.returncode == 1 and [x["index"] for x in body["results"]] == [0, 1, 2, 3]
+    assert body["results"][2]["problem"]["errors"][0]["pointer"] == "/circuits/2/device/rating_a"
+    # the incremental JSON reader is as strict as the API's: a repeated key, NaN
+    repeated = tmp_path / "repeated.json"
+    text = json.dumps(batch).replace('"role": "final"', '"role": "final", "role": "final"', 1)
+    repeated.write_text(text)
+    r = run(str(repeated))
+    assert r.returncode == 2 and b"duplicate key 'role'" in r.stderr
+    nan = tmp_path / "nan.json"
+    nan.write_text(json.dumps(batch).replace('"length_m": 18', '"length_m": NaN', 1))
+    assert run(str(nan)).returncode == 2

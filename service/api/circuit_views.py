@@ -31,7 +31,9 @@ CHUNK = 2000
 
 
 def _checked_one(body):
-    result = check_circuits(body["supply"], [body["circuit"]], body.get("checks"))[0]
+    """One circuit's result, computed with any other single checks in flight in this worker (coalesce.py)."""
+    coalescer = flask.current_app.extensions["faultpath_coalescer"]
+    result = coalescer.check(body["supply"], body["circuit"], body.get("checks"))
     if isinstance(result, CircuitFailure):
         raise CoreInputError.of(result, SINGLE)
     return result

@@ -53,7 +53,7 @@ class _Plan:
         self.post_loads = [getattr(schema, attr) for attr, many, _ in hooks[POST_LOAD] if not many]
 
     def load(self, value: Any) -> Any:
-        if type(value) is not dict or not self.required <= value.keys():
+        if not isinstance(value, dict) or not self.required <= value.keys():
             raise Refused
         out: dict[str, Any] = dict(self.constants)
         for attribute, factory in self.factories:
@@ -161,7 +161,7 @@ def _nested(field: fields.Field, limits: _Limits):
     seen: dict[tuple, Any] = {}
 
     def check(raw):
-        if type(raw) is not dict:
+        if not isinstance(raw, dict):
             raise Refused
         try:  # with each value's type: 1, 1.0 and True are equal in Python, not in the schema
             key = tuple([(k, v.__class__, v) for k, v in raw.items()])

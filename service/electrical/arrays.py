@@ -42,6 +42,15 @@ def scalar_io(func: F) -> F:
     return wrapper  # type: ignore[return-value]
 
 
+def select(conditions: Any, choices: Any, default: Any = 0) -> np.ndarray:
+    """What ``np.select`` answers (the first condition that holds picks its choice, else ``default``), built
+    as a chain of ``np.where``: the same cells at a fraction of its cost on short columns (one circuit)."""
+    out = default
+    for condition, choice in zip(reversed(list(conditions)), reversed(list(choices)), strict=True):
+        out = np.where(condition, choice, out)
+    return np.asarray(out)
+
+
 def as_float(values: Any) -> np.ndarray:
     """A 1-D float array (a scalar becomes an array of one)."""
     return np.atleast_1d(np.asarray(values, dtype=float))

@@ -11,7 +11,7 @@ from typing import Any
 import numpy as np
 
 from . import verdicts
-from .arrays import as_float, as_objects, map_column, scalar_io
+from .arrays import as_float, as_objects, map_column, scalar_io, select
 from .datafiles import core_table
 from .devices.characteristic import AT_MOST, BEYOND_DATA
 from .errors import InvalidInput
@@ -123,7 +123,7 @@ def time_verdicts(time_s: np.ndarray, bound: np.ndarray, limit_s: np.ndarray) ->
     """
     with np.errstate(invalid="ignore"):
         ok = time_s <= limit_s * (1 + 1e-9)
-    verdict = np.select(
+    verdict = select(
         [~np.isfinite(limit_s), bound == BEYOND_DATA, ok, bound == AT_MOST],
         [verdicts.NOT_VERIFIED, verdicts.FAIL, verdicts.PASS, verdicts.NOT_VERIFIED],
         verdicts.FAIL,

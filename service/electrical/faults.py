@@ -7,7 +7,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from .arrays import as_float, finite_or_none, scalar_io
+from .arrays import as_float, finite_or_none, scalar_io, select
 from .conductors import conductor_columns
 from .datafiles import core_table
 from .errors import ElectricalError, InvalidInput
@@ -159,8 +159,8 @@ def line_neutral_origin(
     stated = ~np.isnan(pfc_stated_ka)
     with np.errstate(divide="ignore", invalid="ignore"):
         from_pfc = u0_v / (pfc_stated_ka * 1000.0)
-    zpn = np.select([given, stated, ~tt], [line_neutral_loop_ohm, from_pfc, ze_ohm], np.nan)
-    key = np.select([given, stated, ~tt], ["zpn-given", "zpn-from-pfc", "zpn-from-ze"], None)
+    zpn = select([given, stated, ~tt], [line_neutral_loop_ohm, from_pfc, ze_ohm], np.nan)
+    key = select([given, stated, ~tt], ["zpn-given", "zpn-from-pfc", "zpn-from-ze"], None)
     return zpn, key.astype(object)
 
 

@@ -13,7 +13,7 @@ from typing import Any
 import numpy as np
 
 from . import verdicts
-from .arrays import as_float, finite_or_none, scalar_io
+from .arrays import as_float, finite_or_none, scalar_io, select
 from .datafiles import core_table
 from .devices.catalogue import resolve
 from .errors import ElectricalError, InvalidInput, NoRule
@@ -111,8 +111,8 @@ def fault_energy_a2s(current_a: Any, time_s: Any, let_through_a2s: Any = None, d
     outside = ~np.isfinite(t) | (t > ADIABATIC_MAX_S)
     has_given, has_data = short & ~np.isnan(given), short & ~np.isnan(data)
     conditions = [outside, has_given, has_data, short]
-    energy = np.select(conditions, [np.nan, given, data, i * i * ADIABATIC_MIN_S], i * i * t)
-    method = np.select(conditions, list(ENERGY_METHODS[1:]), ENERGY_METHODS[0])
+    energy = select(conditions, [np.nan, given, data, i * i * ADIABATIC_MIN_S], i * i * t)
+    method = select(conditions, list(ENERGY_METHODS[1:]), ENERGY_METHODS[0])
     return energy, method.astype(object)
 
 
@@ -171,7 +171,7 @@ def cpc_verdicts(
     with np.errstate(invalid="ignore"):
         by_calculation = np.isfinite(s_min) & (csa >= s_min * (1 - 1e-9))
         by_selection = np.isfinite(selection) & (csa >= selection)
-    verdict = np.select(
+    verdict = select(
         [by_calculation | by_selection, np.isfinite(s_min)], [verdicts.PASS, verdicts.FAIL], verdicts.NOT_VERIFIED
     )
     return verdict.astype(np.int8), by_calculation, by_selection

@@ -93,14 +93,13 @@ def lists_of(columns: Mapping[str, Any], exact: bool = True, rules: Mapping[str,
     numeric = [name for name, col in columns.items() if isinstance(col, np.ndarray) and col.dtype.kind in "fiu"]
     converted: dict[str, list[Any]] = {}
     if numeric:
-        stacked = np.vstack(
-            [
-                np.asarray(columns[name], dtype=float)
-                if exact
-                else precision.rounded(columns[name], (rules or {}).get(name) or precision.rule_for(name))
-                for name in numeric
-            ]
-        )
+        stacked = np.vstack([np.asarray(columns[name], dtype=float) for name in numeric])
+        if not exact:  # one rounding per rule, over every column it serves
+            by_rule: dict[Any, list[int]] = {}
+            for row, name in enumerate(numeric):
+                by_rule.setdefault((rules or {}).get(name) or precision.rule_for(name), []).append(row)
+            for rule, rows in by_rule.items():
+                stacked[rows] = precision.rounded(stacked[rows], rule)
         lists = stacked.tolist()
         for r, c in zip(*np.nonzero(~np.isfinite(stacked)), strict=True):
             lists[r][c] = None

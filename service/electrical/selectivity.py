@@ -30,6 +30,7 @@ from functools import lru_cache
 
 import numpy as np
 
+from .arrays import select
 from .datafiles import device_table
 from .devices import adjustable, catalogue, let_through
 from .devices.base import Device
@@ -195,7 +196,7 @@ def pair_limit(down_spec: DeviceSpec, up_spec: DeviceSpec, maker_limit_a: float 
 
 def verdicts_of(limit_a: np.ndarray, fault_a: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
     """Selectivity words and the current up to which it holds, against the largest fault at the downstream device."""
-    word = np.select(
+    word = select(
         [np.isnan(limit_a), limit_a <= 0, np.isnan(fault_a), fault_a <= limit_a],
         [Selective.NOT_VERIFIED, Selective.NONE, Selective.NOT_VERIFIED, Selective.TOTAL],
         Selective.PARTIAL,

@@ -154,12 +154,12 @@ def test_unknown_path_and_method(client):
 
 
 def test_a_500_returns_only_an_error_id(app, monkeypatch, caplog):
-    from service.api import circuit_views as circuits
+    from service.api import coalesce
 
     def explode(*args, **kwargs):
         raise RuntimeError("secret internals")
 
-    monkeypatch.setattr(circuits, "check_circuits", explode)
+    monkeypatch.setattr(coalesce, "check_circuits", explode)
     app.config["PROPAGATE_EXCEPTIONS"] = False
     r = app.test_client().post("/v1/circuits/check", json=EXAMPLE)
     body = assert_problem(r, 500)

@@ -8,6 +8,8 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from ..arrays import select
+
 if TYPE_CHECKING:
     from ..columns import CircuitColumns
     from ..faults import FaultLoop
@@ -24,7 +26,7 @@ def margin_percent(value: Any, limit: Any) -> np.ndarray:
 
 def pick(conditions: Sequence[np.ndarray], texts: Sequence[str | None], default: str | None = None) -> np.ndarray:
     """For each circuit, the text of the first condition that holds (``default`` where none does)."""
-    return np.select(list(conditions), list(texts), default).astype(object)
+    return select(list(conditions), list(texts), default).astype(object)
 
 
 @dataclass

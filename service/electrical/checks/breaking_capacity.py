@@ -11,6 +11,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
@@ -65,7 +66,7 @@ def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
     unknown = np.isnan(loop.pfc_ka)
     short = ~(limit >= loop.pfc_ka)
     # a standard minimum is a lower bound: falling short of it cannot show that the device itself does
-    verdict = np.select(
+    verdict = select(
         [np.isnan(limit) | unknown, ~short, from_default & ~conditional],
         [verdicts.NOT_VERIFIED, verdicts.PASS, verdicts.NOT_VERIFIED],
         verdicts.FAIL,

@@ -9,6 +9,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..devices.characteristic import ESTIMATED
 from ..faults import FaultLoop
@@ -37,7 +38,7 @@ def max_zs(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier:
     oc_ok = has_limit & (loop.zs_ohm <= limit_oc)
     use_rcd = ~oc_ok & trip.rcd_credited
     rcd_ok = trip.rcd_loop_ohm <= trip.rcd_limit_ohm
-    verdict = np.select(
+    verdict = select(
         [oc_ok, use_rcd & rcd_ok, use_rcd, has_limit],
         [verdicts.PASS, verdicts.PASS, verdicts.FAIL, verdicts.FAIL],
         verdicts.NOT_VERIFIED,

@@ -11,6 +11,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import capacity, verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..datafiles import core_table
 from ..errors import ElectricalError
@@ -141,7 +142,7 @@ def overload(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
     ring_ok = np.where(iz >= ring["min_iz_a"], verdicts.PASS, verdicts.FAIL)
     conditions = [ib_over, np.isnan(ib) | np.isnan(iz), c.ring & ~ring_rule, ring_rule, in_ok]
     choices = [verdicts.FAIL, verdicts.NOT_VERIFIED, verdicts.NOT_VERIFIED, ring_ok, verdicts.PASS]
-    verdict = np.select(conditions, choices, verdicts.FAIL).astype(np.int8)
+    verdict = select(conditions, choices, verdicts.FAIL).astype(np.int8)
     no_inst = np.array([ci.installation is None for ci in cols.circuits], dtype=bool)
     why = [ib_over, np.isnan(ib), no_inst, _other_material(cols), np.isnan(iz), c.ring & ~ring_rule]
     names = ["ib-over-in", "no-design-current", "no-installation", "material", "no-cell", "ring-outside"]

@@ -9,6 +9,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import protective, verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
@@ -117,7 +118,7 @@ def _note(present, method, s_min, stand_in_fail, by_calculation, by_selection, s
         "outside-adiabatic",
     ]
     texts = [energy_note if name is None else NOTES[name] for name in names]
-    return np.select(conditions, texts, energy_note).astype(object)
+    return select(conditions, texts, energy_note).astype(object)
 
 
 def _energy(loop: FaultLoop, trip: DeviceResponse):

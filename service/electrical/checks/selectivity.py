@@ -14,6 +14,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import selectivity, verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
@@ -61,7 +62,7 @@ def selectivity_check(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
     max_fault_a = loop.pfc_ka * 1000.0
     word, up_to = selectivity.verdicts_of(limit, max_fault_a)
     rcd_word, rcd_basis = _residual(cols, has_upstream)
-    verdict = np.select(
+    verdict = select(
         [word == Selective.NOT_VERIFIED, (word == Selective.TOTAL) & (rcd_word != Selective.NONE)],
         [verdicts.NOT_VERIFIED, verdicts.PASS],
         verdicts.FAIL,

@@ -13,6 +13,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import capacity, verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..errors import ElectricalError
 from ..faults import FaultLoop
@@ -71,7 +72,7 @@ def voltage_drop(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, ea
     own = drop / capacity.nominal_voltage_v(cols.u0_v, cols.phases) * 100.0
     total = cols.upstream_drop_percent + own
     limit, limit_basis = _limits(cols)
-    verdict = np.select(
+    verdict = select(
         [np.isnan(total), total <= limit * (1 + 1e-9)], [verdicts.NOT_VERIFIED, verdicts.PASS], verdicts.FAIL
     )
     no_inst = np.array([ci.installation is None for ci in cols.circuits], dtype=bool)

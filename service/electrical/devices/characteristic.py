@@ -19,7 +19,7 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import as_float, scalar_io
+from ..arrays import as_float, scalar_io, select
 from ..errors import InvalidInput
 
 
@@ -130,7 +130,7 @@ class Characteristic:
         if len(lx) == 1:  # one published point: 'at most' that time at and above its current
             at = x >= lx[0]
             first = ESTIMATED if est[0] else INTERPOLATED
-            code = np.select([x == lx[0], at], [first, ESTIMATED if est[0] else AT_MOST], BEYOND_DATA)
+            code = select([x == lx[0], at], [first, ESTIMATED if est[0] else AT_MOST], BEYOND_DATA)
             return np.where(at, self.time_s[0], np.inf), code.astype(np.int8)
         last = len(lx) - 1
         i = np.searchsorted(lx, x, side="right") - 1
@@ -143,7 +143,7 @@ class Characteristic:
             frac = np.clip(np.where(span > 0, (x - lx[lo]) / np.where(span > 0, span, 1.0), 1.0), 0.0, 1.0)
         y = ly[lo] + frac * (ly[hi] - ly[lo])
         # exactly on a point: the tabulated value itself, not its round trip through logarithms
-        time = np.select(
+        time = select(
             [below, above, (frac >= 1) | (ly[hi] == ly[lo]), frac <= 0],
             [np.inf, self.time_s[-1], self.time_s[hi], self.time_s[lo]],
             np.exp(y),
@@ -151,7 +151,7 @@ class Characteristic:
         seg_est = (est[lo] & (frac < 1)) | (est[hi] & (frac > 0))
         # an answer that rests on an estimated end point keeps saying so
         end = ESTIMATED if est[-1] else AT_MOST
-        code = np.select([below, above], [BEYOND_DATA, end], np.where(seg_est, ESTIMATED, INTERPOLATED))
+        code = select([below, above], [BEYOND_DATA, end], np.where(seg_est, ESTIMATED, INTERPOLATED))
         return time, code.astype(np.int8)
 
     def current_codes(self, time_s: Any) -> tuple[np.ndarray, np.ndarray]:
@@ -161,7 +161,7 @@ class Characteristic:
         if len(lx) == 1:
             ok = t >= ly[0]
             first = ESTIMATED if est[0] else INTERPOLATED
-            code = np.select([~ok, t == ly[0]], [BEYOND_DATA, first], ESTIMATED if est[0] else AT_MOST)
+            code = select([~ok, t == ly[0]], [BEYOND_DATA, first], ESTIMATED if est[0] else AT_MOST)
             return np.where(ok, self.current_a[0], np.nan), code.astype(np.int8)
         last = len(lx) - 1
         # first index whose time is at or below the target (times fall along the curve)
@@ -175,13 +175,13 @@ class Characteristic:
             frac = np.clip(np.where(span > 0, (ly[lo] - t) / np.where(span > 0, span, 1.0), 1.0), 0.0, 1.0)
         x = lx[lo] + frac * (lx[hi] - lx[lo])
         first = (j == 0) | too_long  # at or beyond the first point's time
-        current = np.select(
+        current = select(
             [too_short, first, (frac >= 1) | (lx[hi] == lx[lo]), frac <= 0],
             [np.nan, self.current_a[0], self.current_a[hi], self.current_a[lo]],
             np.exp(x),
         )
         seg_est = np.where(first, est[0], (est[lo] & (frac < 1)) | (est[hi] & (frac > 0)))
-        code = np.select(
+        code = select(
             [too_short, too_long & ~est[0]], [BEYOND_DATA, AT_MOST], np.where(seg_est, ESTIMATED, INTERPOLATED)
         )
         return current, code.astype(np.int8)

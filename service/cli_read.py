@@ -1,0 +1,280 @@
+"""Reading schedules for the CLI: CSV row by row, JSON incrementally, NDJSON line by line.
+
+Each reader yields rows one at a time, every row through the same schemas as the HTTP API (so a bad row gets
+the same messages), so a schedule of any length is checked a chunk at a time in flat memory.
+"""
+
+from __future__ import annotations
+
+import csv
+import json
+from collections.abc import Iterator
+from typing import Any, BinaryIO, TextIO
+
+import ijson
+from marshmallow import ValidationError
+
+from .api.errors import core_errors, flatten, pointer_of
+from .api.fastload import Refused, fast_load
+from .api.schemas import CircuitSchema, SupplySchema
+from .api.strictjson import strict_loads
+from .electrical.columns import CircuitFailure
+
+# column -> (where it goes, field, kind); documented in the README
+CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
+    "id": ("circuit", "id", "text"),
+    "earthing": ("supply", "earthing", "text"),
+    "u0_v": ("supply", "u0_v", "number"),
+    "ze_ohm": ("supply", "ze_ohm", "number"),
+    "prospective_fault_current_ka": ("supply", "prospective_fault_current_ka", "number"),
+    "electrode_ohm": ("supply", "electrode_ohm", "number"),
+    "bonding_complete": ("supply", "bonding_complete", "flag"),
+    "line_neutral_loop_ohm": ("supply", "line_neutral_loop_ohm", "number"),
+    "role": ("circuit", "role", "text"),
+    "load": ("circuit", "load", "text"),
+    "design_current_a": ("circuit", "design_current_a", "number"),
+    "device_standard": ("device", "standard", "text"),
+    "device_type": ("device", "type", "text"),
+    "rating_a": ("device", "rating_a", "number"),
+    "breaking_capacity_ka": ("device", "breaking_capacity_ka", "number"),
+    "energy_limiting_class": ("device", "energy_limiting_class", "integer"),
+    "conditional_short_circuit_ka": ("circuit", "conditional_short_circuit_ka", "number"),
+    "rcd_residual_current_ma": ("rcd", "residual_current_ma", "number"),
+    "rcd_delay": ("rcd", "delay", "text"),
+    "material": ("conductors", "material", "text"),
+    "insulation": ("conductors", "insulation", "text"),
+    "line_csa_mm2": ("conductors", "line_csa_mm2", "number"),
+    "cpc_csa_mm2": ("conductors", "cpc_csa_mm2", "number"),
+    "length_m": ("conductors", "length_m", "number"),
+    "cpc_arrangement": ("conductors", "cpc_arrangement", "text"),
+    "ring": ("conductors", "ring", "flag"),
+    "parallel_cables": ("conductors", "parallel_cables", "integer"),
+    "r1_plus_r2_ohm": ("circuit", "r1_plus_r2_ohm", "number"),
+    "neutral_csa_mm2": ("circuit", "neutral_csa_mm2", "number"),
+    "cable": ("installation", "cable", "text"),
+    "installation_method": ("installation", "installation_method", "text"),
+    "ambient_c": ("installation", "ambient_c", "number"),
+    "grouping": ("installation", "grouping", "text"),
+    "grouped_circuits": ("installation", "grouped_circuits", "integer"),
+    "thermal_insulation_mm": ("installation", "thermal_insulation_mm", "number"),
+}
+
+SUPPLY_SCHEMA = SupplySchema()
+CIRCUIT_SCHEMA = CircuitSchema()
+
+
+class ScheduleError(ValueError):
+    """A file that is not a schedule at all (exit status 2)."""
+
+
+class Row:
+    """One circuit read from the file: its supply and circuit, or the problem that stopped it."""
+
+    def __init__(
+        self,
+        index: int,
+        ident: str | None,
+        base: str,
+        supply=None,
+        circuit=None,
+        problem: list[dict[str, str]] | None = None,
+    ):
+        self.index, self.id, self.base = index, ident, base
+        self.supply, self.circuit, self.problem = supply, circuit, problem
+        self.csv = False
+
+    def errors_of(self, failure: CircuitFailure) -> list[dict[str, str]]:
+        """A core failure's pointer: into the JSON file, or the CSV row and column."""
+        if self.csv:
+            return [
+                {"pointer": _as_column(pointer_of(failure.path, CSV_ROOTS), self.index), "message": failure.message}
+            ]
+        return core_errors(failure, {"supply": "/supply", "circuit": self.base})
+
+
+def _load(schema, raw, base: str):
+    try:
+        return fast_load(schema, raw), None
+    except Refused:
+        pass
+    try:
+        return schema.load(raw), None
+    except ValidationError as err:
+        return None, flatten(err.messages, base)
+
+
+def _cell(value: str, kind: str) -> Any:
+    """A CSV cell as JSON would carry it; a cell that does not parse stays text, so the schema says why."""
+    text = value.strip()
+    if kind == "text":
+        return text
+    if kind == "flag":
+        return {"true": True, "yes": True, "1": True, "false": False, "no": False, "0": False}.get(text.lower(), text)
+    try:
+        number = int(text) if kind == "integer" else float(text)
+    except ValueError:
+        return text
+    return number if number == number and abs(number) != float("inf") else text
+
+
+_POINTER_OF = {
+    "supply": "/supply",
+    "circuit": "/circuit",
+    "device": "/circuit/device",
+    "rcd": "/circuit/device/rcd",
+    "conductors": "/circuit/conductors",
+    "installation": "/circuit/installation",
+}
+CSV_ROOTS = {"supply": "/supply", "circuit": "/circuit"}
+_COLUMN_OF = {f"{_POINTER_OF[where]}/{name}": column for column, (where, name, _) in CSV_COLUMNS.items()}
+
+
+def _as_column(pointer: str, index: int) -> str:
+    """A schema pointer (/circuit/conductors/length_m) as the CSV row and column (/3/length_m)."""
+    column = _COLUMN_OF.get(pointer)
+    if column is None:  # a whole object, e.g. /circuit/conductors: name its first column
+        column = next(
+            (c for p, c in _COLUMN_OF.items() if p.startswith(pointer + "/")), pointer.rsplit("/", 1)[-1] or ""
+        )
+    return f"/{index}/{column}"
+
+
+def iter_csv(stream: TextIO) -> Iterator[Row]:
+    """The rows of a CSV schedule, one at a time (each row has its own supply)."""
+    reader = csv.DictReader(stream)
+    unknown = [c for c in (reader.fieldnames or []) if c not in CSV_COLUMNS]
+    if unknown:
+        raise ScheduleError(f"unknown CSV columns {unknown}; the columns are {list(CSV_COLUMNS)}")
+    for index, record in enumerate(reader):
+        yield _csv_row(index, record)
+
+
+def _csv_row(index: int, record: dict[str, str]) -> Row:
+    parts: dict[str, dict[str, Any]] = {where: {} for where in _POINTER_OF}
+    for column, value in record.items():
+        if column is None or value is None or value.strip() == "":
+            continue
+        where, name, kind = CSV_COLUMNS[column]
+        parts[where][name] = _cell(value, kind)
+    circuit = dict(parts["circuit"], device=dict(parts["device"]))
+    if parts["rcd"]:
+        circuit["device"]["rcd"] = parts["rcd"]
+    for nested in ("conductors", "installation"):
+        if parts[nested]:
+            circuit[nested] = parts[nested]
+    row = _validated(index, parts["supply"], circuit, "", "/supply", "/circuit")
+    if row.problem:
+        row.problem = [{"pointer": _as_column(e["pointer"], index), "message": e["message"]} for e in row.problem]
+    row.base, row.csv = f"/{index}", True
+    return row
+
+
+def _validated(
+    index: int,
+    supply_raw: Any,
+    circuit_raw: Any,
+    base: str,
+    supply_pointer: str,
+    circuit_pointer: str,
+    supply_loaded: tuple | None = None,
+) -> Row:
+    ident = circuit_raw.get("id") if isinstance(circuit_raw, dict) and isinstance(circuit_raw.get("id"), str) else None
+    supply, supply_problems = supply_loaded or _load(SUPPLY_SCHEMA, supply_raw, supply_pointer)
+    circuit, circuit_problems = _load(CIRCUIT_SCHEMA, circuit_raw, circuit_pointer)
+    problems = (supply_problems or []) + (circuit_problems or [])
+    if problems:
+        return Row(index, ident, base, problem=problems)
+    return Row(index, ident, base, supply, circuit)
+
+
+def iter_items(supply_raw: Any, items: Iterator[Any]) -> Iterator[Row]:
+    """The rows of a schedule's circuits on one supply (loaded once), one at a time."""
+    supply = _load(SUPPLY_SCHEMA, supply_raw, "/supply")
+    for i, item in enumerate(items):
+        yield _validated(i, supply_raw, item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
+
+
+def rows_of(body: Any) -> Iterator[Row]:
+    """The rows of a JSON schedule already parsed."""
+    if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
+        raise ScheduleError(SCHEDULE_SHAPE)
+    return iter_items(body["supply"], iter(body["circuits"]))
+
+
+SCHEDULE_SHAPE = 'a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes'
+
+
+class _NoRepeats(dict):
+    """An object of the incremental reader that refuses a repeated key, as the strict reader does."""
+
+    def __setitem__(self, key: str, value: Any) -> None:
+        if key in self:
+            raise ValueError(f"duplicate key {key[:60]!r}")
+        dict.__setitem__(self, key, value)
+
+
+def top_level_kind(stream: BinaryIO) -> str | None:
+    """Which body a JSON file holds, read incrementally: ``circuits`` (a schedule), ``boards`` (an
+    installation), or None; the stream is left at its start."""
+    try:
+        for prefix, event, value in ijson.parse(stream):
+            if prefix == "" and event == "map_key" and value in ("circuits", "boards"):
+                return value
+            if prefix == "" and event in ("start_array", "string", "number", "boolean", "null"):
+                break
+    except ijson.JSONError as err:
+        raise ScheduleError(f"not JSON: {err}") from None
+    finally:
+        stream.seek(0)
+    return None
+
+
+def iter_json(stream: BinaryIO) -> Iterator[Row]:
+    """The rows of a large JSON schedule, its circuits read one at a time (ijson): memory stays flat.
+
+    Strict as the API: NaN and Infinity are not JSON, and a repeated key is refused.
+    """
+    supply = _incremental(lambda: next(ijson.items(stream, "supply", use_float=True, map_type=_NoRepeats), None))
+    if supply is None:
+        raise ScheduleError(SCHEDULE_SHAPE)
+    stream.seek(0)
+    items = ijson.items(stream, "circuits.item", use_float=True, map_type=_NoRepeats)
+    return iter_items(supply, _plain(items))
+
+
+def _plain(items: Iterator[Any]) -> Iterator[Any]:
+    while True:
+        item = _incremental(lambda: next(items, _END))
+        if item is _END:
+            return
+        yield item
+
+
+_END = object()
+
+
+def _incremental(read):
+    """One step of the incremental reader, its errors as the file's (the C reader wraps ours in SystemError)."""
+    try:
+        return read()
+    except (ijson.JSONError, ValueError, SystemError) as err:
+        cause = err
+        while cause.__cause__ or cause.__context__:  # the first error of the chain is what went wrong
+            cause = cause.__cause__ or cause.__context__
+        raise ScheduleError(f"not a strict JSON schedule: {cause}") from None
+
+
+def iter_ndjson(stream: TextIO) -> Iterator[Row]:
+    """The rows of an NDJSON schedule: a first line ``{"supply": {...}}``, then one circuit per line."""
+    first = stream.readline()
+    head = _line(first, 1)
+    if not isinstance(head, dict) or set(head) != {"supply"}:
+        raise ScheduleError('an NDJSON schedule starts with a line {"supply": {...}}, then one circuit per line')
+    return iter_items(head["supply"], (_line(line, n) for n, line in enumerate(stream, 2) if line.strip()))
+
+
+def _line(text: str, number: int) -> Any:
+    try:
+        return strict_loads(text)
+    except json.JSONDecodeError as err:
+        raise ScheduleError(f"line {number}: {err.msg}") from None

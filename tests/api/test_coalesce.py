@@ -1,0 +1,62 @@
+"""Concurrent single checks computed together: each request gets exactly its own answer."""
+
+import json
+import threading
+
+import pytest
+
+from service.api.coalesce import Coalescer
+from service.api.schemas import CheckRequestSchema
+from service.electrical.circuit import check_circuit
+from tests.paths import EXAMPLES
+
+BODY = CheckRequestSchema().load(json.loads((EXAMPLES / "circuits-check.json").read_text()))
+
+
+def lengths(n):
+    import dataclasses
+
+    circuit = BODY["circuit"]
+    return [
+        dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=5 + i))
+        for i in range(n)
+    ]
+
+
+def test_concurrent_checks_are_gathered_and_each_gets_its_own_result():
+    coalescer = Coalescer(window_s=0.05)
+    circuits = lengths(12)
+    answers = [None] * len(circuits)
+    start = threading.Barrier(len(circuits))
+
+    def ask(i):
+        start.wait()
+        answers[i] = coalescer.check(BODY["supply"], circuits[i], None)
+
+    threads = [threading.Thread(target=ask, args=(i,)) for i in range(len(circuits))]
+    for t in threads:
+        t.start()
+    for t in threads:
+        t.join(timeout=30)
+    assert coalescer.batches >= 1
+    for circuit, answer in zip(circuits, answers, strict=True):
+        assert answer == check_circuit(BODY["supply"], circuit)
+
+
+def test_a_check_alone_is_not_kept_waiting_and_errors_reach_the_caller(monkeypatch):
+    import time
+
+    coalescer = Coalescer(window_s=5.0)
+    started = time.perf_counter()
+    coalescer.check(BODY["supply"], BODY["circuit"], ["max-zs"])
+    assert time.perf_counter() - started < 2.0
+
+    from service.api import coalesce
+
+    def explode(*args, **kwargs):
+        raise RuntimeError("boom")
+
+    monkeypatch.setattr(coalesce, "check_circuits", explode)
+    with pytest.raises(RuntimeError):
+        coalescer.check(BODY["supply"], BODY["circuit"], None)
+    assert coalescer.in_flight == 0
