@@ -83,14 +83,39 @@ class Api(flask_smorest.Api):
         )
 
 
+# stable names for client generators (a generated client's functions are named by them)
+OPERATION_IDS = {
+    ("post", "/v1/circuits/check"): "checkCircuit",
+    ("post", "/v1/circuits/picture"): "drawCircuit",
+    ("post", "/v1/circuits/check-batch"): "checkCircuits",
+    ("post", "/v1/installations/check"): "checkInstallation",
+    ("post", "/v1/installations/report"): "reportInstallation",
+    ("post", "/v1/fault-current"): "faultCurrent",
+    ("post", "/v1/disconnection-time"): "disconnectionTime",
+    ("post", "/v1/max-zs"): "maxZs",
+    ("post", "/v1/protective-conductor"): "protectiveConductor",
+    ("post", "/v1/circuits/size"): "sizeCircuit",
+    ("post", "/v1/circuits/max-length"): "longestRun",
+    ("post", "/v1/test-results/verify"): "verifyTestResults",
+    ("get", "/v1/devices"): "listDevices",
+    ("get", "/v1/devices/{device_id}/{rating_a}/characteristic"): "deviceCharacteristic",
+    ("get", "/v1/cables"): "listCables",
+    ("get", "/healthz"): "health",
+    ("get", "/readyz"): "readiness",
+    ("get", "/metrics"): "metrics",
+}
+
+
 def spec_dict(api: Api) -> dict[str, Any]:
     """The OpenAPI document, with the problem+json answers every operation can give."""
     spec = copy.deepcopy(api.spec.to_dict())  # apispec hands out its own path objects: never edit them
+    spec.get("components", {}).get("schemas", {}).pop("PaginationMetadata", None)  # no operation pages
     problem = {"content": {errors.PROBLEM_TYPE: {"schema": {"$ref": "#/components/schemas/Problem"}}}}
     for path, operations in spec["paths"].items():
         for method, operation in operations.items():
             if method not in ("get", "post"):
                 continue
+            operation["operationId"] = OPERATION_IDS[(method, path)]
             responses = operation.setdefault("responses", {})
             for status in ERROR_STATUSES[method.upper()]:
                 if path in ("/healthz", "/readyz", "/metrics") and status in (401, 429):

@@ -43,7 +43,7 @@ def test_csv_in_csv_out(tmp_path):
     rows = list(csv.DictReader(io.StringIO(out.read_text())))
     assert [row["verdict"] for row in rows] == ["pass", "invalid"]
     assert float(rows[0]["zs_ohm"]) == 0.5066  # Ze 0.28 + R1+R2 0.226584, to 4 decimals
-    assert rows[1]["problem"] == "/1/length_m: Not a number."
+    assert rows[1]["problem"] == "/1/length_m: must be a number"
 
 
 def test_all_pass_exits_0_and_not_verified_exits_4(tmp_path):

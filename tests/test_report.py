@@ -46,7 +46,7 @@ def test_a_circuit_that_did_not_validate_is_listed_with_its_problem():
     body = copy.deepcopy(DEMO)
     body["boards"][2]["circuits"][1]["conductors"]["length_m"] = "far"
     page = rendered(body)
-    assert "/boards/2/circuits/1/conductors/length_m: Not a number." in page
+    assert "/boards/2/circuits/1/conductors/length_m: must be a number" in page
     assert page.count('class="circuit"') == 8
 
 

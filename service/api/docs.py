@@ -14,13 +14,7 @@ from swagger_ui_bundle import swagger_ui_path
 
 blp = flask.Blueprint("docs", __name__)
 
-ASSETS = {
-    "swagger-ui.css",
-    "swagger-ui-bundle.js",
-    "swagger-ui-standalone-preset.js",
-    "favicon-32x32.png",
-    "favicon-16x16.png",
-}
+ASSETS = {"swagger-ui.css", "swagger-ui-bundle.js", "swagger-ui-standalone-preset.js"}
 
 PAGE = """<!doctype html>
 <html lang="en">
@@ -28,7 +22,7 @@ PAGE = """<!doctype html>
 <meta charset="utf-8">
 <title>Faultpath API</title>
 <link rel="stylesheet" href="/docs/assets/swagger-ui.css">
-<link rel="icon" type="image/png" href="/docs/assets/favicon-32x32.png">
+<link rel="icon" type="image/svg+xml" href="/docs/assets/faultpath-icon.svg">
 </head>
 <body>
 <div id="contract"></div>
@@ -36,6 +30,14 @@ PAGE = """<!doctype html>
 <script src="/docs/assets/docs-start.js"></script>
 </body>
 </html>
+"""
+
+# the project's own mark: a fault path stepping down to earth
+ICON = """<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 32 32">
+<rect width="32" height="32" rx="6" fill="#1f5f5b"/>
+<path d="M9 5h9l-4 9h6l-9 13 2-9H8z" fill="#fbfbf8"/>
+<path d="M8 28h16" stroke="#fbfbf8" stroke-width="2"/>
+</svg>
 """
 
 START = """window.addEventListener("load", function () {
@@ -60,6 +62,8 @@ def page():
 def asset(name: str):
     if name == "docs-start.js":
         return flask.Response(START, mimetype="text/javascript")
+    if name == "faultpath-icon.svg":
+        return flask.Response(ICON, mimetype="image/svg+xml", headers={"Cache-Control": "public, max-age=86400"})
     if name not in ASSETS:
         flask.abort(404)
     body, mimetype = _asset(name)

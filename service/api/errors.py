@@ -7,6 +7,7 @@ RFC 6901, into the request body). A 500 logs the traceback under an error id and
 from __future__ import annotations
 
 import logging
+import re
 import uuid
 from collections.abc import Mapping, Sequence
 from http import HTTPStatus
@@ -66,6 +67,49 @@ def core_errors(
     return [{"pointer": pointer_of(err.path, roots, base), "message": err.message}]
 
 
+# The wording of the libraries underneath, in the project's own voice (each message sits beside the pointer of
+# the field it is about, so it says what the field must be).
+VOICE = {
+    "Missing data for required field.": "required: give this field",
+    "Field may not be null.": "may not be null: give a value, or leave the field out where it is optional",
+    "Unknown field.": "not a field of this object: /openapi.json lists its fields",
+    "Not a valid string.": "must be a string",
+    "Not a valid integer.": "must be a whole number",
+    "Not a valid boolean.": "must be true or false",
+    "Not a valid list.": "must be a list",
+    "Not a valid mapping type.": "must be an object",
+    "Invalid input type.": "must be an object",
+    "Not a valid number.": "must be a number",
+    "Not a number.": "must be a number",
+    "Not a finite number.": "must be a finite number",
+    "Invalid value.": "not an allowed value",
+}
+VOICE_PATTERNS = (
+    (
+        re.compile(r"^Must be greater than or equal to (.+) and less than or equal to (.+)\.$"),
+        "must be from {0} to {1}",
+    ),
+    (re.compile(r"^Must be greater than or equal to (.+)\.$"), "must be at least {0}"),
+    (re.compile(r"^Must be less than or equal to (.+)\.$"), "must be at most {0}"),
+    (re.compile(r"^Must be one of: (.+)\.$"), "must be one of: {0}"),
+    (re.compile(r"^Length must be between (.+) and (.+)\.$"), "must hold from {0} to {1} items or characters"),
+    (re.compile(r"^Shorter than minimum length (.+)\.$"), "must hold at least {0} items or characters"),
+    (re.compile(r"^Longer than maximum length (.+)\.$"), "must hold at most {0} items or characters"),
+    (re.compile(r"^Must be equal to (.+)\.$"), "must be {0}"),
+)
+
+
+def voiced(message: str) -> str:
+    """A library's stock sentence in the project's words (the project's own messages pass unchanged)."""
+    if message in VOICE:
+        return VOICE[message]
+    for pattern, wording in VOICE_PATTERNS:
+        found = pattern.match(message)
+        if found:
+            return wording.format(*found.groups())
+    return message
+
+
 def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
     """marshmallow / webargs nested messages as a flat list of ``{pointer, message}``."""
     out: list[dict[str, str]] = []
@@ -80,9 +124,9 @@ def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
             if isinstance(item, (Mapping, list, tuple)):
                 out.extend(flatten(item, base))
             else:
-                out.append({"pointer": base, "message": str(item)})
+                out.append({"pointer": base, "message": voiced(str(item))})
     else:
-        out.append({"pointer": base, "message": str(messages)})
+        out.append({"pointer": base, "message": voiced(str(messages))})
     return out
 
 
@@ -135,6 +179,23 @@ class CoreInputError(HTTPException):
         return cls(core_errors(err, roots, base))
 
 
+DOCS_HINT = "/openapi.json lists every operation."
+STATUS_WORDS = {
+    400: "The request could not be read.",
+    401: "An API key is needed: send it in the X-API-Key header.",
+    403: "This API key may not do this.",
+    404: f"Nothing is served at this path: {DOCS_HINT}",
+    406: "The answer cannot be given in the media type the Accept header asks for.",
+    408: "The request took too long to arrive.",
+    411: "The request needs a Content-Length.",
+    413: "The request body is larger than the service takes.",
+    414: "The request line is longer than the service takes.",
+    415: "Send the body as application/json.",
+    422: "The request body did not validate.",
+    431: "The request's headers are larger than the service takes.",
+}
+
+
 def handle_http_exception(error: HTTPException) -> flask.Response:
     data = getattr(error, "data", None) or {}
     messages = data.get("messages") if isinstance(data, Mapping) else None
@@ -166,6 +227,10 @@ def handle_http_exception(error: HTTPException) -> flask.Response:
         if errors
         else None
     )
+    if error.description == type(error).description:  # the toolkit's stock sentence: ours instead
+        detail = detail or STATUS_WORDS.get(status, HTTPStatus(status).phrase + ".")
+        if status == 405:
+            detail = f"This path takes {error.valid_methods and ', '.join(sorted(error.valid_methods))}: {DOCS_HINT}"
     detail = detail or error.description
     if isinstance(error, CoreInputError):
         detail = error.description

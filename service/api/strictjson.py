@@ -17,8 +17,12 @@ from webargs.flaskparser import FlaskParser, abort
 MAX_INTEGER_DIGITS = 18
 
 
+class _Refused(json.JSONDecodeError):
+    """A refusal worded here (not the json module's own sentence)."""
+
+
 def _reject(message: str, doc: str = " ") -> json.JSONDecodeError:
-    return json.JSONDecodeError(message, doc or " ", 0)
+    return _Refused(message, doc or " ", 0)
 
 
 def _constant(name: str) -> Any:
@@ -58,7 +62,9 @@ def strict_loads(data: bytes | str) -> Any:
             text, parse_constant=_constant, parse_int=_integer, parse_float=_float, object_pairs_hook=_pairs
         )
     except json.JSONDecodeError as exc:
-        raise _reject(exc.msg, text[:80]) from None
+        if isinstance(exc, _Refused):  # raised by the hooks above: already in our words
+            raise _reject(exc.msg, text[:80]) from None
+        raise _reject(f"not JSON at line {exc.lineno}, column {exc.colno}", text[:80]) from None
     except RecursionError:
         raise _reject("the body is nested too deeply") from None
     except ValueError as exc:  # e.g. Python's own limit on integer digits
@@ -75,4 +81,4 @@ class StrictParser(FlaskParser):
 
     def _handle_invalid_json_error(self, error, req, *args, **kwargs):
         message = getattr(error, "msg", str(error))
-        abort(400, messages={"json": {"": [f"Invalid JSON body: {message}"]}})
+        abort(400, messages={"json": {"": [f"the body is not strict JSON: {message}"]}})

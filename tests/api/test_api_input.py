@@ -44,7 +44,7 @@ def assert_problem(response, status, pointer=None):
 def test_strict_json_gives_400(client, text):
     data = text.encode("latin-1") if text.startswith("\xff") else text.encode()
     body = assert_problem(post_raw(client, data), 400, "")
-    assert body["errors"][0]["message"].startswith("Invalid JSON body")
+    assert body["errors"][0]["message"].startswith("the body is not strict JSON")
 
 
 def test_number_as_string_is_422(client):

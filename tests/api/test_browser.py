@@ -94,7 +94,7 @@ def test_the_form_shows_api_errors_next_to_their_fields(browser, base_url):
     browser.find_element(By.ID, "submit").click()
     wait_for(browser, lambda d: d.find_element(By.ID, "err-ze").text != "")
     assert ze.get_attribute("aria-invalid") == "true"
-    assert "greater than or equal to" in browser.find_element(By.ID, "err-ze").text
+    assert "must be from" in browser.find_element(By.ID, "err-ze").text
     assert not browser.find_element(By.ID, "result").is_displayed()
 
 
