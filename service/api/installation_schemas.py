@@ -9,12 +9,12 @@ from marshmallow import Schema, fields, validate
 from ..electrical.columns import CircuitFailure
 from ..electrical.installation import InstallationResult
 from ..electrical.model import Board, Installation, Unread
-from ..electrical.verdicts import VERDICTS, Verdict
+from ..electrical.verdicts import VERDICTS
 from . import fastload
 from .errors import flatten
 from .fields import Flag, Number, Text
 from .helpers import failed_item, invalid_item
-from .result_schemas import BatchItemSchema, nullable_number
+from .result_schemas import BatchItemSchema, BatchSummarySchema, nullable_number
 from .schemas import CircuitSchema, DeviceSchema, ItemProblem, PerItemList, ScopedSchema, SupplySchema
 
 MAX_BOARDS = 500
@@ -131,13 +131,8 @@ class BoardResultSchema(BoardValuesSchema):
     cautions = fields.List(fields.String(), required=True)
 
 
-class InstallationSummarySchema(Schema):
+class InstallationSummarySchema(BatchSummarySchema):
     boards = fields.Integer(required=True)
-    circuits = fields.Integer(required=True)
-    passed = fields.Integer(required=True, data_key=Verdict.PASS)
-    failed = fields.Integer(required=True, data_key=Verdict.FAIL)
-    not_verified = fields.Integer(required=True, data_key=Verdict.NOT_VERIFIED)
-    invalid = fields.Integer(required=True)
 
 
 class InstallationResultSchema(Schema):
