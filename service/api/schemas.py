@@ -65,6 +65,18 @@ class CurvePointSchema(Schema):
     time_s = Number(minimum=0.0001, maximum=1e5, required=True, metadata={"description": "maximum operating time"})
 
 
+def energy_class_field() -> WholeNumber:
+    """The energy-limiting class marked on a breaker (BS EN 60898-1 Annex ZA), for every device schema."""
+    return WholeNumber(
+        minimum=min(ENERGY_CLASSES),
+        maximum=max(ENERGY_CLASSES),
+        metadata={
+            "description": "1, 2 or 3 as marked on a BS EN 60898 / 61009 breaker of type B or C up to 32 A "
+            "(BS EN 60898-1 Annex ZA); default 3, said in the result"
+        },
+    )
+
+
 class RcdSchema(Schema):
     residual_current_ma = Number(minimum=1, maximum=3000, required=True, metadata={"description": "IΔn, mA"})
     delay = choice(residual.delays(), load_default="general", metadata={"description": "general, or S (time-delayed)"})
@@ -94,14 +106,7 @@ class DeviceSchema(Schema):
     let_through_a2s = Number(
         minimum=1, maximum=1e10, metadata={"description": "maker's let-through I^2 t, A^2 s, for times below 0.1 s"}
     )
-    energy_limiting_class = WholeNumber(
-        minimum=min(ENERGY_CLASSES),
-        maximum=max(ENERGY_CLASSES),
-        metadata={
-            "description": "1, 2 or 3 as marked on a BS EN 60898 / 61009 breaker of type B or C up to 32 A "
-            "(BS EN 60898-1 Annex ZA); default 3, said in the result"
-        },
-    )
+    energy_limiting_class = energy_class_field()
 
     ir_a = Number(
         minimum=0.1,

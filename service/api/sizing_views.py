@@ -22,6 +22,7 @@ from .schemas import (
     RcdSchema,
     SupplySchema,
     check_phases,
+    energy_class_field,
     phases_field,
 )
 
@@ -38,6 +39,7 @@ class SizeDeviceSchema(Schema):
     type = choice(DEVICE_TYPES)
     breaking_capacity_ka = Number(minimum=0.1, maximum=200)
     rcd = fields.Nested(RcdSchema)
+    energy_limiting_class = energy_class_field()
 
     @post_load
     def make(self, data, **kwargs):

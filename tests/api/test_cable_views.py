@@ -57,3 +57,24 @@ def test_a_rings_continuity_through_the_api(client):
     tests = {j["test"]: j for j in result["judgements"]}
     assert tests["ring-r1-plus-r2"]["verdict"] == "pass" and tests["ring-r1-plus-r2"]["limit"] == 0.312
     assert "643.2.1" in tests["ring-r2"]["basis"]
+
+
+def test_sizing_takes_the_energy_limiting_class_marked_on_the_breaker(client):
+    # B20 at 10 kA: class 3 lets through 90 000 A2s, class 2 310 000 A2s (BS EN 60898-1 Annex ZA, 16 < In <= 32,
+    # type B, 10 kA column; from memory, tests/data/let-through-energy.csv); 2.5 mm2 copper 70 degC withstands
+    # 115^2 x 2.5^2 = 82 656 A2s and 4 mm2 211 600 A2s (k = 115, BS 7671 Table 43.1), so the class decides the size
+    supply = {"earthing": "TN-C-S", "u0_v": 230, "ze_ohm": 0.05, "prospective_fault_current_ka": 10}
+    body = sizing(supply=supply, design_current_a=20, length_m=20, conditional_short_circuit_ka=16)
+    body["device"] = {"standard": "BS EN 60898", "type": "B", "breaking_capacity_ka": 6}
+
+    def ruled_out(energy_class):
+        body["device"]["energy_limiting_class"] = energy_class
+        out = client.post("/v1/circuits/size", json=body).get_json()
+        tried = {t["line_csa_mm2"]: (t["ruled_out_by"], t["value"]) for t in out["tried"]}
+        return out["selected"]["line_csa_mm2"], tried
+
+    line_3, tried_3 = ruled_out(3)
+    line_2, tried_2 = ruled_out(2)
+    assert tried_3[2.5] == ("short-circuit", 90000.0) and line_3 == 6
+    assert tried_2[2.5] == ("short-circuit", 310000.0) and tried_2[4.0] == ("short-circuit", 310000.0)
+    assert line_2 > line_3
