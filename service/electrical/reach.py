@@ -21,7 +21,7 @@ from .conductors import loop_resistance_per_m
 from .devices.catalogue import resolve
 from .errors import InvalidInput
 from .faults import c_min
-from .model import Circuit, Conductors, DeviceSpec, Supply
+from .model import Circuit, DeviceSpec, Supply
 from .results import CircuitResult
 from .sizing import (
     RULE_CHECKS,
@@ -46,28 +46,10 @@ def size_with_reach(
 ) -> tuple[SizingResult, dict | None]:
     """:func:`size_circuit`, and the longest run of the size chosen (None where no size passes)."""
     result = size_circuit(supply, demand, inst, device)
-    if result.selected is None:
+    if result.circuit is None:
         return result, None
-    chosen = result.selected["check"]
-    conductors = Conductors(
-        "copper",
-        result.selected["insulation"],
-        result.selected["line_csa_mm2"],
-        result.selected["cpc_csa_mm2"],
-        demand.length_m,
-    )
-    circuit = Circuit(
-        device=dataclasses.replace(device, rating_a=result.device["rating_a"]),
-        conductors=conductors,
-        role=demand.role,
-        load=demand.load,
-        id=chosen.id,
-        design_current_a=result.design_current_a,
-        installation=inst,
-        phases=demand.phases,
-        conditional_short_circuit_ka=demand.conditional_short_circuit_ka,
-    )
-    return result, max_length(supply, circuit, inst, demand)
+    # the very circuit the sizing checked: its material, cpc (armour), ring, parallel cables and limits
+    return result, max_length(supply, result.circuit, inst, demand)
 
 
 def ruling(supply: Supply, circuit: Circuit, lengths: Any) -> list[tuple[str | None, float]]:

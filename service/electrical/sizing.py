@@ -102,6 +102,7 @@ class SizingResult:
     selected: dict[str, Any] | None
     tried: list[SizeTried]
     cautions: list[str] = field(default_factory=list)
+    circuit: Circuit | None = None  # the chosen size's circuit, as checked (the longest run searches on it)
 
 
 def design_current(demand: Demand, u0_v: float) -> float:
@@ -292,8 +293,8 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
         outcomes = check_circuits(dataclasses.replace(supply, supply_kind=demand.supply_kind), circuits)
     lenient = _never_shown(outcomes)
     tried: list[SizeTried] = []
-    selected = None
-    for (size, cpc), outcome in zip(rows, outcomes, strict=True):
+    selected = chosen = None
+    for (size, cpc), circuit, outcome in zip(rows, circuits, outcomes, strict=True):
         if isinstance(outcome, CircuitFailure):
             tried.append(SizeTried(size.csa_mm2, cpc, Verdict.NOT_VERIFIED, outcome.field, None, None, None))
             continue
@@ -324,6 +325,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
                 "voltage_drop": vd,
                 "check": outcome,
             }
+            chosen = circuit
             break
         rule = precision.rule_for_unit(unit) if unit != "%" else precision.RULES["percent"]
         value, limit = (None if v is None else float(precision.rounded(v, rule)) for v in (value, limit))
@@ -334,6 +336,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
         selected=selected,
         tried=tried,
         cautions=_sizing_cautions(selected, inst, lenient, outcomes) + _arrangement_cautions(demand),
+        circuit=chosen,
     )
 
 

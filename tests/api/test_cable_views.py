@@ -78,3 +78,29 @@ def test_sizing_takes_the_energy_limiting_class_marked_on_the_breaker(client):
     assert tried_3[2.5] == ("short-circuit", 90000.0) and line_3 == 6
     assert tried_2[2.5] == ("short-circuit", 310000.0) and tried_2[4.0] == ("short-circuit", 310000.0)
     assert line_2 > line_3
+
+
+def test_a_buried_three_core_armoured_cable_with_its_armour_as_cpc_sizes_and_reaches(client):
+    # 3 cables touching direct in the ground: Table 4C2 0.65 and Table 4B3 1.28 at 1.5 K m/W (BS 7671, both from
+    # memory); the armour of a 3-core 6 mm2 cable, 24 mm2 of steel, is no IEC 60228 size: it must be taken as steel
+    # in the longest run as in the checks (it once came back 422 naming /cpc_csa_mm2)
+    supply = {"earthing": "TN-S", "u0_v": 230, "ze_ohm": 0.35, "prospective_fault_current_ka": 3}
+    body = sizing(supply=supply, load="fixed-equipment", design_current_a=32, length_m=40, cpc="armour", cores=3)
+    body["installation"] = {
+        "cable": "multicore-armoured-90c",
+        "installation_method": "D",
+        "grouping": "buried-direct",
+        "grouped_circuits": 3,
+        "buried_spacing": "touching",
+        "soil_resistivity_k_m_per_w": 1.5,
+    }
+    body["device"] = {"standard": "BS EN 60898", "type": "B", "breaking_capacity_ka": 6}
+    response = client.post("/v1/circuits/size", json=body)
+    assert response.status_code == 200, response.get_json()
+    out = response.get_json()
+    chosen = out["selected"]
+    assert (chosen["line_csa_mm2"], chosen["cpc_csa_mm2"], chosen["cpc"]) == (6, 24, "armour")
+    factors = chosen["capacity"]["factors"]
+    assert factors["grouping"]["factor"] == 0.65 and "Table 4C2" in factors["grouping"]["basis"]
+    assert factors["soil"]["factor"] == 1.28 and "Table 4B3" in factors["soil"]["basis"]
+    assert out["max_length"]["max_length_m"] >= body["length_m"]

@@ -97,6 +97,42 @@ def test_size_with_reach_gives_the_run_of_the_size_chosen():
     assert reach["max_length_m"] == pytest.approx(11.5 * 1000 / (11 * 24), abs=0.01)  # as by hand above
 
 
+THREE_PHASE = Supply(
+    "TN-S",
+    230,
+    0.35,
+    prospective_fault_current_ka=3,
+    line_neutral_loop_ohm=0.2,
+    phases=3,
+    three_phase_fault_current_ka=6,
+)
+
+
+def test_the_run_of_a_size_chosen_with_armour_as_its_cpc_takes_the_armours_resistance():
+    # gG 80 A within 5 s at 403.5 A (tests/data/fuse-operating-currents.csv, BS 7671 Table 41.4): max Zs =
+    # 0.95 x 230 / 403.5 = 0.54154 ohm. 16 mm2 copper at 90 degC: 1.15 x 1.28 = 1.472 mohm/m (IEC 60228 Table 2,
+    # BS 7671 Appendix 3); its 4-core armour 50 mm2 of steel (service/electrical/data/armour_resistance.json):
+    # 0.138 / 50 x 1000 x 1.1 = 3.036 mohm/m at 20 degC, x 1.24 at 80 degC (Table 54.4's initial temperature)
+    # L = (0.54154 - 0.35) / ((1.472 + 3.7646) / 1000) = 36.58 m; copper of 50 mm2 in its place gave 97 m
+    demand = Demand(length_m=30, design_current_a=80, role="distribution", phases=3, cpc="armour", cores=4)
+    inst = CableRun("multicore-armoured-90c", "C")
+    result, reach = size_with_reach(THREE_PHASE, demand, inst, DeviceSpec(rating_a=1, standard="BS 88-2", type="gG"))
+    assert (result.selected["line_csa_mm2"], result.selected["cpc_csa_mm2"]) == (16, 50)
+    by_hand = (0.95 * 230 / 403.5 - 0.35) / ((1.15 * 1.28 + 0.138 / 50 * 1000 * 1.1 * 1.24) / 1000)
+    assert reach["max_length_m"] == pytest.approx(by_hand, abs=0.02) and reach["limited_by"] == "disconnection-time"
+
+
+def test_the_run_of_an_aluminium_size_chosen_takes_aluminiums_resistance():
+    # gG 100 A within 5 s at 500 A (tests/data/fuse-operating-currents.csv): max Zs = 0.95 x 230 / 500 = 0.437 ohm;
+    # 70 mm2 aluminium line and core at 90 degC: 2 x 0.443 x 1.28 = 1.13408 mohm/m (IEC 60228 Table 2)
+    # L = (0.437 - 0.35) / 1.13408e-3 = 76.71 m; copper in its place gave 127 m
+    demand = Demand(length_m=60, design_current_a=100, load="fixed-equipment", phases=3)
+    inst = CableRun("multicore-armoured-90c-aluminium", "C")
+    result, reach = size_with_reach(THREE_PHASE, demand, inst, DeviceSpec(rating_a=1, standard="BS 88-2", type="gG"))
+    assert result.selected["material"] == "aluminium" and result.selected["line_csa_mm2"] == 70
+    assert reach["max_length_m"] == pytest.approx((0.95 * 230 / 500 - 0.35) / (2 * 0.443 * 1.28 / 1000), abs=0.02)
+
+
 RCD_DEVICES = [
     DeviceSpec(rating_a=r, standard="BS EN 61009", type=t, breaking_capacity_ka=6, rcd=Rcd(30))
     for t in "BC"
