@@ -10,7 +10,7 @@ import dataclasses
 from marshmallow import Schema, ValidationError, fields, validate, validates_schema
 
 from ..electrical import conductors as cond
-from ..electrical import protective
+from ..electrical import precision, protective
 from ..electrical.devices.characteristic import BOUNDS
 from ..electrical.errors import ElectricalError
 from ..electrical.faults import fault_current as fault_current_of
@@ -43,9 +43,10 @@ BLUEPRINTS = (fault_blp, disconnection_blp, max_zs_blp, protective_blp)
 
 
 def _answer(ask, *args, **kwargs):
-    """The core's answer as a plain dict; its typed errors as a 422 naming the field."""
+    """The core's answer as a plain dict, each number to the precision its unit carries (the rules of
+    ``precision``, as in every circuit result); its typed errors as a 422 naming the field."""
     try:
-        return dataclasses.asdict(ask(*args, **kwargs))
+        return precision.rounded_record(dataclasses.asdict(ask(*args, **kwargs)))
     except ElectricalError as err:
         raise CoreInputError.of(err) from None
 

@@ -61,7 +61,7 @@ def test_gunicorn_serves_and_metrics_add_up_across_workers(server):
     base, proc = server
     for _ in range(30):
         status, headers, body = post(base + "/v1/fault-current", {"u0_v": 230, "zs_ohm": 0.8})
-        assert status == 200 and body["earth_fault_current_a"] == 273.125
+        assert status == 200 and body["earth_fault_current_a"] == 273.1
     assert headers["Server"] == "faultpath"
     with urllib.request.urlopen(base + "/metrics", timeout=5) as r:
         text = r.read().decode()
