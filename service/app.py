@@ -37,6 +37,7 @@ from .api import (
     web,
 )
 from .api.coalesce import Coalescer
+from .electrical import precision
 from .settings import Settings
 
 API_VERSION = "1.0.0"
@@ -157,9 +158,13 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
         API_SPEC_OPTIONS={
             "info": {
                 "description": (
-                    "Earth fault loop, disconnection time and protective conductor checks to BS 7671 / IEC 60364. "
+                    "Checks, for each circuit of an installation to BS 7671 / IEC 60364, that every protection the "
+                    "rules require is in place: earth fault disconnection and max Zs (Chapter 41), the protective "
+                    "conductor (543.1), overload (433.1), short circuit (434.5.2), breaking capacity (434.5.1), "
+                    "voltage drop from the origin (525) and selectivity (536.4); sizing, the longest run, measured "
+                    "test results and whole installations. A check the data cannot make is not-verified. "
                     "Results support a competent person and do not replace one; "
-                    "the current standard and local codes prevail."
+                    "the current standard and local codes prevail. " + precision.summary()
                 )
             },
             "servers": [{"url": "/"}],

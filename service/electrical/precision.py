@@ -33,6 +33,34 @@ UNITS = {"ohm": "ohm", "A": "a", "kA": "ka", "s": "s", "A2s": "a2s", "mm2": "mm2
 _BY_NAME = {"k": "k", "k_formula": "k", "k_tabulated": "k", "margin_percent": "margin_percent"}
 
 
+NAMES = {
+    "ohm": "ohms",
+    "a": "currents (A)",
+    "ka": "kA",
+    "s": "times",
+    "a2s": "energies (A2s)",
+    "margin_percent": "margins (%)",
+    "percent": "other percentages",
+    "mm2": "sizes (mm2)",
+    "k": "k",
+    "v": "volts",
+    "c": "temperatures (degC)",
+    "mv_per_a_m": "mV/A/m",
+    "m": "lengths (m)",
+}
+
+
+def summary() -> str:
+    """The rules in one sentence, for the contract (``info.description``)."""
+    said = [
+        f"{NAMES[key]} to {n} " + ("decimal" if kind == "decimals" else "significant figure") + ("s" if n > 1 else "")
+        for key, (kind, n) in RULES.items()
+    ]
+    return (
+        "Numbers in results carry the precision the data support, by the unit in their name: " + "; ".join(said) + "."
+    )
+
+
 def rule_for(name: str) -> tuple[str, int] | None:
     """The rule for a field called ``name`` (None where its name carries no unit: kept as it is)."""
     if name in _BY_NAME:

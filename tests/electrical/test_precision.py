@@ -22,3 +22,9 @@ def test_rounding_removes_the_noise():
     assert precision.rounded([0.87561234, 1234.567, 0.0], ("significant", 3)).tolist() == [0.876, 1230.0, 0.0]
     out = precision.rounded([np.nan, np.inf], ("decimals", 2))
     assert np.isnan(out[0]) and np.isinf(out[1])
+
+
+def test_the_contract_sentence_names_every_rule():
+    sentence = precision.summary()
+    assert "ohms to 4 decimals" in sentence and "times to 3 significant figures" in sentence
+    assert "currents (A) to 1 decimal;" in sentence and sentence.count(" to ") == len(precision.RULES)
