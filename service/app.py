@@ -144,6 +144,19 @@ def spec_dict(api: Api) -> dict[str, Any]:
     return spec
 
 
+def contract_description() -> str:
+    """What the service does, its cautions and the precision of its numbers: the contract's ``info.description``."""
+    return (
+        "Checks, for each circuit of an installation to BS 7671 / IEC 60364, that every protection the "
+        "rules require is in place: earth fault disconnection and max Zs (Chapter 41), the protective "
+        "conductor (543.1), overload (433.1), short circuit (434.5.2), breaking capacity (434.5.1), "
+        "voltage drop from the origin (525) and selectivity (536.4); sizing, the longest run, measured "
+        "test results and whole installations. A check the data cannot make is not-verified. "
+        "Results support a competent person and do not replace one; "
+        "the current standard and local codes prevail. " + precision.summary()
+    )
+
+
 def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     """Build the service. ``config`` overrides the environment (used by tests)."""
     config = dict(config or {})
@@ -155,20 +168,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
         OPENAPI_VERSION="3.1.0",
         OPENAPI_URL_PREFIX="/",
         OPENAPI_JSON_PATH="openapi.json",
-        API_SPEC_OPTIONS={
-            "info": {
-                "description": (
-                    "Checks, for each circuit of an installation to BS 7671 / IEC 60364, that every protection the "
-                    "rules require is in place: earth fault disconnection and max Zs (Chapter 41), the protective "
-                    "conductor (543.1), overload (433.1), short circuit (434.5.2), breaking capacity (434.5.1), "
-                    "voltage drop from the origin (525) and selectivity (536.4); sizing, the longest run, measured "
-                    "test results and whole installations. A check the data cannot make is not-verified. "
-                    "Results support a competent person and do not replace one; "
-                    "the current standard and local codes prevail. " + precision.summary()
-                )
-            },
-            "servers": [{"url": "/"}],
-        },
+        API_SPEC_OPTIONS={"info": {"description": contract_description()}, "servers": [{"url": "/"}]},
         MAX_CONTENT_LENGTH=settings.max_body_bytes,
         FAULTPATH_BATCH_LIMIT=settings.batch_limit,
         FAULTPATH_COALESCE_MS=settings.coalesce_ms,

@@ -3,6 +3,7 @@
 import pytest
 
 from tests.api.hostile_cases import body_of, cases, judge
+from tests.api.test_voice import STOCK
 
 CASES = cases()
 
@@ -14,6 +15,8 @@ def test_hostile_case(client, name, case):
         kwargs["content_type"] = case["content_type"]
     response = client.open(case["path"], method=case["method"], **kwargs)
     assert judge(case, response.status_code, response.content_type or "", response.data) == []
+    said = response.get_data(as_text=True)
+    assert not any(stock in said for stock in STOCK), said[:300]  # in the project's own words (test_voice.py)
 
 
 def test_the_corpus_covers_the_issue():
