@@ -227,14 +227,14 @@ def lost_items(rounds: int) -> None:
         with lock:
             sent += 1000
             bad_sent += 100
-            if status != 200:
-                errors.append(str(status))
+            try:
+                seen, problems = accounted(status, payload)
+            except (KeyError, TypeError, ValueError) as err:  # a batch that did not answer as the contract says
+                errors.append(f"{status}: {err!r}")
                 lost += 1000
                 return
-            results = json.loads(payload)["results"]
-            seen = [r["index"] for r in results if ("result" in r) != ("problem" in r)]
-            lost += 1000 - len(set(seen) & set(range(1000)))
-            problems_back += sum(1 for r in results if "problem" in r)
+            lost += 1000 - len(seen & set(range(1000)))
+            problems_back += problems
 
     try:
         threads = [threading.Thread(target=one, args=(seed,)) for seed in range(rounds)]
@@ -248,8 +248,19 @@ def lost_items(rounds: int) -> None:
         "lost batch items",
         f"{sent:,} items sent in {rounds} concurrent batches, {bad_sent:,} of them bad: "
         f"{problems_back:,} problems came back, {lost} items lost, {len(errors)} failed batches",
-        lost == 0 and not errors,
+        lost == 0 and not errors and problems_back == bad_sent,
     )
+
+
+def accounted(status: int, payload: bytes) -> tuple[set[int], int]:
+    """The indexes a lean batch answer accounts for (a result, or an item marked invalid with its problem)
+    and the number of problems; raises where the answer is not a 200 in the contract's lean form."""
+    if status != 200:
+        raise ValueError(f"status {status}")
+    answer = json.loads(payload)
+    columns, problems = answer["columns"], {p["index"] for p in answer["problems"]}
+    seen = {i for i, v in zip(columns["index"], columns["verdict"], strict=True) if (v == "invalid") == (i in problems)}
+    return seen, len(problems)
 
 
 def main() -> int:
