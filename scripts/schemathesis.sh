@@ -4,4 +4,4 @@
 set -eu
 cd "$(dirname "$0")/.."
 export FAULTPATH_SCHEMATHESIS_EXAMPLES="${1:-1000}"
-exec sh scripts/test.sh tests/test_schemathesis.py -q
+exec sh scripts/test.sh tests/api/test_schemathesis.py -q
