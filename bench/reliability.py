@@ -116,10 +116,11 @@ def run_schemathesis(examples: int) -> None:
     tail = out.stdout.strip().splitlines()[-1] if out.stdout.strip() else out.stderr[-300:]
     passed = int(m.group(1)) if (m := re.search(r"(\d+) passed", tail)) else 0
     failed = int(m.group(1)) if (m := re.search(r"(\d+) failed", tail)) else 0
+    failing = [line for line in out.stdout.splitlines() if line.startswith("FAILED")]
     say(
         "schemathesis, every operation, positive and negative generation",
         f"{examples} examples per operation and mode; {passed} operation runs passed, {failed} failed "
-        f"({time.monotonic() - started:.0f} s): {tail}",
+        f"({time.monotonic() - started:.0f} s): {tail}" + "".join(f"\n    {line[:300]}" for line in failing),
         out.returncode == 0,
     )
 

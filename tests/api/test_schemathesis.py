@@ -53,7 +53,12 @@ NEGATIVE_CHECKS = [
 ]
 
 
-PER_ITEM = ("/v1/circuits/check-batch", "/v1/test-results/verify", "/v1/installations/check")
+PER_ITEM = (
+    "/v1/circuits/check-batch",
+    "/v1/test-results/verify",
+    "/v1/installations/check",
+    "/v1/installations/report",  # the same body as installations/check, as a printable page
+)
 
 
 @NEGATIVE.parametrize()
@@ -80,5 +85,9 @@ def test_every_operation_rejects_invalid_input(case):
         else:  # the lean table: one cell per item in every column
             assert answer["columns"]["index"] == list(range(len(body["circuits"])))
     if response.status_code == 200 and isinstance(body.get("boards"), list):
+        if content_type.startswith("text/html"):  # the report: one row per circuit sent, checked or not
+            sent = sum(len(b.get("circuits") or []) for b in body["boards"] if isinstance(b, dict))
+            assert response.text.count('<tr class="circuit"') == sent
+            return
         for board in response.json()["boards"]:
             assert all(("result" in r) != ("problem" in r) for r in board["circuits"])
