@@ -277,6 +277,18 @@ def _rating(device: DeviceSpec, ib: float, ring: bool = False) -> float:
     return ratings[0]
 
 
+def _drop_record(vd: dict[str, Any]) -> dict[str, Any]:
+    """The circuit's own voltage drop as a sizing result gives it (from the voltage-drop check's detail)."""
+    return {
+        "mv_per_a_m": vd["mv_per_a_m"],
+        "basis": vd["mv_basis"],
+        "drop_v": vd["drop_v"],
+        "percent": vd["circuit_percent"],
+        "limit_percent": vd["limit_percent"],
+        "limit_basis": vd["limit_basis"],
+    }
+
+
 def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec) -> SizingResult:
     """The smallest device rating >= Ib and the smallest line conductor and cpc that pass every check.
 
@@ -300,15 +312,6 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
             continue
         name, value, limit, unit = ruled_out_by(outcome, lenient)
         if name is None:
-            vd = outcome.voltage_drop
-            vd = {
-                "mv_per_a_m": vd["mv_per_a_m"],
-                "basis": vd["mv_basis"],
-                "drop_v": vd["drop_v"],
-                "percent": vd["circuit_percent"],
-                "limit_percent": vd["limit_percent"],
-                "limit_basis": vd["limit_basis"],
-            }
             overload = outcome.overload
             capacity = Capacity(
                 overload["it_a"], overload["iz_a"], overload["factors"], overload["capacity_confidence"]
@@ -322,7 +325,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
                 "material": outcome_material(circuits, size.csa_mm2),
                 "insulation": insulation,
                 "capacity": capacity,
-                "voltage_drop": vd,
+                "voltage_drop": _drop_record(outcome.voltage_drop),
                 "check": outcome,
             }
             chosen = circuit
