@@ -17,7 +17,7 @@ import numpy as np
 from . import protective
 from .arrays import as_float, map_column, scalar_io
 from .datafiles import core_table
-from .errors import InvalidInput, UnknownConductor
+from .errors import InvalidInput, NoRule, UnknownConductor
 from .model import Conductors
 
 MATERIALS = ("copper", "aluminium")
@@ -216,22 +216,32 @@ def constants_of(
     return tuple(float(v) for v in numbers) + (case["table"], cpc_mat)
 
 
-def armour_resistance_mohm_per_m(insulation: str, line_csa_mm2: float, cores: int) -> float:
-    """Steel wire armour resistance at 20 degC, mohm/m: rho20 / area x the a.c. factor (data/armour_resistance.json).
+def armour_area_mm2(insulation: str, line_csa_mm2: float, cores: int | None) -> float:
+    """The steel wire armour's cross-section, mm2, of a BS 5467 armoured cable (data/armour_resistance.json).
 
-    BS 5467 (thermosetting) cables of 2, 3 or 4 cores; raises InvalidInput naming ``cores`` or the size otherwise.
+    Raises InvalidInput naming ``cpc_resistance_mohm_per_m`` for other insulation (the maker's figure is
+    needed), InvalidInput naming ``cores`` without 2, 3 or 4 cores, and NoRule naming ``line_csa_mm2`` for a size
+    the table does not hold.
     """
     table = core_table("armour_resistance")
     if insulation != table["insulation"]:
         raise InvalidInput(
             "cpc_resistance_mohm_per_m", "armour data are for thermosetting (BS 5467) cables: give the maker's"
         )
-    if str(cores) not in table["armour_area_mm2"]:
-        raise InvalidInput("cores", f"armour data are for {sorted(table['armour_area_mm2'])} cores")
+    if cores is None or str(cores) not in table["armour_area_mm2"]:
+        raise InvalidInput(
+            "cores", f"armour as the cpc needs the cable's cores, one of {sorted(table['armour_area_mm2'])}"
+        )
     sizes = [float(s) for s in table["csa_mm2"]]
     if float(line_csa_mm2) not in sizes:
-        raise InvalidInput("line_csa_mm2", f"armour data are for {sizes} mm2")
-    area = table["armour_area_mm2"][str(cores)][sizes.index(float(line_csa_mm2))]
+        raise NoRule("line_csa_mm2", f"armour data are for {sizes} mm2")
+    return float(table["armour_area_mm2"][str(cores)][sizes.index(float(line_csa_mm2))])
+
+
+def armour_resistance_mohm_per_m(insulation: str, line_csa_mm2: float, cores: int) -> float:
+    """Steel wire armour resistance at 20 degC, mohm/m: rho20 / area x the a.c. factor (data/armour_resistance.json)."""
+    table = core_table("armour_resistance")
+    area = armour_area_mm2(insulation, line_csa_mm2, cores)
     return table["steel_rho20_ohm_mm2_per_m"] / area * 1000.0 * table["ac_factor"]
 
 

@@ -17,6 +17,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from . import capacity as cap
+from . import conductors as cond
 from . import precision
 from .circuit import check_circuits
 from .columns import CircuitFailure, device_problem
@@ -120,7 +121,10 @@ def cpc_for(cable: str, line_csa_mm2: float, cpc: str = "cable", cores: int | No
     """The cpc a cable family gives: its own (twin and earth), a core (multicore), or Table 54.7 (single-core);
     or the armour of an armoured multicore cable (its cross-section, data/armour_resistance.json)."""
     if cpc == "armour":
-        return armour_area_mm2(cable, line_csa_mm2, cores)
+        insulation = cap.cable_table(cable)["insulation"]
+        if "armoured" not in cable or insulation != core_table("armour_resistance")["insulation"]:
+            raise InvalidInput("cpc", f"armour data are for thermosetting armoured multicore cables, not {cable}")
+        return cond.armour_area_mm2(insulation, line_csa_mm2, cores)
     rule = cap.cable_table(cable)["cpc"]
     if rule["kind"] == "sheath":
         raise InvalidInput("cable", f"{cable}: the sheath is the cpc and its resistance is the maker's")
@@ -132,19 +136,6 @@ def cpc_for(cable: str, line_csa_mm2: float, cpc: str = "cable", cores: int | No
     if rule["kind"] == "core":
         return float(line_csa_mm2)
     return float(selection_csa_mm2(line_csa_mm2))
-
-
-def armour_area_mm2(cable: str, line_csa_mm2: float, cores: int | None) -> float:
-    """The steel wire armour's cross-section of an armoured multicore cable of this size and cores."""
-    table = core_table("armour_resistance")
-    if "armoured" not in cable or cap.cable_table(cable)["insulation"] != table["insulation"]:
-        raise InvalidInput("cpc", f"armour data are for thermosetting armoured multicore cables, not {cable}")
-    if cores is None or str(cores) not in table["armour_area_mm2"]:
-        raise InvalidInput("cores", f"armour as the cpc needs the cable's cores: {sorted(table['armour_area_mm2'])}")
-    sizes = [float(x) for x in table["csa_mm2"]]
-    if float(line_csa_mm2) not in sizes:
-        raise NoRule("line_csa_mm2", f"no armour data for {line_csa_mm2:g} mm2")
-    return float(table["armour_area_mm2"][str(cores)][sizes.index(float(line_csa_mm2))])
 
 
 def check_arrangement(demand: Demand) -> None:
@@ -322,7 +313,7 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
                 "cpc": demand.cpc,
                 "parallel_cables": demand.parallel_cables,
                 "ring": demand.ring,
-                "material": outcome_material(circuits, size.csa_mm2),
+                "material": circuit.conductors.material,
                 "insulation": insulation,
                 "capacity": capacity,
                 "voltage_drop": _drop_record(outcome.voltage_drop),
@@ -341,11 +332,6 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
         cautions=_sizing_cautions(selected, inst, lenient, outcomes) + _arrangement_cautions(demand),
         circuit=chosen,
     )
-
-
-def outcome_material(circuits: list[Circuit], csa_mm2: float) -> str:
-    """The conductor material of the size chosen (the cable family's)."""
-    return next(c.conductors.material for c in circuits if c.conductors and c.conductors.line_csa_mm2 == csa_mm2)
 
 
 def _never_shown(outcomes: list) -> frozenset[str]:
