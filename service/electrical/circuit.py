@@ -86,18 +86,28 @@ def check_circuits(
     ``scope`` names the checks the overall verdict covers (all by default); ``exact`` keeps numbers unrounded
     (for searches that need fine margins).
     """
+    good, failures, checked = checked_run(supply, circuits)
+    out: list[CircuitResult | CircuitFailure | None] = [None] * len(circuits)
+    for failure in failures:
+        out[failure.index] = failure
+    if checked is not None:
+        for i, result in zip(good, assemble(checked, scope, exact), strict=True):
+            out[i] = result
+    return out  # type: ignore[return-value]
+
+
+def checked_run(
+    supply: Supply | Sequence[Supply], circuits: Sequence[Circuit]
+) -> tuple[list[int], list[CircuitFailure], Checked | None]:
+    """The pipeline over the circuits the rules cover: their positions, a failure for each of the others, and
+    the checked arrays (None where no circuit could be checked). ``supply``: one for all, or one per circuit."""
     supplies = [supply] * len(circuits) if isinstance(supply, Supply) else list(supply)
     if len(supplies) != len(circuits):
         raise InvalidInput("supply", "give one supply, or one per circuit")
     good, failures = prepare(supplies, circuits)
-    out: list[CircuitResult | CircuitFailure | None] = [None] * len(circuits)
-    for failure in failures:
-        out[failure.index] = failure
-    if good:
-        cols = columns_of([supplies[i] for i in good], [circuits[i] for i in good])
-        for i, result in zip(good, assemble(check_columns(cols), scope, exact), strict=True):
-            out[i] = result
-    return out  # type: ignore[return-value]
+    if not good:
+        return good, failures, None
+    return good, failures, check_columns(columns_of([supplies[i] for i in good], [circuits[i] for i in good]))
 
 
 def check_circuit(supply: Supply, circuit: Circuit, scope: Sequence[str] | None = None) -> CircuitResult:

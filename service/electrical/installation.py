@@ -21,8 +21,8 @@ from typing import Any
 
 from . import boards as bv
 from . import precision, verdicts
-from .circuit import check_circuits, check_columns
-from .columns import CircuitFailure, columns_of, prepare
+from .circuit import check_circuits, checked_run
+from .columns import CircuitFailure
 from .errors import InvalidInput
 from .model import Circuit, Installation, Supply, Unread
 from .results import GENERAL_CAUTIONS, CircuitResult
@@ -151,11 +151,10 @@ def _feed_loops(
         supplies.append(dataclasses.replace(inst.supply, phases=tree.phases[pb]))
         items.append(circuit)
         boards_fed.append(child)
-    good, failures = prepare(supplies, items)
+    good, failures, checked = checked_run(supplies, items)
     for failure in failures:
         failed[boards_fed[failure.index]] = f"{failure.field}: {failure.message}"
-    if good:
-        checked = check_columns(columns_of([supplies[i] for i in good], [items[i] for i in good]))
+    if checked is not None:
         for j, i in enumerate(good):
             loops[boards_fed[i]] = _feed_loop(checked, j)
     return loops, failed

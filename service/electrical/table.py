@@ -17,8 +17,8 @@ from typing import Any
 import numpy as np
 
 from . import precision, verdicts
-from .circuit import Checked, check_columns
-from .columns import CircuitFailure, columns_of, prepare
+from .circuit import Checked, checked_run
+from .columns import CircuitFailure
 from .model import Circuit, Supply
 from .results import lists_of, verdict_scopes
 
@@ -176,10 +176,7 @@ def check_table(
     exact: bool = False,
 ) -> TablePart:
     """:func:`~service.electrical.circuit.check_circuits` in the lean form."""
-    supplies = [supply] * len(circuits) if isinstance(supply, Supply) else list(supply)
-    good, failures = prepare(supplies, circuits)
-    if not good:
+    good, failures, checked = checked_run(supply, circuits)
+    if checked is None:
         return TablePart(None, good, failures)
-    checked = check_columns(columns_of([supplies[i] for i in good], [circuits[i] for i in good]))
-    columns = columns_of_checked(checked, good, texts, devices, scope, exact)
-    return TablePart(columns, good, failures)
+    return TablePart(columns_of_checked(checked, good, texts, devices, scope, exact), good, failures)
