@@ -9,6 +9,7 @@ from ..electrical.circuit import check_circuits
 from ..electrical.columns import CircuitFailure
 from ..electrical.devices.catalogue import resolve
 from ..electrical.verdicts import COUNTED
+from ..electrical.verdicts import summary as verdicts_summary
 from ..picture import characteristic_svg
 from . import metrics
 from .base import Blueprint
@@ -122,11 +123,7 @@ class Counts:
         metrics.count_verdicts(verdicts)
 
     def summary(self, n):
-        return {
-            "circuits": n,
-            **{str(k): v for k, v in self.verdicts.items()},
-            "invalid": n - sum(self.verdicts.values()),
-        }
+        return verdicts_summary(self.verdicts, n)
 
 
 def _checked(body, items, offset, counts):

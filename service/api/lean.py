@@ -2,16 +2,17 @@
 
 from __future__ import annotations
 
+from collections import Counter
 from collections.abc import Sequence
 from typing import Any
 
 from marshmallow import Schema, fields, validate
 
+from ..electrical import verdicts
 from ..electrical.checks import CHECKS, UNITS
 from ..electrical.columns import CircuitFailure
 from ..electrical.results import GENERAL_CAUTIONS
 from ..electrical.table import Interned, add_problem, check_table, column_names, empty_columns, extend
-from ..electrical.verdicts import COUNTED
 from . import metrics
 from .errors import ProblemSchema
 from .helpers import failed_item, invalid_item
@@ -78,8 +79,7 @@ def lean_answer(supply: Any, items: Sequence[Any], scope: Sequence[str] | None) 
         _merge(table, part, places, chunk, start, problems)
     counted = [v for v in table["verdict"] if v != "invalid"]
     metrics.count_verdicts(counted)
-    summary = {"circuits": len(items), **{str(v): counted.count(str(v)) for v in COUNTED}}
-    summary["invalid"] = len(items) - len(counted)
+    summary = verdicts.summary(Counter(counted), len(items))
     steps = [{"check": name, "unit": UNITS[name]} for name in CHECKS]
     return {
         "form": "lean",

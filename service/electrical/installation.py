@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import dataclasses
 import math
+from collections import Counter
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from typing import Any
@@ -334,7 +335,4 @@ def _board_result(inst, tree, b, values, demand, results, not_checked, exact) ->
 def _summary(out: list[BoardResult]) -> dict[str, int]:
     items = [r for board in out for r in board.circuits]
     counted = [r.verdict for r in items if isinstance(r, CircuitResult)]
-    summary = {"boards": len(out), "circuits": len(items)}
-    summary.update({str(v): counted.count(v) for v in verdicts.COUNTED})
-    summary["invalid"] = len(items) - len(counted)
-    return summary
+    return {"boards": len(out), **verdicts.summary(Counter(counted), len(items))}

@@ -7,7 +7,7 @@ verdict of several checks is then their maximum.
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Iterable, Mapping
 from enum import StrEnum
 from typing import Any
 
@@ -26,6 +26,12 @@ NOT_VERIFIED = np.int8(1)
 FAIL = np.int8(2)
 CODE_OF = {v: np.int8(i) for i, v in enumerate(VERDICTS)}
 COUNTED = (Verdict.PASS, Verdict.FAIL, Verdict.NOT_VERIFIED)  # the order summaries count them in
+
+
+def summary(counted: Mapping[str, int], circuits: int) -> dict[str, int]:
+    """A batch's summary: the circuits sent, how many came to each verdict, and the rest as ``invalid``."""
+    counts = {str(v): int(counted.get(v, 0)) for v in COUNTED}
+    return {"circuits": circuits, **counts, "invalid": circuits - sum(counts.values())}
 
 
 def codes(values: Any) -> np.ndarray:
