@@ -78,3 +78,35 @@ def test_graceful_shutdown(server):
     lines = [json.loads(row) for row in output.splitlines() if row.startswith("{")]
     assert lines, "the access log wrote no JSON line (the fixture's /readyz request should be there)"
     assert all({"time", "request_id", "method", "path", "status", "duration_ms"} <= set(row) for row in lines)
+
+
+def test_a_worker_with_every_thread_busy_leaves_new_connections_to_its_siblings(monkeypatch):
+    """gunicorn accepts while nr_conns < worker_connections: the worker reports no room while its threads
+    are all taken, and its configured room again as soon as one is free (failures included)."""
+    from gunicorn.config import Config
+    from gunicorn.workers.gthread import ThreadWorker
+
+    from service.serving import BalancedThreadWorker
+
+    cfg = Config()
+    cfg.set("threads", 2)
+    cfg.set("worker_connections", 1000)
+    worker = BalancedThreadWorker(0, os.getpid(), [], None, 30, cfg, None)
+    worker.tmp.close()  # the heartbeat file a worker makes; this one never runs
+    monkeypatch.setattr(ThreadWorker, "enqueue_req", lambda self, conn: None)
+
+    def handle(self, conn):
+        if conn == "broken":
+            raise OSError("reset by peer")
+
+    monkeypatch.setattr(ThreadWorker, "handle", handle)
+    assert worker.worker_connections == 1000
+    worker.enqueue_req("a")
+    assert worker.worker_connections == 1000
+    worker.enqueue_req("broken")
+    assert worker.worker_connections == 0
+    with pytest.raises(OSError):
+        worker.handle("broken")
+    assert worker.worker_connections == 1000
+    worker.handle("a")
+    assert worker._queued == 0
