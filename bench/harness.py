@@ -93,6 +93,33 @@ class Server:
         shutil.rmtree(self.tmp, ignore_errors=True)
 
 
+def cpu_seconds(server: Server) -> float:
+    """User and system CPU time the server's workers have used so far, workers replaced meanwhile included
+    (their time is added to the master's children's time when it reaps them; from /proc/PID/stat)."""
+
+    def fields(pid: int) -> list[str]:
+        try:
+            return Path(f"/proc/{pid}/stat").read_text().rsplit(")", 1)[1].split()
+        except OSError:  # a worker replaced between the listing and the reading
+            return ["0"] * 15
+
+    master = fields(server.proc.pid)
+    total = int(master[13]) + int(master[14])
+    for pid in server.worker_pids():
+        total += int(fields(pid)[11]) + int(fields(pid)[12])
+    return total / os.sysconf("SC_CLK_TCK")
+
+
+def connections_per_worker(server: Server) -> list[int] | None:
+    """How many established client connections each worker holds (from `ss`; None where it is missing)."""
+    if not shutil.which("ss"):
+        return None
+    out = subprocess.run(
+        ["ss", "-tnpH", "state", "established", f"( sport = :{server.port} )"], capture_output=True, text=True
+    ).stdout
+    return sorted((out.count(f"pid={pid},") for pid in server.worker_pids()), reverse=True)
+
+
 def peak_rss_mb(pid: int) -> float:
     for line in Path(f"/proc/{pid}/status").read_text().splitlines():
         if line.startswith("VmHWM:"):

@@ -19,12 +19,13 @@ import shutil
 import statistics
 import subprocess
 import sys
+import threading
 from pathlib import Path
 
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
-from bench.harness import PY, Nginx, Server, load, median_time, peak_rss_mb, post  # noqa: E402
+from bench.harness import PY, Nginx, Server, connections_per_worker, cpu_seconds, load, median_time, peak_rss_mb, post  # noqa: E402
 from bench.payload import SUPPLY, batch, circuits, flat, installation  # noqa: E402
 
 ROWS: list[tuple[str, str, str, str, str]] = []
@@ -125,11 +126,24 @@ def bench_installation(server: Server) -> None:
 # ---------------------------------------------------------------- 3. single check under load
 
 
+def _loaded(server: Server, path: str, body: bytes, seconds: int) -> tuple[float, float, float, float, str]:
+    """req/s, p50 and p99 (ms), the workers' CPU time per request (ms) and their connections under the load."""
+    before = cpu_seconds(server)
+    spread: list[list[int] | None] = []
+    sampler = threading.Timer(seconds / 2, lambda: spread.append(connections_per_worker(server)))
+    sampler.start()
+    rps, p50, p99 = load(server.port, path, body, seconds)
+    sampler.join()
+    cpu_ms = (cpu_seconds(server) - before) / (rps * seconds) * 1000
+    held = "/".join(map(str, spread[0])) if spread and spread[0] is not None else "n/a"
+    return rps, p50, p99, cpu_ms, held
+
+
 def bench_single(server: Server, bare: Server, seconds: int) -> None:
     body = (ROOT / "schemas" / "examples" / "circuits-check.json").read_bytes()
     load(server.port, "/v1/circuits/check", body, 2)
-    rps, p50, p99 = load(server.port, "/v1/circuits/check", body, seconds)
-    b_rps, b_p50, b_p99 = load(bare.port, "/echo", body, seconds)
+    rps, p50, p99, cpu, held = _loaded(server, "/v1/circuits/check", body, seconds)
+    b_rps, b_p50, b_p99, b_cpu, b_held = _loaded(bare, "/echo", body, seconds)
     tool = "wrk" if shutil.which("wrk") else "Python load generator"
     row(
         f"single circuit check under load ({tool}, 16 connections, {seconds} s)",
@@ -137,6 +151,13 @@ def bench_single(server: Server, bare: Server, seconds: int) -> None:
         f"bare Flask JSON {b_rps:,.0f} req/s, p50 {b_p50:.1f} ms, p99 {b_p99:.1f} ms",
         f"{rps / b_rps:.2f}x",
         ">= 0.5x",
+    )
+    row(
+        "single check: workers' CPU time per request, connections held by each worker",
+        f"{cpu:.2f} ms, {held}",
+        f"bare Flask {b_cpu:.2f} ms, {b_held}",
+        f"{b_cpu / cpu:.2f}x",
+        "",
     )
 
 
