@@ -1,40 +1,52 @@
-"""Running the service under gunicorn: a threaded worker that takes new connections only while it has a
-free thread, and a JSON-lines access log."""
+"""Running the service under gunicorn: a threaded worker that leaves new connections to a sibling while its
+own threads are all busy, and a JSON-lines access log."""
 
 from __future__ import annotations
 
 import datetime
 import json
 import threading
+import time
 
 from gunicorn.glogging import Logger
 from gunicorn.workers.gthread import ThreadWorker
 
+ACCEPT_EVERY_S = 0.005
+
 
 class BalancedThreadWorker(ThreadWorker):
-    """gunicorn's threaded worker, taking a new connection only while one of its threads is free.
+    """gunicorn's threaded worker, slow to take new connections while all its threads are busy.
 
     The stock worker accepts every connection it can while its siblings sleep on the same socket: under
     a burst of 16 connections one worker often took 13 to 16 of them and the other few or none, so one
     core idled while requests queued on the other, and concurrent single checks were computed together
-    in smaller sets. While all its threads are busy this worker leaves new connections to a sibling with
-    a free thread (or to the listen backlog, as a sync worker does); the connections it keeps alive stay.
+    in smaller sets. While every thread of this worker is busy it takes at most one new connection every
+    ``ACCEPT_EVERY_S``, leaving the rest to a sibling with a free thread; when all workers are busy the
+    waiting connections are still taken, a few every few milliseconds, so none waits long. The
+    connections it keeps alive stay.
     """
 
     def __init__(self, *args, **kwargs):
         self._queued = 0  # requests handed to the thread pool and not yet handled
         self._queued_lock = threading.Lock()
         self._connection_limit = 0
+        self._last_accept = 0.0
         super().__init__(*args, **kwargs)
 
     @property
     def worker_connections(self) -> int:
-        # gunicorn accepts while nr_conns < worker_connections: nothing while every thread is busy
-        return self._connection_limit if self._queued < self.cfg.threads else 0
+        # gunicorn accepts while nr_conns < worker_connections
+        if self._queued < self.cfg.threads or time.monotonic() - self._last_accept >= ACCEPT_EVERY_S:
+            return self._connection_limit
+        return 0
 
     @worker_connections.setter
     def worker_connections(self, value: int) -> None:
         self._connection_limit = value
+
+    def accept(self, listener):
+        self._last_accept = time.monotonic()
+        return super().accept(listener)
 
     def enqueue_req(self, conn):
         with self._queued_lock:

@@ -81,18 +81,22 @@ def test_graceful_shutdown(server):
 
 
 def test_a_worker_with_every_thread_busy_leaves_new_connections_to_its_siblings(monkeypatch):
-    """gunicorn accepts while nr_conns < worker_connections: the worker reports no room while its threads
-    are all taken, and its configured room again as soon as one is free (failures included)."""
+    """gunicorn accepts while nr_conns < worker_connections: while its threads are all taken the worker
+    reports no room, except once every ACCEPT_EVERY_S (so connections never starve when every worker is
+    busy), and its configured room again as soon as a thread is free (failures included)."""
     from gunicorn.config import Config
     from gunicorn.workers.gthread import ThreadWorker
 
-    from service.serving import BalancedThreadWorker
+    from service import serving
 
+    clock = [100.0]
+    monkeypatch.setattr(serving.time, "monotonic", lambda: clock[0])
     cfg = Config()
     cfg.set("threads", 2)
     cfg.set("worker_connections", 1000)
-    worker = BalancedThreadWorker(0, os.getpid(), [], None, 30, cfg, None)
+    worker = serving.BalancedThreadWorker(0, os.getpid(), [], None, 30, cfg, None)
     worker.tmp.close()  # the heartbeat file a worker makes; this one never runs
+    monkeypatch.setattr(ThreadWorker, "accept", lambda self, listener: None)
     monkeypatch.setattr(ThreadWorker, "enqueue_req", lambda self, conn: None)
 
     def handle(self, conn):
@@ -101,9 +105,15 @@ def test_a_worker_with_every_thread_busy_leaves_new_connections_to_its_siblings(
 
     monkeypatch.setattr(ThreadWorker, "handle", handle)
     assert worker.worker_connections == 1000
+    worker.accept(None)
     worker.enqueue_req("a")
     assert worker.worker_connections == 1000
+    worker.accept(None)
     worker.enqueue_req("broken")
+    assert worker.worker_connections == 0
+    clock[0] += serving.ACCEPT_EVERY_S * 1.5
+    assert worker.worker_connections == 1000  # one more, even so
+    worker.accept(None)
     assert worker.worker_connections == 0
     with pytest.raises(OSError):
         worker.handle("broken")
