@@ -9,6 +9,7 @@ rule by the unit in its name (``zs_ohm``, ``min_csa_mm2``) or, for a check, by t
 from __future__ import annotations
 
 import math
+from functools import lru_cache
 from typing import Any
 
 import numpy as np
@@ -61,6 +62,7 @@ def summary() -> str:
     )
 
 
+@lru_cache(maxsize=1024)
 def rule_for(name: str) -> tuple[str, int] | None:
     """The rule for a field called ``name`` (None where its name carries no unit: kept as it is)."""
     if name in _BY_NAME:

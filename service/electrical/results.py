@@ -88,7 +88,8 @@ def lists_of(columns: Mapping[str, Any], exact: bool = True, rules: Mapping[str,
     """Each column as a list: floats with None where NaN or infinite (JSON has neither), texts as they are.
 
     Unless ``exact``, numbers are rounded by their unit (:mod:`service.electrical.precision`; ``rules``
-    gives the rule of a column whose name carries no unit). All float columns go through numpy together.
+    gives the rule of a column, None to keep it as it is, where its name does not say it, or where the key
+    is not a name). All float columns go through numpy together.
     """
     numeric = [name for name, col in columns.items() if isinstance(col, np.ndarray) and col.dtype.kind in "fiu"]
     converted: dict[str, list[Any]] = {}
@@ -97,7 +98,8 @@ def lists_of(columns: Mapping[str, Any], exact: bool = True, rules: Mapping[str,
         if not exact:  # one rounding per rule, over every column it serves
             by_rule: dict[Any, list[int]] = {}
             for row, name in enumerate(numeric):
-                by_rule.setdefault((rules or {}).get(name) or precision.rule_for(name), []).append(row)
+                rule = rules[name] if rules is not None and name in rules else precision.rule_for(name)
+                by_rule.setdefault(rule, []).append(row)
             for rule, rows in by_rule.items():
                 stacked[rows] = precision.rounded(stacked[rows], rule)
         lists = stacked.tolist()
@@ -110,46 +112,49 @@ def lists_of(columns: Mapping[str, Any], exact: bool = True, rules: Mapping[str,
     }
 
 
-def _check_records(check: CheckColumns, n: int, exact: bool) -> list[Check | None]:
+def _cells(checked: Checked, exact: bool) -> tuple[dict[str, list], list[dict[Any, list]]]:
+    """The circuit's figures, and each check's value, limit, margin, basis, note and detail cells, as lists:
+    every number of the results through numpy in one pass (:func:`lists_of`), rounded by its unit."""
+    from_checks = {name: col for c in checked.checks for name, col in c.figures.items()}
+    figures = {**checked.loop.figures(), **checked.trip.figures(), **from_checks}
+    columns: dict[Any, Any] = dict(figures)
+    rules: dict[Any, Any] = {name: precision.rule_for(name) for name in figures}
+    margin = precision.RULES["margin_percent"]
+    for k, c in enumerate(checked.checks):
+        unit = precision.rule_for_unit(c.unit)
+        parts = {"value": (c.value, unit), "limit": (c.limit, unit), "margin": (c.margin_percent, margin)}
+        parts.update(basis=(c.basis, None), note=(c.note, None))
+        if c.detail is not None:
+            parts.update({("detail", name): (col, precision.rule_for(name)) for name, col in c.detail[1].items()})
+        parts.pop(("detail", "verdict"), None)
+        for part, (col, rule) in parts.items():
+            columns[(k, part)], rules[(k, part)] = col, rule
+    cells = lists_of(columns, exact, rules)
+    per_check: list[dict[Any, list]] = [{} for _ in checked.checks]
+    for key in columns:
+        if isinstance(key, tuple):
+            per_check[key[0]][key[1]] = cells[key]
+    return {name: cells[name] for name in figures}, per_check
+
+
+def _check_records(check: CheckColumns, cells: Mapping[Any, list], n: int) -> list[Check | None]:
     """One :class:`Check` per circuit where the check applies (None elsewhere)."""
     v = verdicts.decode(check.verdict)
-    unit = precision.rule_for_unit(check.unit)
-    cells = lists_of(
-        {
-            "value": check.value,
-            "limit": check.limit,
-            "margin": check.margin_percent,
-            "basis": check.basis,
-            "note": check.note,
-        },
-        exact,
-        {"value": unit, "limit": unit, "margin": precision.RULES["margin_percent"]},
-    )
     applies = [True] * n if check.applies is None else np.asarray(check.applies, dtype=bool).tolist()
+    value, limit, margin, basis, note = (cells[k] for k in ("value", "limit", "margin", "basis", "note"))
     return [
-        Check(
-            check.check,
-            v[i],
-            cells["value"][i],
-            cells["limit"][i],
-            check.unit,
-            cells["margin"][i],
-            cells["basis"][i],
-            cells["note"][i],
-        )
-        if applies[i]
-        else None
+        Check(check.check, v[i], value[i], limit[i], check.unit, margin[i], basis[i], note[i]) if applies[i] else None
         for i in range(n)
     ]
 
 
-def _detail_records(check: CheckColumns, n: int, exact: bool) -> list[dict[str, Any] | None]:
+def _detail_records(check: CheckColumns, cells: Mapping[Any, list], n: int) -> list[dict[str, Any] | None]:
     """The check's detail per circuit, None where the check does not apply; its ``verdict`` column is verdict
     codes, or the words of the detail's own scale (selectivity: total, partial ...)."""
     columns = check.detail[1]
-    cells = lists_of({k: v for k, v in columns.items() if k != "verdict"}, exact)
-    names = list(cells)
-    rows = [dict(zip(names, row, strict=True)) for row in zip(*(cells[name] for name in names), strict=True)]
+    names = [name for name in columns if name != "verdict"]
+    table = zip(*(cells[("detail", name)] for name in names), strict=True)
+    rows = [dict(zip(names, row, strict=True)) for row in table]
     rows = rows or [{} for _ in range(n)]
     words = columns["verdict"]
     words = verdicts.decode(words) if np.asarray(words).dtype.kind in "iu" else list(words)
@@ -206,11 +211,10 @@ def assemble(checked: Checked, scope: Sequence[str] | None = None, exact: bool =
     """
     cols = checked.cols
     n = cols.n
-    from_checks = {name: col for c in checked.checks for name, col in c.figures.items()}
-    figures = lists_of({**checked.loop.figures(), **checked.trip.figures(), **from_checks}, exact)
+    figures, cells = _cells(checked, exact)
     names = list(figures)
-    per_check = [_check_records(c, n, exact) for c in checked.checks]
-    details = {c.detail[0]: _detail_records(c, n, exact) for c in checked.checks if c.detail is not None}
+    per_check = [_check_records(c, cells[k], n) for k, c in enumerate(checked.checks)]
+    details = {c.detail[0]: _detail_records(c, cells[k], n) for k, c in enumerate(checked.checks) if c.detail}
     codes, scopes = verdict_scopes(checked, scope)
     overall = verdicts.decode(codes)
     summaries = {id(d): d.summary() for d in {id(d): d for d in cols.devices}.values()}
