@@ -51,6 +51,20 @@ def select(conditions: Any, choices: Any, default: Any = 0) -> np.ndarray:
     return np.asarray(out)
 
 
+def nan_to(values: Any, fill: float) -> np.ndarray:
+    """``values`` (floats) with ``fill`` where NaN, infinities kept (``np.nan_to_num`` costs more on short columns)."""
+    x = np.asarray(values, dtype=float)
+    return np.where(np.isnan(x), fill, x)
+
+
+def one_of(values: Any, options: tuple[Any, ...]) -> np.ndarray:
+    """Where each value is one of a few ``options`` (what ``np.isin`` answers, without its cost on short columns)."""
+    out = np.zeros(np.shape(values), dtype=bool)
+    for option in options:
+        out |= values == option
+    return out
+
+
 def as_float(values: Any) -> np.ndarray:
     """A 1-D float array (a scalar becomes an array of one)."""
     return np.atleast_1d(np.asarray(values, dtype=float))

@@ -14,7 +14,7 @@ from typing import Any
 import numpy as np
 
 from . import disconnection, protective, verdicts
-from .arrays import finite_or_none
+from .arrays import finite_or_none, nan_to
 from .columns import CircuitColumns
 from .devices import catalogue, residual
 from .devices.catalogue import resolve
@@ -143,7 +143,7 @@ def _overcurrent(cols: CircuitColumns, i_f: np.ndarray, req_oc: np.ndarray):
         dev = cols.devices[idx[0]]
         oc_t[idx], oc_b[idx] = dev.characteristic.time_codes(i_f[idx])
         region[idx] = np.array(dev.region_names(), dtype=object)[dev.region_codes(i_f[idx])]
-        ia[idx], ia_b[idx] = dev.characteristic.current_codes(np.nan_to_num(req_oc[idx], nan=np.inf))
+        ia[idx], ia_b[idx] = dev.characteristic.current_codes(nan_to(req_oc[idx], np.inf))
     return oc_t, oc_b, region, ia, ia_b
 
 
@@ -165,7 +165,7 @@ def device_response(cols: CircuitColumns, loop: FaultLoop) -> DeviceResponse:
     rcd_t, rcd_b = _residual(cols, i_f)
     no_dc_data = (cols.current_kind == "dc") & cols.standard_device
     credited = cols.has_rcd & (cols.current_kind != "dc")
-    ra = np.where(np.isnan(cols.electrode_ohm), loop.zs_ohm, cols.electrode_ohm + np.nan_to_num(cols.conductors.r2))
+    ra = np.where(np.isnan(cols.electrode_ohm), loop.zs_ohm, cols.electrode_ohm + nan_to(cols.conductors.r2, 0.0))
     v_oc = disconnection.time_verdicts(oc_t, oc_b, req_oc)
     v_rcd = np.where(credited, disconnection.time_verdicts(rcd_t, rcd_b, req_rcd), verdicts.NOT_VERIFIED)
     by_rcd = credited & (v_oc != verdicts.PASS) & (v_rcd == verdicts.PASS)

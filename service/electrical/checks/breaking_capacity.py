@@ -11,7 +11,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import verdicts
-from ..arrays import select
+from ..arrays import nan_to, select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
@@ -61,7 +61,7 @@ def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
     dc = (cols.current_kind == "dc") & ~given
     from_default = ~given & ~np.isnan(default) & ~dc
     icn = np.where(given, cols.breaking_capacity_ka, np.where(dc, np.nan, default))
-    conditional = ~np.isnan(cols.conditional_ka) & (np.nan_to_num(cols.conditional_ka) > np.nan_to_num(icn))
+    conditional = ~np.isnan(cols.conditional_ka) & (nan_to(cols.conditional_ka, 0.0) > nan_to(icn, 0.0))
     limit = np.where(conditional, cols.conditional_ka, icn)
     unknown = np.isnan(loop.pfc_ka)
     short = ~(limit >= loop.pfc_ka)

@@ -9,7 +9,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import protective, verdicts
-from ..arrays import select
+from ..arrays import nan_to, one_of, select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
@@ -57,12 +57,10 @@ def protective_conductor(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResp
     verdict, by_calculation, by_selection = protective.cpc_verdicts(
         c.cpc_csa, s_min, np.where(line_protected, selection, np.nan)
     )
-    stand_in_fail = (verdict == verdicts.FAIL) & np.isin(method, protective.STAND_IN_METHODS)
+    stand_in_fail = (verdict == verdicts.FAIL) & one_of(method, protective.STAND_IN_METHODS)
     verdict = verdicts.where(c.present & ~stand_in_fail, verdict, verdicts.NOT_VERIFIED)
     basis = np.where(c.present & ~by_calculation & by_selection, BASES["selection"], BASES["adiabatic"]).astype(object)
-    selection_unprotected = (
-        c.present & ~line_protected & ~by_calculation & (c.cpc_csa >= np.nan_to_num(selection, nan=np.inf))
-    )
+    selection_unprotected = c.present & ~line_protected & ~by_calculation & (c.cpc_csa >= nan_to(selection, np.inf))
     note = _note(c.present, method, s_min, stand_in_fail, by_calculation, by_selection, selection_unprotected)
     detail = {
         "k": c.k,
@@ -132,7 +130,7 @@ def _energy(loop: FaultLoop, trip: DeviceResponse):
     far_energy = np.where(trip.by_rcd, rcd_energy, trip.cpc_far.energy_a2s)
     far_method = np.where(trip.by_rcd, rcd_method, trip.cpc_far.method)
     near = trip.cpc_near
-    use_near = np.isfinite(far_energy) & (np.nan_to_num(near.energy_a2s) > far_energy)
+    use_near = np.isfinite(far_energy) & (nan_to(near.energy_a2s, 0.0) > far_energy)
     energy = np.where(use_near, near.energy_a2s, far_energy)
     method = np.where(use_near, near.method, far_method).astype(object)
     data_basis = np.where(use_near, near.data_basis, np.where(trip.by_rcd, None, trip.cpc_far.data_basis))

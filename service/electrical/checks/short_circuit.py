@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 
 from .. import protective, verdicts
-from ..arrays import select
+from ..arrays import one_of, select
 from ..columns import CircuitColumns
 from ..devices.characteristic import AT_MOST, BEYOND_DATA, bound_names
 from ..faults import FaultLoop
@@ -50,7 +50,7 @@ def _end(energy: FaultEnergy, withstand: np.ndarray, known: np.ndarray) -> tuple
     too_slow = np.isfinite(energy.time_s) & (energy.time_s > MAX_TIME_S)
     with np.errstate(invalid="ignore"):
         over = energy.energy_a2s > withstand * (1 + 1e-9)
-    stand_in = np.isin(energy.method, protective.STAND_IN_METHODS)
+    stand_in = one_of(energy.method, protective.STAND_IN_METHODS)
     reason = select([~known, energy.bound == BEYOND_DATA, too_slow, over & stand_in, over], [5, 1, 2, 4, 3], 0)
     verdict = select(
         [reason == 5, reason == 4, (reason > 0) & (energy.bound == AT_MOST) & (reason == 2), reason > 0],
