@@ -41,7 +41,7 @@ def _checked_one(body):
 
 
 @blp.route("/check", methods=["POST"])
-@blp.arguments(CheckRequestSchema)
+@blp.arguments(CheckRequestSchema())
 @blp.response(200, CircuitResultSchema)
 def check(body):
     """Check one circuit
@@ -55,7 +55,7 @@ def check(body):
 
 
 @blp.route("/picture", methods=["POST"])
-@blp.arguments(CheckRequestSchema)
+@blp.arguments(CheckRequestSchema())
 @blp.doc(
     responses={
         "200": {
@@ -83,8 +83,8 @@ def picture(body):
 
 
 @blp.route("/check-batch", methods=["POST"])
-@blp.arguments(FormSchema, location="query")
-@blp.arguments(BatchRequestSchema)
+@blp.arguments(FormSchema(), location="query")
+@blp.arguments(BatchRequestSchema())
 @blp.response(200, LeanBatchSchema)
 def check_batch(query, body):
     """Check many circuits sharing a supply

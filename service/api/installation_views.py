@@ -44,7 +44,7 @@ def checked(body: dict) -> tuple[Installation, InstallationResult, dict]:
 
 
 @blp.route("/check", methods=["POST"])
-@blp.arguments(InstallationRequestSchema)
+@blp.arguments(InstallationRequestSchema())
 @blp.response(200, InstallationResultSchema)
 def check(body):
     """Check a whole installation
@@ -64,7 +64,7 @@ HTML = "text/html"
 
 
 @blp.route("/report", methods=["POST"])
-@blp.arguments(InstallationRequestSchema)
+@blp.arguments(InstallationRequestSchema())
 @blp.doc(
     responses={
         "200": {

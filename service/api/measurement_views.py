@@ -96,7 +96,7 @@ class VerifyResultSchema(Schema):
 
 
 @blp.route("/verify", methods=["POST"])
-@blp.arguments(VerifyRequestSchema)
+@blp.arguments(VerifyRequestSchema())
 @blp.response(200, VerifyResultSchema)
 def verify_results(body):
     """Judge measured Ze, fault level, Zs, R1+R2, ring continuity, insulation, RCD tests and polarity per circuit

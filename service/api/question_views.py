@@ -84,7 +84,7 @@ class FaultCurrentResultSchema(Schema):
 
 
 @fault_blp.route("", methods=["POST"])
-@fault_blp.arguments(FaultCurrentRequestSchema)
+@fault_blp.arguments(FaultCurrentRequestSchema())
 @fault_blp.response(200, FaultCurrentResultSchema)
 def fault_current(body):
     """Earth fault current from Zs, or from the supply and the conductors"""
@@ -109,7 +109,7 @@ class DisconnectionResultSchema(Schema):
 
 
 @disconnection_blp.route("", methods=["POST"])
-@disconnection_blp.arguments(DisconnectionRequestSchema)
+@disconnection_blp.arguments(DisconnectionRequestSchema())
 @disconnection_blp.response(200, DisconnectionResultSchema)
 def disconnection_time(body):
     """Maximum operating time of a device at a current, how it is bounded, and the region of the curve"""
@@ -147,7 +147,7 @@ class MaxZsResultSchema(Schema):
 
 
 @max_zs_blp.route("", methods=["POST"])
-@max_zs_blp.arguments(MaxZsRequestSchema)
+@max_zs_blp.arguments(MaxZsRequestSchema())
 @max_zs_blp.response(200, MaxZsResultSchema)
 def max_zs(body):
     """Ia, the maximum Zs, and the limit for a value measured cold"""
@@ -202,7 +202,7 @@ class ProtectiveResultSchema(Schema):
 
 
 @protective_blp.route("", methods=["POST"])
-@protective_blp.arguments(ProtectiveRequestSchema)
+@protective_blp.arguments(ProtectiveRequestSchema())
 @protective_blp.response(200, ProtectiveResultSchema)
 def protective_conductor(body):
     """k, the minimum protective conductor size and the standard size to use"""

@@ -160,7 +160,7 @@ class SizeResultSchema(Schema):
 
 
 @blp.route("/size", methods=["POST"])
-@blp.arguments(SizeRequestSchema)
+@blp.arguments(SizeRequestSchema())
 @blp.response(200, SizeResultSchema)
 def size(body):
     """Size a circuit for a load at a distance
@@ -226,7 +226,7 @@ class MaxLengthRequestSchema(Schema):
 
 
 @blp.route("/max-length", methods=["POST"])
-@blp.arguments(MaxLengthRequestSchema)
+@blp.arguments(MaxLengthRequestSchema())
 @blp.response(200, MaxLengthResultSchema)
 def longest(body):
     """The longest run that keeps every check passing, and the check that limits it"""
