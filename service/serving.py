@@ -1,11 +1,10 @@
-"""Running the service under gunicorn: a threaded worker that leaves new connections to a sibling while its
-own threads are all busy, and a JSON-lines access log."""
+"""Running the service under gunicorn: a threaded worker that leaves connections beyond its threads to a
+sibling, and a JSON-lines access log."""
 
 from __future__ import annotations
 
 import datetime
 import json
-import threading
 import time
 
 from gunicorn.glogging import Logger
@@ -15,28 +14,26 @@ ACCEPT_EVERY_S = 0.005
 
 
 class BalancedThreadWorker(ThreadWorker):
-    """gunicorn's threaded worker, slow to take new connections while all its threads are busy.
+    """gunicorn's threaded worker, slow to take more connections than it has threads.
 
     The stock worker accepts every connection it can while its siblings sleep on the same socket: under
     a burst of 16 connections one worker often took 13 to 16 of them and the other few or none, so one
     core idled while requests queued on the other, and concurrent single checks were computed together
-    in smaller sets. While every thread of this worker is busy it takes at most one new connection every
-    ``ACCEPT_EVERY_S``, leaving the rest to a sibling with a free thread; when all workers are busy the
-    waiting connections are still taken, a few every few milliseconds, so none waits long. The
-    connections it keeps alive stay.
+    in smaller sets. This worker takes connections freely while it holds fewer than it has threads;
+    beyond that, at most one every ``ACCEPT_EVERY_S``, leaving the rest to a sibling that holds fewer.
+    When every worker is full the waiting connections are still taken, a few every few milliseconds, so
+    none waits long; the connections a worker keeps alive stay with it.
     """
 
     def __init__(self, *args, **kwargs):
-        self._queued = 0  # requests handed to the thread pool and not yet handled
-        self._queued_lock = threading.Lock()
         self._connection_limit = 0
         self._last_accept = 0.0
         super().__init__(*args, **kwargs)
 
     @property
     def worker_connections(self) -> int:
-        # gunicorn accepts while nr_conns < worker_connections
-        if self._queued < self.cfg.threads or time.monotonic() - self._last_accept >= ACCEPT_EVERY_S:
+        # gunicorn's accept loop takes a connection while nr_conns < worker_connections
+        if self.nr_conns < self.cfg.threads or time.monotonic() - self._last_accept >= ACCEPT_EVERY_S:
             return self._connection_limit
         return 0
 
@@ -47,18 +44,6 @@ class BalancedThreadWorker(ThreadWorker):
     def accept(self, listener):
         self._last_accept = time.monotonic()
         return super().accept(listener)
-
-    def enqueue_req(self, conn):
-        with self._queued_lock:
-            self._queued += 1
-        return super().enqueue_req(conn)
-
-    def handle(self, conn):
-        try:
-            return super().handle(conn)
-        finally:
-            with self._queued_lock:
-                self._queued -= 1
 
 
 class JsonLinesLogger(Logger):
