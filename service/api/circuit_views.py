@@ -104,11 +104,22 @@ def check_batch(query, body):
     with paused_gc():
         if query["form"] == "lean":
             return json_response(lean_answer(body["supply"], items, body.get("checks")))
-        results = []
-        counts = Counts()
-        for start in range(0, len(items), CHUNK):
-            results.extend(_checked(body, items[start : start + CHUNK], start, counts))
-        return json_response({"results": results, "summary": counts.summary(len(items))})
+        return _full_answer(body, items)
+
+
+def _full_answer(body, items) -> flask.Response:
+    """The full form, written a chunk at a time: each chunk's results become JSON and are let go before the
+    next chunk is checked, so a worker never holds every result object of a large batch and its text at once.
+    The answer is the same JSON as ``{"results": [...], "summary": {...}}`` written whole."""
+    counts = Counts()
+    parts = [b'{"results":[']
+    for start in range(0, len(items), CHUNK):
+        chunk = json_bytes(_checked(body, items[start : start + CHUNK], start, counts))
+        parts.append((b"," if start else b"") + chunk[1:-1])  # the chunk's items, without the list's brackets
+    parts.append(b'],"summary":' + json_bytes(counts.summary(len(items))) + b"}")
+    response = flask.current_app.response_class(parts, mimetype="application/json")
+    response.headers["Content-Length"] = str(sum(map(len, parts)))
+    return response
 
 
 class Counts:

@@ -146,6 +146,23 @@ def test_batch_keeps_every_item(client):
     assert r.get_json()["summary"]["invalid"] == 3
 
 
+def test_the_full_form_written_a_chunk_at_a_time_is_one_document_in_order(client, monkeypatch):
+    """Past a chunk's end (service/api/circuit_views.py CHUNK, made small here) the answer is still one JSON
+    document with every item in order, its length said, and a bad item on either side of a boundary in its
+    place."""
+    from service.api import circuit_views
+
+    monkeypatch.setattr(circuit_views, "CHUNK", 3)
+    circuits = [EXAMPLE["circuit"]] * 8
+    circuits[2] = circuits[3] = {"id": "no-such-circuit"}
+    r = client.post("/v1/circuits/check-batch?form=full", json={"supply": EXAMPLE["supply"], "circuits": circuits})
+    assert r.status_code == 200 and int(r.headers["Content-Length"]) == len(r.data)
+    items = r.get_json()["results"]
+    assert [i["index"] for i in items] == list(range(8))
+    assert [i["index"] for i in items if "problem" in i] == [2, 3]
+    assert r.get_json()["summary"]["invalid"] == 2 and r.get_json()["summary"]["circuits"] == 8
+
+
 def test_unknown_path_and_method(client):
     assert_problem(client.get("/v1/nothing"), 404)
     r = client.get("/v1/circuits/check")
