@@ -59,9 +59,10 @@ def nan_to(values: Any, fill: float) -> np.ndarray:
 
 def one_of(values: Any, options: tuple[Any, ...]) -> np.ndarray:
     """Where each value is one of a few ``options`` (what ``np.isin`` answers, without its cost on short columns)."""
-    out = np.zeros(np.shape(values), dtype=bool)
+    column = np.asarray(values, dtype=object)
+    out = np.zeros(column.shape, dtype=bool)
     for option in options:
-        out |= values == option
+        out |= column == option
     return out
 
 

@@ -35,3 +35,15 @@ def test_finite_or_none_and_the_paused_collector():
     with paused_gc():
         assert not gc.isenabled()
     assert gc.isenabled()
+
+
+def test_short_column_helpers_answer_as_numpy_does():
+    from service.electrical.arrays import nan_to, one_of
+
+    x = [1.0, np.nan, np.inf, -np.inf]
+    assert nan_to(x, 0.0).tolist() == [1.0, 0.0, np.inf, -np.inf]
+    assert nan_to(x, np.inf).tolist() == [1.0, np.inf, np.inf, -np.inf]
+    methods = ["adiabatic", None, "let-through-data", "conservative-0.1s"]
+    options = ("let-through-data", "conservative-0.1s")
+    assert one_of(methods, options).tolist() == np.isin(np.array(methods, dtype=object), options).tolist()
+    assert one_of(np.array(methods, dtype=object), options).tolist() == [False, False, True, True]
