@@ -11,7 +11,7 @@ if ":" in env("FAULTPATH_BIND") and not env("FAULTPATH_BIND").startswith("["):
     bind = f"[{env('FAULTPATH_BIND')}]:{env('FAULTPATH_PORT')}"
 workers = int(env("FAULTPATH_WORKERS") or min(8, 2 * multiprocessing.cpu_count() + 1))
 threads = int(env("FAULTPATH_THREADS"))
-# threads let concurrent single checks be computed together; a worker takes new connections while a thread is free
+# threads let concurrent single checks be computed together; a worker leaves connections beyond its threads to a sibling
 worker_class = "service.serving.BalancedThreadWorker" if threads > 1 else "sync"
 timeout = int(env("FAULTPATH_TIMEOUT_S"))
 graceful_timeout = 30

@@ -45,6 +45,13 @@ class BalancedThreadWorker(ThreadWorker):
         self._last_accept = time.monotonic()
         return super().accept(listener)
 
+    def wait_for_and_dispatch_events(self, timeout):
+        # while new connections are held back, look again within ACCEPT_EVERY_S: a worker whose connections
+        # are all idle keep-alives has no other event to wake it, and a new client would wait a whole second
+        if not self._accepting and self.nr_conns >= self.cfg.threads:
+            timeout = min(timeout, ACCEPT_EVERY_S)
+        return super().wait_for_and_dispatch_events(timeout)
+
 
 class JsonLinesLogger(Logger):
     """gunicorn's logger, writing one JSON object per request to the access log.

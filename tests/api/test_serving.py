@@ -111,3 +111,11 @@ def test_a_worker_holding_as_many_connections_as_threads_leaves_new_ones_to_its_
     assert worker.worker_connections == 0
     worker.nr_conns = 1  # two closed
     assert worker.worker_connections == 1000
+
+    waits = []
+    monkeypatch.setattr(ThreadWorker, "wait_for_and_dispatch_events", lambda self, timeout: waits.append(timeout))
+    worker._accepting, worker.nr_conns = False, 2  # held back, every connection perhaps an idle keep-alive
+    worker.wait_for_and_dispatch_events(1.0)
+    worker._accepting = True
+    worker.wait_for_and_dispatch_events(1.0)
+    assert waits == [serving.ACCEPT_EVERY_S, 1.0]  # a held-back worker looks again soon; one accepting waits
