@@ -43,11 +43,13 @@ def _float(text: str) -> float:
 
 
 def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
-    out: dict[str, Any] = {}
-    for key, value in pairs:
-        if key in out:
-            raise _reject(f"duplicate key {key[:60]!r}")
-        out[key] = value
+    out = dict(pairs)
+    if len(out) != len(pairs):  # a key came twice: name the first that did
+        seen: set[str] = set()
+        for key, _ in pairs:
+            if key in seen:
+                raise _reject(f"duplicate key {key[:60]!r}")
+            seen.add(key)
     return out
 
 
