@@ -106,7 +106,8 @@ def cpu_seconds(server: Server) -> float:
     master = fields(server.proc.pid)
     total = int(master[13]) + int(master[14])
     for pid in server.worker_pids():
-        total += int(fields(pid)[11]) + int(fields(pid)[12])
+        worker = fields(pid)
+        total += int(worker[11]) + int(worker[12])
     return total / os.sysconf("SC_CLK_TCK")
 
 
