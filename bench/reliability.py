@@ -1,7 +1,7 @@
 """Faultpath reliability report: one command, every figure measured in this run on 127.0.0.1.
 
     python bench/reliability.py             (about 25 minutes: schemathesis at 1000 examples, 60 s soaks)
-    python bench/reliability.py --quick     (about 3 minutes: 100 examples, 15 s soaks)
+    python bench/reliability.py --quick     (about 6 minutes: 100 examples, 15 s soaks)
 
 1. the hostile-input corpus (tests/api/hostile) against a real gunicorn server: cases, 4xx, 5xx, mismatches;
 2. schemathesis on every operation, positive and negative generation (tests/api/test_schemathesis.py);

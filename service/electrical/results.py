@@ -112,6 +112,17 @@ def lists_of(columns: Mapping[str, Any], exact: bool = True, rules: Mapping[str,
     }
 
 
+def check_numbers(check: CheckColumns) -> dict[str, tuple[Any, Any]]:
+    """A check's value, limit and margin columns, each with the precision rule it is rounded by (the value
+    and limit by the check's unit, the margin as margins are)."""
+    unit = precision.rule_for_unit(check.unit)
+    return {
+        "value": (check.value, unit),
+        "limit": (check.limit, unit),
+        "margin_percent": (check.margin_percent, precision.RULES["margin_percent"]),
+    }
+
+
 def _cells(checked: Checked, exact: bool) -> tuple[dict[str, list], list[dict[Any, list]]]:
     """The circuit's figures, and each check's value, limit, margin, basis, note and detail cells, as lists:
     every number of the results through numpy in one pass (:func:`lists_of`), rounded by its unit."""
@@ -119,14 +130,11 @@ def _cells(checked: Checked, exact: bool) -> tuple[dict[str, list], list[dict[An
     figures = {**checked.loop.figures(), **checked.trip.figures(), **from_checks}
     columns: dict[Any, Any] = dict(figures)
     rules: dict[Any, Any] = {name: precision.rule_for(name) for name in figures}
-    margin = precision.RULES["margin_percent"]
     for k, c in enumerate(checked.checks):
-        unit = precision.rule_for_unit(c.unit)
-        parts = {"value": (c.value, unit), "limit": (c.limit, unit), "margin": (c.margin_percent, margin)}
-        parts.update(basis=(c.basis, None), note=(c.note, None))
-        if c.detail is not None:
-            parts.update({("detail", name): (col, precision.rule_for(name)) for name, col in c.detail[1].items()})
-        parts.pop(("detail", "verdict"), None)
+        parts: dict[Any, tuple[Any, Any]] = {**check_numbers(c), "basis": (c.basis, None), "note": (c.note, None)}
+        for name, col in (c.detail[1] if c.detail is not None else {}).items():
+            if name != "verdict":  # words or codes of the detail's own scale, decoded by _detail_records
+                parts[("detail", name)] = (col, precision.rule_for(name))
         for part, (col, rule) in parts.items():
             columns[(k, part)], rules[(k, part)] = col, rule
     cells = lists_of(columns, exact, rules)
@@ -141,7 +149,7 @@ def _check_records(check: CheckColumns, cells: Mapping[Any, list], n: int) -> li
     """One :class:`Check` per circuit where the check applies (None elsewhere)."""
     v = verdicts.decode(check.verdict)
     applies = [True] * n if check.applies is None else np.asarray(check.applies, dtype=bool).tolist()
-    value, limit, margin, basis, note = (cells[k] for k in ("value", "limit", "margin", "basis", "note"))
+    value, limit, margin, basis, note = (cells[k] for k in ("value", "limit", "margin_percent", "basis", "note"))
     return [
         Check(check.check, v[i], value[i], limit[i], check.unit, margin[i], basis[i], note[i]) if applies[i] else None
         for i in range(n)

@@ -16,11 +16,11 @@ from typing import Any
 
 import numpy as np
 
-from . import precision, verdicts
+from . import verdicts
 from .circuit import Checked, checked_run
 from .columns import CircuitFailure
 from .model import Circuit, Supply
-from .results import lists_of, verdict_scopes
+from .results import check_numbers, lists_of, verdict_scopes
 
 # the circuit's own figures, as the full result names them (texts among them are given as text positions)
 FIGURES = (
@@ -108,12 +108,8 @@ def columns_of_checked(
 
 
 def _check_columns(check, exact: bool, texts: Interned) -> dict[str, list]:
-    unit = precision.rule_for_unit(check.unit)
-    numbers = lists_of(
-        {"value": check.value, "limit": check.limit, "margin_percent": check.margin_percent},
-        exact,
-        {"value": unit, "limit": unit, "margin_percent": precision.RULES["margin_percent"]},
-    )
+    parts = check_numbers(check)
+    numbers = lists_of({k: col for k, (col, _) in parts.items()}, exact, {k: rule for k, (_, rule) in parts.items()})
     words = WORDS[np.asarray(check.verdict, dtype=np.intp)]
     if check.applies is not None:
         words = np.where(np.asarray(check.applies, bool), words, None)
