@@ -17,6 +17,7 @@ from typing import Any
 
 from ..electrical.circuit import check_circuits
 from ..electrical.model import Circuit, Supply
+from .metrics import count_single_run
 
 MAX_BATCH = 64
 
@@ -77,6 +78,7 @@ def _run(batch: list[_Waiting]) -> None:
     for item in batch:
         by_scope.setdefault(item.scope, []).append(item)
     for scope, items in by_scope.items():
+        started = time.thread_time()
         try:
             results = check_circuits([i.supply for i in items], [i.circuit for i in items], scope)
         except BaseException as err:  # every request of the run answers with the error (a 500, logged once each)
@@ -84,6 +86,7 @@ def _run(batch: list[_Waiting]) -> None:
                 i.error = err
                 i.done.set()
             continue
+        count_single_run(len(items), time.thread_time() - started)
         for i, result in zip(items, results, strict=True):
             i.result = result
             i.done.set()

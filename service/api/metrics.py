@@ -19,6 +19,18 @@ LATENCY = Histogram(
     buckets=(0.001, 0.0025, 0.005, 0.01, 0.025, 0.05, 0.1, 0.25, 0.5, 1, 2.5, 5, 10),
 )
 VERDICT_COUNT = Counter("faultpath_verdicts_total", "Circuit verdicts given", ["verdict"])
+# concurrent single checks computed together (coalesce.py): how many a core run serves, and the core's CPU time
+SINGLE_RUN = Histogram(
+    "faultpath_single_check_run_circuits",
+    "Single checks computed together in one run of the core",
+    buckets=(1, 2, 3, 4, 6, 8, 12, 16, 32, 64),
+)
+SINGLE_RUN_CPU = Counter("faultpath_single_check_core_cpu_seconds", "CPU time of the core's runs for single checks")
+
+
+def count_single_run(circuits: int, cpu_s: float) -> None:
+    SINGLE_RUN.observe(circuits)
+    SINGLE_RUN_CPU.inc(cpu_s)
 
 
 def count_verdicts(verdicts) -> None:

@@ -60,3 +60,21 @@ def test_a_check_alone_is_not_kept_waiting_and_errors_reach_the_caller(monkeypat
     with pytest.raises(RuntimeError):
         coalescer.check(BODY["supply"], BODY["circuit"], None)
     assert coalescer.in_flight == 0
+
+
+def test_each_run_is_counted_with_its_circuits_and_the_cores_cpu_time():
+    from service.api import metrics
+
+    def counted():
+        sample = {s.name: s.value for m in metrics.SINGLE_RUN.collect() for s in m.samples if "bucket" not in s.name}
+        cpu = [s.value for m in metrics.SINGLE_RUN_CPU.collect() for s in m.samples if s.name.endswith("_total")]
+        return (
+            sample["faultpath_single_check_run_circuits_count"],
+            sample["faultpath_single_check_run_circuits_sum"],
+            cpu[0],
+        )
+
+    runs, circuits, cpu = counted()
+    Coalescer(window_s=0.0).check(BODY["supply"], BODY["circuit"], None)
+    after = counted()
+    assert after[0] == runs + 1 and after[1] == circuits + 1 and after[2] > cpu
