@@ -56,7 +56,7 @@ class Server:
             stdout=subprocess.DEVNULL,
             stderr=subprocess.DEVNULL,
         )
-        self.wait_ready("/healthz" if "wsgi" in app else "/ping")
+        self.wait_ready("/ping" if "bare_app" in app else "/healthz")
 
     def wait_ready(self, path: str) -> None:
         deadline = time.monotonic() + 30
@@ -126,6 +126,20 @@ def peak_rss_mb(pid: int) -> float:
         if line.startswith("VmHWM:"):
             return int(line.split()[1]) / 1024
     return float("nan")
+
+
+def metric_values(port: int, names: tuple[str, ...]) -> dict[str, float]:
+    """The named series of the server's /metrics (summed over their labels; 0 where absent)."""
+    conn = http.client.HTTPConnection("127.0.0.1", port, timeout=10)
+    conn.request("GET", "/metrics")
+    text = conn.getresponse().read().decode()
+    conn.close()
+    values = dict.fromkeys(names, 0.0)
+    for line in text.splitlines():
+        name = line.split("{", 1)[0].split(" ", 1)[0]
+        if name in values:
+            values[name] += float(line.rsplit(" ", 1)[1])
+    return values
 
 
 def post(port: int, path: str, body: bytes, accept: str = "application/json") -> tuple[int, bytes]:

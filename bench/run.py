@@ -25,7 +25,19 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
-from bench.harness import PY, Nginx, Server, connections_per_worker, cpu_seconds, load, median_time, peak_rss_mb, post  # noqa: E402
+from bench import budget  # noqa: E402
+from bench.harness import (  # noqa: E402
+    PY,
+    Nginx,
+    Server,
+    connections_per_worker,
+    cpu_seconds,
+    load,
+    median_time,
+    metric_values,
+    peak_rss_mb,
+    post,
+)
 from bench.payload import SUPPLY, batch, circuits, flat, installation  # noqa: E402
 
 ROWS: list[tuple[str, str, str, str, str]] = []
@@ -142,10 +154,16 @@ def _loaded(server: Server, path: str, body: bytes, seconds: int) -> tuple[float
     return rps, p50, p99, cpu_ms, held
 
 
+RUNS = ("faultpath_single_check_run_circuits_sum", "faultpath_single_check_run_circuits_count")
+CORE_CPU = "faultpath_single_check_core_cpu_seconds_total"
+
+
 def bench_single(server: Server, bare: Server, seconds: int) -> None:
     body = (ROOT / "schemas" / "examples" / "circuits-check.json").read_bytes()
     load(server.port, "/v1/circuits/check", body, 2)
+    before = metric_values(server.port, (*RUNS, CORE_CPU))
     rps, p50, p99, cpu, held = _loaded(server, "/v1/circuits/check", body, seconds)
+    after = metric_values(server.port, (*RUNS, CORE_CPU))
     b_rps, b_p50, b_p99, b_cpu, b_held = _loaded(bare, "/echo", body, seconds)
     tool = "wrk" if shutil.which("wrk") else "Python load generator"
     row(
@@ -162,6 +180,30 @@ def bench_single(server: Server, bare: Server, seconds: int) -> None:
         f"{b_cpu / cpu:.2f}x",
         "",
     )
+    checks, runs = (after[name] - before[name] for name in RUNS)
+    core_ms = (after[CORE_CPU] - before[CORE_CPU]) * 1000
+    parts = budget.single_parts()
+    row(
+        "single check under load: checks a core run, the core's CPU a run and a check",
+        f"{checks / runs:.1f} a run, {core_ms / runs:.2f} ms a run, {core_ms / checks:.2f} ms a check",
+        f"in process, 8 a run: {parts['core8']:.2f} ms a run, {parts['core8'] / 8:.2f} ms a check",
+        f"{core_ms / checks / (parts['core8'] / 8):.1f}x",
+        "",
+    )
+    ceiling = Server(app="bench.ceiling_app:app", workers=2)
+    try:
+        load(ceiling.port, "/v1/circuits/check", body, 2)
+        c_rps, _, c_p99, c_cpu, _ = _loaded(ceiling, "/v1/circuits/check", body, seconds)
+    finally:
+        ceiling.stop()
+    row(
+        "single check ceiling: the same service with the core's answer given ready (bench/ceiling_app.py)",
+        f"{c_rps:,.0f} req/s, p99 {c_p99:.1f} ms, CPU {c_cpu:.2f} ms a request",
+        f"bare Flask {b_rps:,.0f} req/s",
+        f"{c_rps / b_rps:.2f}x",
+        "",
+    )
+    budget.single_budget(row, parts, b_cpu, c_cpu)
 
 
 # ---------------------------------------------------------------- 4. worker start
@@ -296,6 +338,7 @@ def main() -> int:
     bench_picture()
     server = Server(workers=2)
     bare = Server(app="bench.bare_app:app", workers=2)
+    budget.batch_budget(row)
     try:
         bench_batch(server)
         bench_installation(server)
