@@ -102,10 +102,12 @@ def lists_of(columns: Mapping[str, Any], exact: bool = True, rules: Mapping[str,
                 by_rule.setdefault(rule, []).append(row)
             for rule, rows in by_rule.items():
                 stacked[rows] = precision.rounded(stacked[rows], rule)
-        lists = stacked.tolist()
-        for r, c in zip(*np.nonzero(~np.isfinite(stacked)), strict=True):
-            lists[r][c] = None
-        converted = dict(zip(numeric, lists, strict=True))
+        missing = ~np.isfinite(stacked)
+        if missing.any():  # None in those cells, set in one pass over Python objects
+            cells = stacked.astype(object)
+            cells[missing] = None
+            stacked = cells
+        converted = dict(zip(numeric, stacked.tolist(), strict=True))
     return {
         name: converted[name] if name in converted else (col.tolist() if isinstance(col, np.ndarray) else list(col))
         for name, col in columns.items()

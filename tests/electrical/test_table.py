@@ -35,3 +35,16 @@ def test_a_problem_row_keeps_the_place_of_its_item():
     add_problem(table, 7, "spare", 0)
     assert table["index"] == [None, 7] and table["verdict"][1] == "invalid" and table["problem"][1] == 0
     assert len({len(values) for values in table.values()}) == 1
+
+
+def test_caution_patterns_are_the_distinct_rows_whatever_the_width():
+    import numpy as np
+
+    from service.electrical.table import _patterns
+
+    rng = np.random.default_rng(5)
+    for width in (1, 3, 62, 63, 70):
+        matrix = rng.random((300, width)) < 0.05
+        patterns, inverse = _patterns(matrix)
+        assert (patterns[inverse] == matrix).all()
+        assert len(patterns) == len(np.unique(matrix, axis=0))
