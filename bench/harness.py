@@ -56,7 +56,11 @@ class Server:
             stdout=subprocess.DEVNULL,
             stderr=subprocess.DEVNULL,
         )
-        self.wait_ready("/ping" if "bare_app" in app else "/healthz")
+        try:
+            self.wait_ready("/ping" if "bare_app" in app else "/healthz")
+        except BaseException:  # never leave a server behind
+            self.stop()
+            raise
 
     def wait_ready(self, path: str) -> None:
         deadline = time.monotonic() + 30
