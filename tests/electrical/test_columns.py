@@ -37,3 +37,19 @@ def test_failures_name_their_path_and_type():
         (3, ("circuit", "device", "rcd"), InvalidInput),
         (4, ("supply", "u0_v"), InvalidInput),  # Table 41.1 covers U0 above 50 V a.c.
     ]
+
+
+def test_device_columns_read_each_spec_once_and_group_equal_ones_in_order_of_appearance():
+    import dataclasses
+
+    twin = dataclasses.replace(B32)  # equal to B32, another object
+    items = [circuit(RCBO_B16), circuit(), circuit(twin), circuit(RCBO_B16), circuit(conductors=None, r1_plus_r2_ohm=1)]
+    cols = columns_of([BAKERY] * 5, items)
+    assert list(cols.device_groups) == [RCBO_B16.curve_key, B32.curve_key]
+    assert [g.tolist() for g in cols.device_groups.values()] == [[0, 3], [1, 2, 4]]
+    assert cols.devices[2] is cols.devices[1] and cols.devices[3] is cols.devices[0]
+    assert cols.rating_a.tolist() == [16, 32, 32, 16, 32]
+    assert [g.tolist() for g in cols.rcd_groups.values()] == [[0, 3]]
+    assert cols.energy_class == [c.device.energy_limiting_class for c in items]
+    expected = [np.nan if c.device.breaking_capacity_ka is None else c.device.breaking_capacity_ka for c in items]
+    np.testing.assert_array_equal(cols.breaking_capacity_ka, expected)
