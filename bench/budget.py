@@ -119,6 +119,13 @@ def batch_budget(row: Row, runs: int = 7) -> None:
     for name in STAGES:
         row(f"batch budget, in process: {words[name]}", f"{part[name] * 1000:,.0f} ms", "", _x(part[name], floor))
     whole = statistics.median(wholes)
+    other = whole - sum(part.values())
+    row(
+        "batch budget, in process: the rest (Flask, webargs, merging chunks, the collector)",
+        f"{other * 1000:,.0f} ms",
+        "",
+        _x(other, floor),
+    )
     row(
         "batch budget, in process: the whole request (Flask, no HTTP)",
         f"{whole * 1000:,.0f} ms",
