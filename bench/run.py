@@ -161,7 +161,7 @@ RUNS = ("faultpath_single_check_run_circuits_sum", "faultpath_single_check_run_c
 CORE_CPU = "faultpath_single_check_core_cpu_seconds_total"
 
 
-def bench_single(server: Server, bare: Server, seconds: int) -> None:
+def bench_single(server: Server, bare: Server, seconds: int, parts: dict[str, float]) -> None:
     body = (ROOT / "schemas" / "examples" / "circuits-check.json").read_bytes()
     load(server.port, "/v1/circuits/check", body, 2)
     before = metric_values(server.port, (*RUNS, CORE_CPU))
@@ -185,7 +185,6 @@ def bench_single(server: Server, bare: Server, seconds: int) -> None:
     )
     checks, runs = (after[name] - before[name] for name in RUNS)
     core_ms = (after[CORE_CPU] - before[CORE_CPU]) * 1000
-    parts = budget.single_parts()
     row(
         "single check under load: checks a core run, the core's CPU a run and a check",
         f"{checks / runs:.1f} a run, {core_ms / runs:.2f} ms a run, {core_ms / checks:.2f} ms a check",
@@ -341,11 +340,13 @@ def main() -> int:
     bench_picture()
     server = Server(workers=2)
     bare = Server(app="bench.bare_app:app", workers=2)
-    budget.batch_budget(row)
+    figures = budget.in_fresh_process()
+    for cells in figures["rows"]:
+        row(*cells)
     try:
         bench_batch(server)
         bench_installation(server)
-        bench_single(server, bare, seconds)
+        bench_single(server, bare, seconds, figures["single"])
     finally:
         server.stop()
         bare.stop()
