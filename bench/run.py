@@ -338,11 +338,11 @@ def main() -> int:
     bench_engine()
     bench_start()
     bench_picture()
-    server = Server(workers=2)
-    bare = Server(app="bench.bare_app:app", workers=2)
     figures = budget.in_fresh_process()
     for cells in figures["rows"]:
         row(*cells)
+    server = Server(workers=2)
+    bare = Server(app="bench.bare_app:app", workers=2)
     try:
         bench_batch(server)
         bench_installation(server)
