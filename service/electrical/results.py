@@ -131,7 +131,7 @@ def _cells(checked: Checked, exact: bool) -> tuple[dict[str, list], list[dict[An
     from_checks = {name: col for c in checked.checks for name, col in c.figures.items()}
     figures = {**checked.loop.figures(), **checked.trip.figures(), **from_checks}
     columns: dict[Any, Any] = dict(figures)
-    rules: dict[Any, Any] = {name: precision.rule_for(name) for name in figures}
+    rules: dict[Any, Any] = {}  # the figures' rules come from their names (lists_of); the other keys are tuples
     for k, c in enumerate(checked.checks):
         parts: dict[Any, tuple[Any, Any]] = {**check_numbers(c), "basis": (c.basis, None), "note": (c.note, None)}
         for name, col in (c.detail[1] if c.detail is not None else {}).items():
