@@ -102,7 +102,7 @@ def batch_budget(row: Row, runs: int = 7) -> None:
     raw = json.dumps(payload).encode()
     _wsgi_call(app, "/v1/circuits/check-batch", raw)
     body = BatchRequestSchema().load(payload)
-    answer = lean_answer(body["supply"], body["circuits"], None)
+    answer = lean_answer(body["supply"], body["circuits"], None, body["edition"])
     floors, wholes, stages = [], [], []
     for _ in range(runs):  # alternating, so a slow spell falls on all
         start = time.perf_counter()

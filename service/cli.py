@@ -31,6 +31,7 @@ from .cli_status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
 from .electrical.arrays import paused_gc
 from .electrical.circuit import check_circuits
 from .electrical.columns import CircuitFailure
+from .electrical.results import GENERAL_CAUTIONS
 from .electrical.verdicts import COUNTED, Verdict
 
 RESULT_COLUMNS = (
@@ -49,6 +50,7 @@ RESULT_COLUMNS = (
     "cpc_csa_mm2",
     "failed_checks",
     "not_verified_checks",
+    "cautions",
     "problem",
 )
 
@@ -86,6 +88,13 @@ def _chunk(chunk: list[Row]) -> list[dict[str, Any]]:
         else:
             records.append({"index": row.index, "id": row.id, "result": outcome})
     return records
+
+
+def _own_cautions(result) -> list[str]:
+    """A result's own cautions and the notes of its failing or unverified checks, in words (the general cautions
+    are the same on every row and left out)."""
+    said = [f"{c.check}: {c.verdict}: {c.note}" for c in result.checks if c.verdict != Verdict.PASS and c.note]
+    return said + [text for text in result.cautions if text not in GENERAL_CAUTIONS]
 
 
 class Tally:
@@ -126,6 +135,7 @@ def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> Non
                 cpc_csa_mm2=r.protective_conductor["csa_mm2"],
                 failed_checks=" ".join(c.check for c in r.checks if c.verdict == Verdict.FAIL),
                 not_verified_checks=" ".join(c.check for c in r.checks if c.verdict == Verdict.NOT_VERIFIED),
+                cautions=" | ".join(_own_cautions(r)),
             )
         writer.writerow({k: ("" if v is None else v) for k, v in row.items()})
 

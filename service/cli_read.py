@@ -12,11 +12,11 @@ from collections.abc import Iterator
 from typing import Any, BinaryIO, TextIO
 
 import ijson
-from marshmallow import ValidationError
+from marshmallow import Schema, ValidationError
 
 from .api.errors import core_errors, flatten, pointer_of
 from .api.fastload import Refused, fast_load
-from .api.schemas import CircuitSchema, SupplySchema
+from .api.schemas import CircuitSchema, SupplySchema, edition_field, premises_field, with_edition
 from .api.strictjson import strict_loads
 from .electrical.columns import CircuitFailure
 
@@ -57,10 +57,33 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
     "grouping": ("installation", "grouping", "text"),
     "grouped_circuits": ("installation", "grouped_circuits", "integer"),
     "thermal_insulation_mm": ("installation", "thermal_insulation_mm", "number"),
+    "edition": ("head", "edition", "text"),
+    "premises": ("head", "premises", "text"),
+    "equipment": ("circuit", "equipment", "text"),
+    "socket_outlet_rating_a": ("circuit", "socket_outlet_rating_a", "number"),
+    "location": ("circuit", "location", "text"),
+    "rcd_type": ("rcd", "type", "text"),
+    "afdd": ("device", "afdd", "flag"),
+    "ev_dc_fault_detection": ("ev", "dc_fault_detection", "flag"),
+    "ev_earthing_measure": ("ev", "earthing_measure", "text"),
+    "concealed_in_wall": ("installation", "concealed_in_wall", "text"),
+    "wall_has_metal_parts": ("installation", "wall_has_metal_parts", "flag"),
+    "earthed_metallic_covering": ("installation", "earthed_metallic_covering", "flag"),
 }
 
 SUPPLY_SCHEMA = SupplySchema()
 CIRCUIT_SCHEMA = CircuitSchema()
+HEAD_KEYS = ("edition", "premises")
+
+
+class HeadSchema(Schema):
+    """What a schedule says once for all its circuits, beside the supply: the edition and the premises."""
+
+    edition = edition_field()
+    premises = premises_field()
+
+
+HEAD_SCHEMA = HeadSchema()
 
 
 class ScheduleError(ValueError):
@@ -118,12 +141,14 @@ def _cell(value: str, kind: str) -> Any:
 
 
 _POINTER_OF = {
+    "head": "",
     "supply": "/supply",
     "circuit": "/circuit",
     "device": "/circuit/device",
     "rcd": "/circuit/device/rcd",
     "conductors": "/circuit/conductors",
     "installation": "/circuit/installation",
+    "ev": "/circuit/ev",
 }
 CSV_ROOTS = {"supply": "/supply", "circuit": "/circuit"}
 _COLUMN_OF = {f"{_POINTER_OF[where]}/{name}": column for column, (where, name, _) in CSV_COLUMNS.items()}
@@ -159,10 +184,10 @@ def _csv_row(index: int, record: dict[str, str]) -> Row:
     circuit = dict(parts["circuit"], device=dict(parts["device"]))
     if parts["rcd"]:
         circuit["device"]["rcd"] = parts["rcd"]
-    for nested in ("conductors", "installation"):
+    for nested in ("conductors", "installation", "ev"):
         if parts[nested]:
             circuit[nested] = parts[nested]
-    row = _validated(index, parts["supply"], circuit, "", "/supply", "/circuit")
+    row = _validated(index, parts["supply"], circuit, "", "/supply", "/circuit", head=parts["head"])
     if row.problem:
         row.problem = [{"pointer": _as_column(e["pointer"], index), "message": e["message"]} for e in row.problem]
     row.base, row.csv = f"/{index}", True
@@ -177,9 +202,10 @@ def _validated(
     supply_pointer: str,
     circuit_pointer: str,
     supply_loaded: tuple | None = None,
+    head: dict | None = None,
 ) -> Row:
     ident = circuit_raw.get("id") if isinstance(circuit_raw, dict) and isinstance(circuit_raw.get("id"), str) else None
-    supply, supply_problems = supply_loaded or _load(SUPPLY_SCHEMA, supply_raw, supply_pointer)
+    supply, supply_problems = supply_loaded or _supply(supply_raw, supply_pointer, head or {})
     circuit, circuit_problems = _load(CIRCUIT_SCHEMA, circuit_raw, circuit_pointer)
     problems = (supply_problems or []) + (circuit_problems or [])
     if problems:
@@ -187,9 +213,19 @@ def _validated(
     return Row(index, ident, base, supply, circuit)
 
 
-def iter_items(supply_raw: Any, items: Iterator[Any]) -> Iterator[Row]:
-    """The rows of a schedule's circuits on one supply (loaded once), one at a time."""
-    supply = _load(SUPPLY_SCHEMA, supply_raw, "/supply")
+def _supply(supply_raw: Any, pointer: str, head: dict) -> tuple:
+    """The supply with the schedule's edition and premises on it (the core reads them there), or the problems."""
+    supply, problems = _load(SUPPLY_SCHEMA, supply_raw, pointer)
+    top, top_problems = _load(HEAD_SCHEMA, head, "")
+    if problems or top_problems:
+        return None, (problems or []) + (top_problems or [])
+    return with_edition({**top, "supply": supply})["supply"], None
+
+
+def iter_items(supply_raw: Any, items: Iterator[Any], head: dict | None = None) -> Iterator[Row]:
+    """The rows of a schedule's circuits on one supply (loaded once, with the schedule's edition and premises),
+    one at a time."""
+    supply = _supply(supply_raw, "/supply", head or {})
     for i, item in enumerate(items):
         yield _validated(i, supply_raw, item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
 
@@ -198,7 +234,7 @@ def rows_of(body: Any) -> Iterator[Row]:
     """The rows of a JSON schedule already parsed."""
     if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
         raise ScheduleError(SCHEDULE_SHAPE)
-    return iter_items(body["supply"], iter(body["circuits"]))
+    return iter_items(body["supply"], iter(body["circuits"]), {k: body[k] for k in HEAD_KEYS if k in body})
 
 
 SCHEDULE_SHAPE = 'a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes'
@@ -237,9 +273,15 @@ def iter_json(stream: BinaryIO) -> Iterator[Row]:
     supply = _incremental(lambda: next(ijson.items(stream, "supply", use_float=True, map_type=_NoRepeats), None))
     if supply is None:
         raise ScheduleError(SCHEDULE_SHAPE)
+    head = {}
+    for key in HEAD_KEYS:  # each a scan in C (yajl2_c) where the key is not at the file's head
+        stream.seek(0)
+        value = _incremental(lambda key=key: next(ijson.items(stream, key, use_float=True), _END))
+        if value is not _END:
+            head[key] = value
     stream.seek(0)
     items = ijson.items(stream, "circuits.item", use_float=True, map_type=_NoRepeats)
-    return iter_items(supply, _plain(items))
+    return iter_items(supply, _plain(items), head)
 
 
 def _plain(items: Iterator[Any]) -> Iterator[Any]:
@@ -268,9 +310,13 @@ def iter_ndjson(stream: TextIO) -> Iterator[Row]:
     """The rows of an NDJSON schedule: a first line ``{"supply": {...}}``, then one circuit per line."""
     first = stream.readline()
     head = _line(first, 1)
-    if not isinstance(head, dict) or set(head) != {"supply"}:
-        raise ScheduleError('an NDJSON schedule starts with a line {"supply": {...}}, then one circuit per line')
-    return iter_items(head["supply"], (_line(line, n) for n, line in enumerate(stream, 2) if line.strip()))
+    if not isinstance(head, dict) or "supply" not in head or not set(head) <= {"supply", *HEAD_KEYS}:
+        raise ScheduleError(
+            'an NDJSON schedule starts with a line {"supply": {...}} (with edition and premises if need be), then one '
+            "circuit per line"
+        )
+    lines = (_line(line, n) for n, line in enumerate(stream, 2) if line.strip())
+    return iter_items(head["supply"], lines, {k: head[k] for k in HEAD_KEYS if k in head})
 
 
 def _line(text: str, number: int) -> Any:

@@ -11,10 +11,13 @@ ROOT = Path(__file__).resolve().parents[1]
 HEADER = (
     "id,earthing,u0_v,ze_ohm,prospective_fault_current_ka,line_neutral_loop_ohm,role,load,design_current_a,"
     "device_standard,device_type,rating_a,breaking_capacity_ka,energy_limiting_class,material,insulation,"
-    "line_csa_mm2,cpc_csa_mm2,length_m,ring,cable,installation_method"
+    "line_csa_mm2,cpc_csa_mm2,length_m,ring,cable,installation_method,premises,equipment,location,concealed_in_wall"
 )
 SUPPLY = "TN-C-S,230,0.28,2.1,0.19"
-ROW = "final,fixed-equipment,26,BS EN 60898,B,32,6,3,copper,thermoplastic-70,6,2.5,{length},false,flat-twin-earth-70c,C"
+ROW = (
+    "final,fixed-equipment,26,BS EN 60898,B,32,6,3,copper,thermoplastic-70,6,2.5,{length},false,flat-twin-earth-70c,C,"
+    "other,cooker,general,no"
+)
 OVEN = f"oven,{SUPPLY}," + ROW.format(length=18)
 BAD = f"bad,{SUPPLY}," + ROW.format(length="far")
 NO_IB = OVEN.replace(",26,", ",,")  # no design current: overload cannot be checked
@@ -44,6 +47,20 @@ def test_csv_in_csv_out(tmp_path):
     assert [row["verdict"] for row in rows] == ["pass", "invalid"]
     assert float(rows[0]["zs_ohm"]) == 0.5066  # Ze 0.28 + R1+R2 0.226584, to 4 decimals
     assert rows[1]["problem"] == "/1/length_m: must be a number"
+    assert "cautions" in rows[0]
+
+
+def test_the_csv_answer_carries_each_circuits_cautions_and_the_rules_it_fails(tmp_path):
+    # a socket circuit on a plain breaker: BS 7671 411.3.3 calls for a 30 mA RCD
+    sockets = OVEN.replace("fixed-equipment", "socket-outlets").replace(",cooker,", ",,")
+    source = tmp_path / "board.csv"
+    source.write_text("\n".join([HEADER, sockets]) + "\n")
+    out = tmp_path / "results.csv"
+    assert run(str(source), "-o", str(out)).returncode == 1
+    (row,) = csv.DictReader(io.StringIO(out.read_text()))
+    assert row["verdict"] == "fail" and "additional-protection" in row["failed_checks"]
+    assert "additional-protection: fail: required, and no RCD is fitted" in row["cautions"]
+    assert "AFDD" not in row["cautions"] or "recommended" in row["cautions"]
 
 
 def test_all_pass_exits_0_and_not_verified_exits_4(tmp_path):

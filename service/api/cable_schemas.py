@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, post_load
 
-from ..electrical import capacity
+from ..electrical import capacity, requirements
 from ..electrical.model import CableRun, built
 from .fields import Flag, Number, WholeNumber, choice
 
@@ -45,6 +45,21 @@ class InstallationSchema(Schema):
     terminals_c = Number(
         minimum=60, maximum=250, metadata={"description": "the equipment's terminal rating, for cables above 70 degC"}
     )
+
+    concealed_in_wall = choice(
+        requirements.choices("concealed_in_wall"),
+        metadata={"description": "concealed in a wall or partition: no, under-50-mm or 50-mm-or-deeper from the "
+                  "surface (522.6.202); not stated: the additional-protection check asks for it unless a 30 mA RCD is "
+                  "fitted"},
+    )  # fmt: skip
+    wall_has_metal_parts = Flag(
+        metadata={"description": "the wall or partition's construction includes metallic parts other than fixings "
+                  "(522.6.203)"}
+    )  # fmt: skip
+    earthed_metallic_covering = Flag(
+        metadata={"description": "an earthed metallic covering: armour, earthed metal conduit or trunking, or "
+                  "mechanical protection against nails and screws (522.6.202)"}
+    )  # fmt: skip
 
     @post_load
     def make(self, data, **kwargs):

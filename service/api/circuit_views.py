@@ -16,7 +16,7 @@ from .base import Blueprint
 from .errors import CoreInputError, json_bytes, json_response
 from .helpers import failed_item, invalid_item, svg_response
 from .lean import FormSchema, LeanBatchSchema, lean_answer
-from .result_schemas import CircuitResultSchema
+from .result_schemas import CheckAnswerSchema
 from .schemas import BatchRequestSchema, CheckRequestSchema, ItemProblem
 
 blp = Blueprint(
@@ -42,7 +42,7 @@ def _checked_one(body):
 
 @blp.route("/check", methods=["POST"])
 @blp.arguments(CheckRequestSchema())
-@blp.response(200, CircuitResultSchema)
+@blp.response(200, CheckAnswerSchema)
 def check(body):
     """Check one circuit
 
@@ -51,7 +51,7 @@ def check(body):
     """
     result = _checked_one(body)
     metrics.count_verdicts([result.verdict])
-    return json_response(result)
+    return json_response({**vars(result), "edition": body["edition"]})
 
 
 @blp.route("/picture", methods=["POST"])
@@ -103,7 +103,7 @@ def check_batch(query, body):
         return flask.Response(flask.stream_with_context(_ndjson(body, items)), mimetype=NDJSON)
     with paused_gc():
         if query["form"] == "lean":
-            return json_response(lean_answer(body["supply"], items, body.get("checks")))
+            return json_response(lean_answer(body["supply"], items, body.get("checks"), body["edition"]))
         return _full_answer(body, items)
 
 
@@ -116,7 +116,8 @@ def _full_answer(body, items) -> flask.Response:
     for start in range(0, len(items), CHUNK):
         chunk = json_bytes(_checked(body, items[start : start + CHUNK], start, counts))
         parts.append((b"," if start else b"") + chunk[1:-1])  # the chunk's items, without the list's brackets
-    parts.append(b'],"summary":' + json_bytes(counts.summary(len(items))) + b"}")
+    parts.append(b'],"summary":' + json_bytes(counts.summary(len(items))))
+    parts.append(b',"edition":' + json_bytes(body["edition"]) + b"}")
     response = flask.current_app.response_class(parts, mimetype="application/json")
     response.headers["Content-Length"] = str(sum(map(len, parts)))
     return response
@@ -165,4 +166,4 @@ def _ndjson(body, items):
         yield b"".join(
             json_bytes(record) + b"\n" for record in _checked(body, items[start : start + CHUNK], start, counts)
         )
-    yield json_bytes({"summary": counts.summary(len(items))}) + b"\n"
+    yield json_bytes({"summary": counts.summary(len(items)), "edition": body["edition"]}) + b"\n"

@@ -4,17 +4,19 @@ from __future__ import annotations
 
 from typing import Any
 
-from marshmallow import Schema, fields, validate
+from marshmallow import Schema, fields, post_load, validate
 
+from ..electrical import requirements
+from ..electrical.checks.installation_rules import BOARD_CHECKS, INSTALLATION_CHECKS
 from ..electrical.columns import CircuitFailure
 from ..electrical.installation import InstallationResult
-from ..electrical.model import Board, Installation, Unread
+from ..electrical.model import Board, Installation, SurgeProtection, Unread, built
 from ..electrical.verdicts import VERDICTS
 from . import fastload
 from .errors import flatten
-from .fields import Flag, Number, Text
+from .fields import Flag, Number, Text, choice
 from .helpers import failed_item, invalid_item
-from .result_schemas import BatchItemSchema, BatchSummarySchema, nullable_number
+from .result_schemas import BatchItemSchema, BatchSummarySchema, CheckResultSchema, edition_answer, nullable_number
 from .schemas import CircuitSchema, DeviceSchema, ItemProblem, PerItemList, ScopedSchema, SupplySchema
 
 MAX_BOARDS = 500
@@ -72,13 +74,36 @@ class BoardSchema(Schema):
     )
 
 
+class SurgeProtectionSchema(Schema):
+    fitted = Flag(required=True, metadata={"description": "an SPD protects the installation (443.4, 534)"})
+    consequence = choice(
+        requirements.choices("surge_consequences"),
+        metadata={"description": "of a transient overvoltage: human-life, safety-services, commercial or other"},
+    )
+    declined_in_writing = Flag(
+        load_default=False, metadata={"description": "the owner declined surge protection in writing (other cases)"}
+    )
+
+    @post_load
+    def make(self, data, **kwargs):
+        return built(SurgeProtection, data)
+
+
 class InstallationRequestSchema(ScopedSchema):
     id = Text(max_length=200, metadata={"description": "your reference, echoed in the answer"})
+    surge_protection = fields.Nested(
+        SurgeProtectionSchema,
+        metadata={"description": "protection against transient overvoltages (443.4); not stated: not-verified"},
+    )
     supply = fields.Nested(SupplySchema, required=True, metadata={"description": "the supply at the origin"})
     boards = fields.List(fields.Nested(BoardSchema), required=True, validate=validate.Length(min=1, max=MAX_BOARDS))
 
 
 # ---------------------------------------------------------------- responses
+
+
+class BoardCheckSchema(CheckResultSchema):
+    check = fields.String(required=True, validate=validate.OneOf(BOARD_CHECKS + INSTALLATION_CHECKS))
 
 
 class BoardValuesSchema(Schema):
@@ -129,6 +154,13 @@ class BoardResultSchema(BoardValuesSchema):
     verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
     not_checked = fields.String(allow_none=True, required=True, metadata={"description": "why, where not checked"})
     cautions = fields.List(fields.String(), required=True)
+    checks = fields.List(
+        fields.Nested(BoardCheckSchema),
+        required=True,
+        metadata={
+            "description": "the board's own: demand (311.1), rcd-selectivity (536.4.1.4) where RCDs are in series"
+        },
+    )
 
 
 class InstallationSummarySchema(BatchSummarySchema):
@@ -141,6 +173,12 @@ class InstallationResultSchema(Schema):
     boards = fields.List(fields.Nested(BoardResultSchema), required=True, metadata={"description": "top-down"})
     summary = fields.Nested(InstallationSummarySchema, required=True)
     cautions = fields.List(fields.String(), required=True)
+    edition = edition_answer()
+    checks = fields.List(
+        fields.Nested(BoardCheckSchema),
+        required=True,
+        metadata={"description": "the installation's own: surge-protection (443.4)"},
+    )
 
 
 def installation_of(body: dict) -> tuple[Installation, dict[tuple[int, int], ItemProblem]]:
@@ -157,7 +195,7 @@ def installation_of(body: dict) -> tuple[Installation, dict[tuple[int, int], Ite
             else:
                 circuits.append(circuit)
         boards.append(Board(**{**item, "circuits": tuple(circuits)}))
-    return Installation(body["supply"], tuple(boards), body.get("id")), problems
+    return Installation(body["supply"], tuple(boards), body.get("id"), body.get("surge_protection")), problems
 
 
 def records(inst: Installation, result: InstallationResult, problems: dict) -> dict[str, Any]:

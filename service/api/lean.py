@@ -8,7 +8,7 @@ from typing import Any
 
 from marshmallow import Schema, fields, validate
 
-from ..electrical import verdicts
+from ..electrical import requirements, verdicts
 from ..electrical.checks import CHECKS, UNITS
 from ..electrical.columns import CircuitFailure
 from ..electrical.results import GENERAL_CAUTIONS
@@ -16,7 +16,7 @@ from ..electrical.table import Interned, add_problem, check_table, column_names,
 from . import metrics
 from .errors import ProblemSchema
 from .helpers import failed_item, invalid_item
-from .result_schemas import BatchSummarySchema, DeviceSummarySchema
+from .result_schemas import BatchSummarySchema, DeviceSummarySchema, edition_answer
 from .schemas import ItemProblem
 
 CHUNK = 2000
@@ -62,10 +62,14 @@ class LeanBatchSchema(Schema):
     checks = fields.List(fields.Nested(CheckUnitSchema), required=True)
     problems = fields.List(fields.Nested(ProblemItemSchema), required=True)
     cautions = fields.List(fields.String(), required=True, metadata={"description": "for every result"})
+    not_assessed = fields.List(
+        fields.String(), required=True, metadata={"description": "what no result judges (verdict_scope.not_assessed)"}
+    )
     summary = fields.Nested(BatchSummarySchema, required=True)
+    edition = edition_answer()
 
 
-def lean_answer(supply: Any, items: Sequence[Any], scope: Sequence[str] | None) -> dict[str, Any]:
+def lean_answer(supply: Any, items: Sequence[Any], scope: Sequence[str] | None, edition: str) -> dict[str, Any]:
     """The lean answer for the items of a batch (a chunk at a time through the core)."""
     names = column_names(CHECKS)
     table, texts, devices = empty_columns(names), Interned(), Interned()
@@ -89,7 +93,9 @@ def lean_answer(supply: Any, items: Sequence[Any], scope: Sequence[str] | None) 
         "checks": steps,
         "problems": problems,
         "cautions": list(GENERAL_CAUTIONS),
+        "not_assessed": requirements.not_assessed(),
         "summary": summary,
+        "edition": edition,
     }
 
 

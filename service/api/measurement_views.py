@@ -12,8 +12,17 @@ from .base import Blueprint
 from .errors import json_response
 from .fields import Flag, Number, choice
 from .helpers import failed_item, invalid_item
-from .result_schemas import nullable_number
-from .schemas import CircuitSchema, FastSchema, ItemProblem, PerItemList, SupplySchema
+from .result_schemas import edition_answer, nullable_number
+from .schemas import (
+    CircuitSchema,
+    FastSchema,
+    ItemProblem,
+    PerItemList,
+    SupplySchema,
+    edition_field,
+    premises_field,
+    with_edition,
+)
 
 blp = Blueprint(
     "test_results",
@@ -60,6 +69,12 @@ fastload.register(VerifyItemSchema)
 class VerifyRequestSchema(FastSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuits = PerItemList(fields.Nested(VerifyItemSchema), required=True)
+    edition = edition_field()
+    premises = premises_field()
+
+    @post_load
+    def onto_supply(self, data, **kwargs):
+        return with_edition(data)
 
 
 class JudgementSchema(Schema):
@@ -93,6 +108,7 @@ class VerifyItemResultSchema(Schema):
 
 class VerifyResultSchema(Schema):
     results = fields.List(fields.Nested(VerifyItemResultSchema), required=True)
+    edition = edition_answer()
 
 
 @blp.route("/verify", methods=["POST"])
@@ -122,4 +138,4 @@ def verify_results(body):
             results.append(failed_item(index, item["circuit"].id, outcome, roots, "item"))
         else:
             results.append({"index": index, "id": outcome.id, "result": outcome})
-    return json_response({"results": results})
+    return json_response({"results": results, "edition": body["edition"]})

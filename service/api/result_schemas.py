@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields, validate
 
-from ..electrical import protective
+from ..electrical import protective, requirements
 from ..electrical.checks import CHECKS
 from ..electrical.devices.characteristic import BOUNDS
 from ..electrical.selectivity import SELECTIVE
@@ -134,6 +134,12 @@ class FactorSchema(Schema):
 class VerdictScopeSchema(Schema):
     covered = fields.List(fields.String(validate=validate.OneOf(CHECKS)), required=True)
     left_out = fields.List(fields.String(validate=validate.OneOf(CHECKS)), required=True)
+    not_assessed = fields.List(
+        fields.String(),
+        required=True,
+        metadata={"description": "what the service does not judge at all (the same on every result): a pass never "
+                  "covers these"},
+    )  # fmt: skip
 
 
 class CircuitResultSchema(Schema):
@@ -188,6 +194,20 @@ class CircuitResultSchema(Schema):
     cautions = fields.List(fields.String(), required=True)
 
 
+def edition_answer() -> fields.String:
+    return fields.String(
+        required=True,
+        validate=validate.OneOf(requirements.editions()),
+        metadata={"description": "the edition of BS 7671 the answer applied"},
+    )
+
+
+class CheckAnswerSchema(CircuitResultSchema):
+    """The answer of circuits/check: the circuit's result and the edition applied."""
+
+    edition = edition_answer()
+
+
 class BatchItemSchema(Schema):
     index = fields.Integer(required=True)
     id = fields.String(allow_none=True, required=True)
@@ -206,3 +226,4 @@ class BatchSummarySchema(Schema):
 class BatchResultSchema(Schema):
     results = fields.List(fields.Nested(BatchItemSchema), required=True)
     summary = fields.Nested(BatchSummarySchema, required=True)
+    edition = edition_answer()

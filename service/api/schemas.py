@@ -11,7 +11,7 @@ import dataclasses
 
 from marshmallow import Schema, ValidationError, fields, post_load, validate, validates_schema
 
-from ..electrical import capacity, disconnection, protective
+from ..electrical import capacity, disconnection, protective, requirements
 from ..electrical import conductors as cond
 from ..electrical.arrays import paused_gc
 from ..electrical.checks import CHECKS
@@ -23,8 +23,10 @@ from . import fastload
 from .cable_schemas import InstallationSchema
 from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
+from .requirement_schemas import CircuitFactsSchema, edition_field, premises_field, with_edition
 
 DEVICE_STANDARDS = catalogue.standards()
+RATED_CURRENT = "the supply's rated current (the cut-out fuse or service rating): the origin's demand (311.1)"
 DEVICE_TYPES = catalogue.types()
 
 
@@ -80,6 +82,7 @@ def energy_class_field() -> WholeNumber:
 class RcdSchema(Schema):
     residual_current_ma = Number(minimum=1, maximum=3000, required=True, metadata={"description": "IΔn, mA"})
     delay = choice(residual.delays(), load_default="general", metadata={"description": "general, or S (time-delayed)"})
+    type = choice(requirements.choices("rcd_types"), metadata={"description": "AC, A, F or B (531.3.3)"})
 
     @post_load
     def make(self, data, **kwargs):
@@ -124,6 +127,7 @@ class DeviceSchema(Schema):
     tsd_s = Number(
         minimum=0.01, maximum=5, metadata={"description": "adjustable breakers: the short-time delay tsd, s"}
     )
+    afdd = Flag(metadata={"description": "an arc fault detection device (BS EN 62606) at the circuit's origin"})
 
     @validates_schema
     def standard_or_points(self, data, **kwargs):
@@ -238,6 +242,8 @@ class SupplySchema(Schema):
         metadata={"description": "public (a distributor's low voltage supply) or private, for the voltage drop limits"},
     )
 
+    rated_current_a = Number(minimum=1, maximum=10000, metadata={"description": RATED_CURRENT})
+
     @validates_schema
     def one_or_three_phases(self, data, **kwargs):
         check_phases(data)
@@ -255,7 +261,7 @@ class SupplySchema(Schema):
         return built(Supply, data)
 
 
-class CircuitSchema(Schema):
+class CircuitSchema(CircuitFactsSchema):
     id = Text(max_length=200, metadata={"description": "your reference, echoed in the result"})
     role = choice(disconnection.ROLES, required=True)
     load = choice(disconnection.LOADS, metadata={"description": "final circuits: what it supplies"})
@@ -321,9 +327,15 @@ def checks_field() -> fields.List:
 
 
 class ScopedSchema(FastSchema):
-    """A request that may name the checks its overall verdict covers."""
+    """A request that may name the checks its overall verdict covers, the edition and the premises."""
 
     checks = checks_field()
+    edition = edition_field()
+    premises = premises_field()
+
+    @post_load
+    def onto_supply(self, data, **kwargs):
+        return with_edition(data) if "supply" in data else data
 
     @validates_schema
     def checks_once(self, data, **kwargs):

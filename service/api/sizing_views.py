@@ -13,7 +13,8 @@ from ..electrical.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand
 from .base import Blueprint
 from .errors import CoreInputError, json_response
 from .fields import Flag, Number, Text, WholeNumber, choice
-from .result_schemas import CircuitResultSchema, nullable_number
+from .requirement_schemas import CircuitFactsSchema
+from .result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
 from .schemas import (
     DEVICE_STANDARDS,
     DEVICE_TYPES,
@@ -22,8 +23,11 @@ from .schemas import (
     RcdSchema,
     SupplySchema,
     check_phases,
+    edition_field,
     energy_class_field,
     phases_field,
+    premises_field,
+    with_edition,
 )
 
 blp = Blueprint(
@@ -40,14 +44,17 @@ class SizeDeviceSchema(Schema):
     breaking_capacity_ka = Number(minimum=0.1, maximum=200)
     rcd = fields.Nested(RcdSchema)
     energy_limiting_class = energy_class_field()
+    afdd = Flag(metadata={"description": "an AFDD at the circuit's origin (421.1.7)"})
 
     @post_load
     def make(self, data, **kwargs):
         return DeviceSpec(rating_a=1.0, **data)
 
 
-class SizeRequestSchema(Schema):
+class SizeRequestSchema(CircuitFactsSchema):
     supply = fields.Nested(SupplySchema, required=True)
+    edition = edition_field()
+    premises = premises_field()
     id = Text(max_length=200)
     role = choice(disconnection.ROLES, load_default="final")
     load = choice(disconnection.LOADS, metadata={"description": "final circuits: what it supplies"})
@@ -86,6 +93,10 @@ class SizeRequestSchema(Schema):
             raise ValidationError("give either design_current_a or power_kw", "design_current_a")
         if data.get("role") == "final" and "load" not in data:
             raise ValidationError("a final circuit needs its load: socket-outlets or fixed-equipment", "load")
+
+    @post_load
+    def onto_supply(self, data, **kwargs):
+        return with_edition(data)
 
 
 class CapacitySchema(Schema):
@@ -138,12 +149,30 @@ class MaxLengthResultSchema(Schema):
     )
     closed_form_m = fields.Dict(keys=fields.String(), values=fields.Float(), required=True)
     method = fields.String(required=True)
+    requirements = fields.List(
+        fields.Nested(CheckResultSchema),
+        required=True,
+        metadata={"description": "the rules beyond the calculations for the circuit (they do not depend on length)"},
+    )
+
+
+class RcdAnswerSchema(Schema):
+    residual_current_ma = fields.Float(required=True)
+    delay = fields.String(required=True)
+    type = fields.String(allow_none=True, required=True)
 
 
 class DeviceChosenSchema(Schema):
     standard = fields.String(required=True)
     type = fields.String(allow_none=True, required=True)
     rating_a = fields.Float(required=True)
+    rcd = fields.Nested(
+        RcdAnswerSchema,
+        allow_none=True,
+        required=True,
+        metadata={"description": "the RCD, as given, or as the rules call for it (the cautions say so)"},
+    )
+    afdd = fields.Boolean(allow_none=True, required=True, metadata={"description": "an AFDD, as given or required"})
 
 
 class SizeResultSchema(Schema):
@@ -157,6 +186,12 @@ class SizeResultSchema(Schema):
     )
     max_length = fields.Nested(MaxLengthResultSchema, allow_none=True, required=True)
     cautions = fields.List(fields.String(), required=True)
+    requirements = fields.List(
+        fields.Nested(CheckResultSchema),
+        required=True,
+        metadata={"description": "the rules beyond the calculations for the design (they do not depend on size)"},
+    )
+    edition = edition_answer()
 
 
 @blp.route("/size", methods=["POST"])
@@ -186,6 +221,10 @@ def size(body):
         ring=body["ring"],
         cpc=body["cpc"],
         cores=body.get("cores"),
+        equipment=body.get("equipment"),
+        socket_outlet_rating_a=body.get("socket_outlet_rating_a"),
+        location=body.get("location"),
+        ev=body.get("ev"),
     )
     try:
         result, reach = size_with_reach(body["supply"], demand, body["installation"], body["device"])
@@ -198,6 +237,8 @@ def size(body):
         "tried": result.tried,
         "max_length": reach,
         "cautions": result.cautions,
+        "requirements": result.requirements,
+        "edition": body["edition"],
     }
     return json_response(out)
 
@@ -216,6 +257,12 @@ class MaxLengthRequestSchema(Schema):
     use = choice(cap.USES, load_default="other")
     supply_kind = choice(cap.SUPPLY_KINDS, load_default="public")
     voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
+    edition = edition_field()
+    premises = premises_field()
+
+    @post_load
+    def onto_supply(self, data, **kwargs):
+        return with_edition(data)
 
     @validates_schema
     def has_conductors(self, data, **kwargs):
@@ -240,6 +287,7 @@ def longest(body):
         voltage_drop_limit_percent=body.get("voltage_drop_limit_percent"),
     )
     try:
-        return json_response(max_length(body["supply"], circuit, body.get("installation"), demand))
+        found = max_length(body["supply"], circuit, body.get("installation"), demand)
+        return json_response({**found, "edition": body["edition"]})
     except ElectricalError as err:
         raise CoreInputError.of(err, {"supply": "/supply", "circuit": "/circuit"}) from None

@@ -17,7 +17,7 @@ from typing import Any
 
 import numpy as np
 
-from . import capacity, disconnection, faults
+from . import capacity, disconnection, faults, requirements
 from . import conductors as cond
 from .arrays import groups
 from .devices import let_through, residual
@@ -99,6 +99,7 @@ class CircuitColumns:
     conditional_ka: np.ndarray
     line_neutral_loop_ohm: np.ndarray
     board: np.ndarray  # the board of an installation whose carried-down values the supply holds (None: the origin)
+    needs: requirements.RequirementColumns  # what the rules beyond the calculations read
 
     @property
     def n(self) -> int:
@@ -185,6 +186,7 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         conditional_ka=_conditional(supplies, circuits),
         line_neutral_loop_ohm=_optional(sc.values("line_neutral_loop_ohm")),
         board=sc.array("board", object),
+        needs=requirements.requirement_columns(supplies, circuits),
     )
 
 
@@ -220,6 +222,7 @@ def _problem(supply: Supply, circuit: Circuit, rules: ElectricalError | None) ->
         rules,
         _phase_problem(supply.phases, circuit.phases, circuit.phase, circuit.use, supply.supply_kind),
         None if circuit.installation is None else _installation_problem(circuit.installation, circuit.phases),
+        requirements.circuit_problem(circuit, supply.edition),
     ):
         if problem is not None:
             return problem

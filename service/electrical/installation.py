@@ -21,12 +21,13 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from . import boards as bv
-from . import precision, verdicts
+from . import precision, requirements, verdicts
+from .checks import installation_rules as rules
 from .circuit import check_circuits, checked_run
 from .columns import CircuitFailure
 from .errors import InvalidInput
 from .model import Circuit, Installation, Supply, Unread
-from .results import GENERAL_CAUTIONS, CircuitResult
+from .results import GENERAL_CAUTIONS, Check, CircuitResult
 from .tree import Tree, tree_of
 from .verdicts import Verdict
 
@@ -69,6 +70,7 @@ class BoardResult:
     verdict: Verdict
     not_checked: str | None = None
     cautions: list[str] = field(default_factory=list)
+    checks: list[Check] = field(default_factory=list)  # the board's own: demand, rcd-selectivity
 
 
 FIGURES = tuple(f.name for f in dataclasses.fields(BoardResult) if f.name.endswith(("_ohm", "_ka", "_a", "_percent")))
@@ -81,6 +83,8 @@ class InstallationResult:
     boards: list[BoardResult]
     summary: dict[str, int]
     cautions: list[str]
+    edition: str
+    checks: list[Check]  # the installation's own: surge-protection
 
 
 def _label(inst: Installation, b: int, c: int) -> str:
@@ -244,12 +248,16 @@ def check_installation(
         _board_result(inst, tree, b, values.get(b), demand[b], results[b], unreachable.get(b), exact)
         for b in tree.order
     ]
+    edition = rules.edition_of(inst)
+    own = [rules.surge_protection_check(inst.surge_protection, edition)]
     return InstallationResult(
         id=inst.id,
-        verdict=verdicts.overall(board.verdict for board in out),
+        verdict=verdicts.overall([board.verdict for board in out] + [c.verdict for c in own]),
         boards=out,
         summary=_summary(out),
-        cautions=list(GENERAL_CAUTIONS),
+        cautions=list(GENERAL_CAUTIONS) + [requirements.edition_caution(edition)],
+        edition=edition,
+        checks=own,
     )
 
 
@@ -307,10 +315,23 @@ def _rating(board, values: bv.BoardFaults | None) -> dict[str, Any] | None:
     }
 
 
+def _board_checks(inst: Installation, tree: Tree, b: int, demand: bv.Demand) -> list[Check]:
+    """The board's own checks: its demand against what feeds it, and RCDs in series with the one feeding it."""
+    edition, feed = rules.edition_of(inst), _upstream(inst, tree, b)[0]
+    origin = tree.feed[b] is None
+    out = [
+        rules.demand_check(demand.design_current_a, demand.missing, feed, inst.supply.rated_current_a, edition, origin)
+    ]
+    rcds = rules.rcd_selectivity_check(feed, inst.boards[b].circuits, edition)
+    return out + ([rcds] if rcds is not None else [])
+
+
 def _board_result(inst, tree, b, values, demand, results, not_checked, exact) -> BoardResult:
     board = inst.boards[b]
     rating = _rating(board, values)
+    own = _board_checks(inst, tree, b, demand)
     circuit_verdicts = [r.verdict if isinstance(r, CircuitResult) else Verdict.NOT_VERIFIED for r in results]
+    circuit_verdicts += [c.verdict for c in own]
     cautions = list(dict.fromkeys(values.cautions if values is not None else ()))
     if demand.unallocated:
         cautions.append(bv.CAUTIONS["unallocated"].format(n=demand.unallocated))
@@ -329,6 +350,7 @@ def _board_result(inst, tree, b, values, demand, results, not_checked, exact) ->
         verdict=verdicts.overall(circuit_verdicts + ([rating["verdict"]] if rating else [])),
         not_checked=not_checked,
         cautions=cautions,
+        checks=own,
     )
 
 

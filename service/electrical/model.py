@@ -39,6 +39,11 @@ class Supply:
     upstream_id: str | None = None
     selectivity_required: bool = False
     conditional_short_circuit_ka: float | None = None
+    # the rules beyond the calculations (service.electrical.requirements): the edition applied (None: the one in
+    # force), the kind of premises, and at the origin the supply's rated current (for the demand)
+    edition: str | None = None
+    premises: str | None = None
+    rated_current_a: float | None = None
 
 
 @dataclass(frozen=True)
@@ -47,6 +52,7 @@ class Rcd:
 
     residual_current_ma: float
     delay: str = "general"
+    type: str | None = None  # AC, A, F or B (531.3.3); None: not stated
 
 
 @dataclass(frozen=True)
@@ -65,6 +71,7 @@ class DeviceSpec:
     ii_a: float | None = None  # instantaneous setting
     isd_a: float | None = None  # short-time pickup
     tsd_s: float | None = None  # short-time delay
+    afdd: bool | None = None  # an arc fault detection device at the circuit's origin (421.1.7); None: not stated
 
     @cached_property  # a frozen dataclass keeps it in its __dict__; equality and hashing read the fields only
     def curve_key(self) -> tuple:
@@ -119,6 +126,19 @@ class CableRun:
     capacity_a: float | None = None  # the tabulated It from the maker or the book, in place of the data files
     voltage_drop_mv_per_a_m: float | None = None  # likewise the cable's mV/A/m
     terminals_c: float | None = None  # the equipment's terminal rating, where the cable runs above 70 degC
+    # where it runs (522.6.202/203); None: not stated
+    concealed_in_wall: str | None = None  # no, under-50-mm, 50-mm-or-deeper
+    wall_has_metal_parts: bool | None = None
+    earthed_metallic_covering: bool | None = None  # armour, earthed metal conduit or trunking, or the like
+
+
+@dataclass(frozen=True)
+class EvCharge:
+    """What an EV charge point has (Section 722): d.c. fault detection in the charger, the measure against a
+    broken PEN; None where not stated."""
+
+    dc_fault_detection: bool | None = None
+    earthing_measure: str | None = None  # open-pen-device, earth-electrode or none
 
 
 @dataclass(frozen=True)
@@ -142,6 +162,11 @@ class Circuit:
     selectivity_required: bool = False  # a fault here must not take out the board above (or the supply's)
     feeds_board: str | None = None  # the id of the board this circuit supplies (a sub-main)
     diversity: float | None = None  # the share of the design current counted in the board's demand
+    # what it supplies and where (the rules beyond the calculations); None: not stated
+    equipment: str | None = None
+    socket_outlet_rating_a: float | None = None  # the largest socket-outlet on it (None: taken as up to 32 A)
+    location: str | None = None
+    ev: EvCharge | None = None
 
 
 @dataclass(frozen=True)
@@ -181,6 +206,17 @@ class Installation:
     supply: Supply
     boards: tuple[Board, ...]
     id: str | None = None
+    surge_protection: SurgeProtection | None = None
+
+
+@dataclass(frozen=True)
+class SurgeProtection:
+    """Protection against transient overvoltages (443.4): fitted, the consequence of an overvoltage, and whether
+    the owner declined it in writing."""
+
+    fitted: bool
+    consequence: str | None = None  # human-life, safety-services, commercial or other
+    declined_in_writing: bool = False
 
 
 T = TypeVar("T")

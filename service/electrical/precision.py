@@ -29,8 +29,12 @@ RULES: dict[str, tuple[str, int]] = {
     "c": ("decimals", 1),
     "mv_per_a_m": ("significant", 3),
     "m": ("decimals", 2),
+    "ma": ("decimals", 1),
 }
-UNITS = {"ohm": "ohm", "A": "a", "kA": "ka", "s": "s", "A2s": "a2s", "mm2": "mm2", "%": "percent", "ms": "decimals-1"}
+UNITS = {
+    "ohm": "ohm", "A": "a", "kA": "ka", "s": "s", "A2s": "a2s", "mm2": "mm2", "%": "percent", "ms": "decimals-1",
+    "mA": "ma",
+}  # fmt: skip
 _BY_NAME = {"k": "k", "k_formula": "k", "k_tabulated": "k", "margin_percent": "margin_percent"}
 
 
@@ -48,6 +52,7 @@ NAMES = {
     "c": "temperatures (degC)",
     "mv_per_a_m": "mV/A/m",
     "m": "lengths (m)",
+    "ma": "residual currents (mA)",
 }
 
 

@@ -22,8 +22,9 @@ from .devices.catalogue import resolve
 from .errors import InvalidInput
 from .faults import c_min
 from .model import Circuit, DeviceSpec, Supply
-from .results import CircuitResult
+from .results import Check, CircuitResult
 from .sizing import (
+    REQUIREMENT_CHECKS,
     RULE_CHECKS,
     RULED_OUT_ORDER,
     CableRun,
@@ -116,7 +117,15 @@ def max_length(
     found = _max_length(supply, circuit, inst, demand)
     if found["max_length_m"] is not None:
         found["max_length_m"] = math.floor(found["max_length_m"] * 100) / 100
-    return precision.rounded_record(found)
+    found = precision.rounded_record(found)
+    found["requirements"] = _requirements(*_as_run(supply, circuit, inst, demand))
+    return found
+
+
+def _requirements(supply: Supply, circuit: Circuit) -> list[Check]:
+    """The rules beyond the calculations for the circuit (they do not depend on its length)."""
+    outcome = check_circuits(supply, [circuit])[0]
+    return [] if isinstance(outcome, CircuitFailure) else [c for c in outcome.checks if c.check in REQUIREMENT_CHECKS]
 
 
 def _max_length(

@@ -13,7 +13,7 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from . import precision, verdicts
+from . import precision, requirements, verdicts
 from .verdicts import Verdict
 
 if TYPE_CHECKING:
@@ -187,7 +187,8 @@ def verdict_scopes(checked: Checked, scope: Sequence[str] | None) -> tuple[np.nd
     """Overall verdict codes over the checks that count and are in scope, and what each result covered.
 
     ``covered``: the checks the verdict rests on; ``left_out``: the checks reported but outside it (not in the
-    request's ``checks``, or reported only, like selectivity where it is not required).
+    request's ``checks``, or reported only, like selectivity where it is not required); ``not_assessed``: what the
+    service does not judge at all (the same on every result), so that a pass says exactly what it covers.
     """
     n = checked.cols.n
     applies = [np.ones(n, bool) if c.applies is None else np.asarray(c.applies, bool) for c in checked.checks]
@@ -204,11 +205,13 @@ def verdict_scopes(checked: Checked, scope: Sequence[str] | None) -> tuple[np.nd
     weights = 1 << np.arange(len(names), dtype=np.int64)
     patterns = (shown.T.astype(np.int64) @ weights) << len(names) | (counts.T.astype(np.int64) @ weights)
     spelled: dict[int, dict[str, list[str]]] = {}
+    not_assessed = requirements.not_assessed()
     for p in set(patterns.tolist()):
         s, k = p >> len(names), p & ((1 << len(names)) - 1)
         spelled[p] = {
             "covered": [x for j, x in enumerate(names) if k >> j & 1],
             "left_out": [x for j, x in enumerate(names) if s >> j & 1 and not k >> j & 1],
+            "not_assessed": not_assessed,
         }
     return codes, [spelled[p] for p in patterns.tolist()]
 

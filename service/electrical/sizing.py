@@ -18,15 +18,16 @@ from typing import Any
 
 from . import capacity as cap
 from . import conductors as cond
-from . import precision
+from . import precision, requirements
 from .circuit import check_circuits
 from .columns import CircuitFailure, device_problem
 from .datafiles import core_table
 from .devices import adjustable, catalogue
 from .errors import ElectricalError, InvalidInput, NoRule
-from .model import CableRun, Circuit, Conductors, DeviceSpec, Supply
+from .model import CableRun, Circuit, Conductors, DeviceSpec, EvCharge, Supply
 from .protective import selection_csa_mm2
-from .results import CircuitResult
+from .results import Check, CircuitResult
+from .sizing_notes import arrangement_cautions, never_shown, sizing_cautions
 from .verdicts import Verdict
 
 # what rules a size out, in the order tried; breaking capacity is the device's, not the cable's, and never does
@@ -61,6 +62,11 @@ class Demand:
     ring: bool = False  # a ring final circuit (433.1.204): length_m is the whole ring
     cpc: str = "cable"  # the family's own cpc (a core, the twin-and-earth cpc, Table 54.7), or "armour"
     cores: int | None = None  # an armoured cable's cores, for its armour as the cpc
+    # what it supplies and where, for the rules beyond the calculations (as on a Circuit)
+    equipment: str | None = None
+    socket_outlet_rating_a: float | None = None
+    location: str | None = None
+    ev: EvCharge | None = None
 
 
 INSTALLATION_FIELDS = frozenset(f.name for f in dataclasses.fields(CableRun))
@@ -104,6 +110,10 @@ class SizingResult:
     tried: list[SizeTried]
     cautions: list[str] = field(default_factory=list)
     circuit: Circuit | None = None  # the chosen size's circuit, as checked (the longest run searches on it)
+    requirements: list[Check] = field(default_factory=list)  # the rules beyond the calculations, for the design
+
+
+REQUIREMENT_CHECKS = ("additional-protection", "rcd-type", "arc-fault-detection", "ev-earthing")
 
 
 def design_current(demand: Demand, u0_v: float) -> float:
@@ -242,6 +252,10 @@ def _candidates(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSp
                 conditional_short_circuit_ka=demand.conditional_short_circuit_ka,
                 use=demand.use,
                 voltage_drop_limit_percent=demand.voltage_drop_limit_percent,
+                equipment=demand.equipment,
+                socket_outlet_rating_a=demand.socket_outlet_rating_a,
+                location=demand.location,
+                ev=demand.ev,
             )
         )
         rows.append((size, cpc))
@@ -286,15 +300,32 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
     Every size is checked at once through the array path: the overload check (Ib <= In <= Iz, 433.1.1), the
     voltage drop (Appendix 4, 6.4) and the fault checks. Each smaller size is reported with the rule that
     ruled it out. A fault check that cannot be shown for any size (the data are missing, not the copper)
-    does not rule sizes out: a caution says so.
+    does not rule sizes out: a caution says so. The rules beyond the calculations do not depend on the size:
+    where the device given fails one that a device can meet (a 30 mA RCD of the right type, an AFDD), the
+    circuit is sized with the device the rules call for, and the answer says so; the others are reported in
+    ``requirements`` with a caution each.
     """
+    result = _size(supply, demand, inst, device)
+    amended, said = requirements.required_device(device, result.requirements, demand.equipment, demand.ev)
+    if amended != device:
+        result = _size(supply, demand, inst, amended)
+        result.cautions[:0] = said
+    result.cautions += [
+        f"The {c.check} requirement is {c.verdict} for this circuit ({c.basis}): {c.note}."
+        for c in result.requirements
+        if c.verdict != Verdict.PASS
+    ]
+    return result
+
+
+def _size(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec) -> SizingResult:
     ib = design_current(demand, supply.u0_v)
     check_arrangement(demand)
     with installation_paths():
         cap.derating(inst, cap.cable_table(inst.cable)["insulation"], device.standard, 0.0)  # the run itself, once
         in_a, insulation, circuits, rows = _candidates(supply, demand, inst, device, ib)
         outcomes = check_circuits(dataclasses.replace(supply, supply_kind=demand.supply_kind), circuits)
-    lenient = _never_shown(outcomes)
+    lenient = never_shown(outcomes, [n for n in RULED_OUT_ORDER if n not in RULE_CHECKS])
     tried: list[SizeTried] = []
     selected = chosen = None
     for (size, cpc), circuit, outcome in zip(rows, circuits, outcomes, strict=True):
@@ -324,59 +355,20 @@ def size_circuit(supply: Supply, demand: Demand, inst: CableRun, device: DeviceS
         rule = precision.rule_for_unit(unit) if unit != "%" else precision.RULES["percent"]
         value, limit = (None if v is None else float(precision.rounded(v, rule)) for v in (value, limit))
         tried.append(SizeTried(size.csa_mm2, cpc, Verdict.FAIL, name, value, limit, unit))
+    first = next((o for o in outcomes if isinstance(o, CircuitResult)), None)
+    shown = selected["check"] if selected is not None else first
     return SizingResult(
         design_current_a=ib,
-        device={"standard": device.standard, "type": device.type, "rating_a": in_a},
+        device={
+            "standard": device.standard,
+            "type": device.type,
+            "rating_a": in_a,
+            "rcd": None if device.rcd is None else vars(device.rcd),
+            "afdd": device.afdd,
+        },
         selected=selected,
         tried=tried,
-        cautions=_sizing_cautions(selected, inst, lenient, outcomes) + _arrangement_cautions(demand),
+        cautions=sizing_cautions(selected, inst, lenient, outcomes) + arrangement_cautions(demand),
         circuit=chosen,
+        requirements=[] if shown is None else [c for c in shown.checks if c.check in REQUIREMENT_CHECKS],
     )
-
-
-def _never_shown(outcomes: list) -> frozenset[str]:
-    """The fault checks that are not-verified for every size tried (the data, not the size, are missing)."""
-    results = [o for o in outcomes if not isinstance(o, CircuitFailure)]
-    names = [n for n in RULED_OUT_ORDER if n not in RULE_CHECKS]
-    return frozenset(
-        n
-        for n in names
-        if results and all((c := r.check(n)) is not None and c.verdict == Verdict.NOT_VERIFIED for r in results)
-    )
-
-
-def _arrangement_cautions(demand: Demand) -> list[str]:
-    out = []
-    if demand.parallel_cables > 1:
-        out.append(
-            f"{demand.parallel_cables} cables in parallel are taken to share the load equally (523.7): the same "
-            "type, size, length and route, connected together at both ends."
-        )
-    if demand.cpc == "armour":
-        out.append(
-            "The armour as the cpc: its resistance is worked from the armour's cross-section (makers' tables, see "
-            "the data file's confidence); the glands must be made to carry the fault current."
-        )
-    return out
-
-
-def _sizing_cautions(selected: dict[str, Any] | None, inst: CableRun, lenient: frozenset[str], outcomes) -> list[str]:
-    out = []
-    for name in sorted(lenient):
-        note = next(
-            (c.note for o in outcomes if not isinstance(o, CircuitFailure) for c in o.checks if c.check == name), None
-        )
-        out.append(
-            f"The {name} check cannot be shown for any size from the data given ({note}); sizes were not ruled "
-            "out by it."
-        )
-    if selected is None:
-        return out + ["No tabulated size passes every check for this load, length and installation."]
-    if "M" in (selected["capacity"].confidence or ""):
-        out.append(
-            f"The capacity of {selected['line_csa_mm2']:g} mm2 by method {inst.installation_method} is from memory "
-            "(unverified): confirm it in BS 7671 before relying on it."
-        )
-    if any("from memory" in f["basis"] for f in (selected["capacity"].factors or {}).values()):
-        out.append("A correction factor used is from memory (unverified): see the factors' bases.")
-    return out

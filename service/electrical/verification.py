@@ -218,6 +218,20 @@ def judge_rcd_times(ctx: Context) -> list[Judgement]:
     return out
 
 
+RCD_REQUIREMENTS = ("additional-protection", "rcd-type")
+
+
+def judge_rcd_requirement(ctx: Context) -> list[Judgement]:
+    """Whether the circuit has the RCD the rules call for (a 30 mA RCD where required, of a suitable type): the
+    design's own checks of those rules (additional-protection, rcd-type), the same whatever was measured."""
+    out = []
+    for name in RCD_REQUIREMENTS:
+        c = ctx.design.check(name)
+        if c is not None:
+            out.append(Judgement(name, c.verdict, c.value, c.limit, c.unit, c.basis, c.note))
+    return out
+
+
 def judge_polarity(ctx: Context) -> list[Judgement]:
     """Polarity confirmed (BS 7671:2018 643.6)."""
     confirmed = ctx.measured.polarity_confirmed
@@ -322,6 +336,7 @@ def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured)
     out = [judgement for judge in JUDGES for judgement in judge(ctx)]
     if not out:
         raise InvalidInput("measured", "give at least one measured value")
+    out += judge_rcd_requirement(ctx)
     cautions = list(design.cautions[:3])
     if m.insulation_resistance_megohm is not None:
         cautions.append(CAUTION_TABLE_64)

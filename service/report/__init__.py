@@ -15,7 +15,7 @@ from ..electrical.columns import CircuitFailure
 from ..electrical.devices.catalogue import resolve
 from ..electrical.installation import BoardResult, InstallationResult
 from ..electrical.model import Circuit, Installation, Unread
-from ..electrical.results import CircuitResult
+from ..electrical.results import GENERAL_CAUTIONS, CircuitResult
 from ..electrical.verdicts import Verdict
 from ..picture import coordination_svg
 
@@ -32,10 +32,37 @@ def _cable(circuit: Circuit) -> str:
     return f"{parallel}{c.line_csa_mm2:g}/{c.cpc_csa_mm2:g} mm2 {c.material}, {c.length_m:g} m{ring}"
 
 
+# what each check is, in the words of a designer's schedule
+CHECK_WORDS = {
+    "disconnection-time": "earth fault disconnection time",
+    "max-zs": "earth fault loop impedance (Zs)",
+    "short-circuit": "short circuit of the live conductors",
+    "protective-conductor": "protective conductor size",
+    "breaking-capacity": "breaking capacity",
+    "overload": "overload protection",
+    "voltage-drop": "voltage drop",
+    "rcd": "RCD fault protection (Zs x IΔn <= 50 V)",
+    "additional-protection": "30 mA RCD (additional protection)",
+    "rcd-type": "RCD type",
+    "arc-fault-detection": "arc fault detection (AFDD)",
+    "ev-earthing": "EV charge point earthing (broken PEN)",
+    "selectivity": "selectivity with the device above",
+    "demand": "demand against what feeds the board",
+    "rcd-selectivity": "RCDs in series",
+    "surge-protection": "surge protection",
+}
+
+
+def _own_cautions(item: CircuitResult) -> list[str]:
+    """The circuit's own cautions (the general ones are said once, at the top)."""
+    return [text for text in item.cautions if text not in GENERAL_CAUTIONS]
+
+
 def _row(item: Any, circuit: Any, problems: Sequence[str]) -> dict[str, Any]:
     """One line of a board's schedule."""
     if isinstance(item, CircuitResult):
         return {
+            "cautions": _own_cautions(item),
             "id": item.id,
             "device": item.device["label"],
             "cable": _cable(circuit),
@@ -97,7 +124,9 @@ def report_html(
         pictures = [] if board.not_checked else _pictures(board, circuits, upstream)
         sections.append({"board": board, "rows": rows, "pictures": pictures})
     when = (generated or dt.datetime.now(dt.UTC)).strftime("%Y-%m-%d %H:%M UTC")
-    return ENV.get_template("report.html").render(inst=inst, result=result, sections=sections, generated=when)
+    return ENV.get_template("report.html").render(
+        inst=inst, result=result, sections=sections, generated=when, words=CHECK_WORDS
+    )
 
 
 def _upstream_of(inst: Installation, result: InstallationResult, board: BoardResult) -> Any:

@@ -77,7 +77,9 @@ def test_circuit_check_example(client):
         "breaking-capacity",
         "overload",
         "voltage-drop",
+        "additional-protection",  # a cooker in a shop, on the surface: no 30 mA RCD required (BS 7671 411.3)
     ]
+    assert r["edition"] == "BS 7671:2018+A4:2026" and r["verdict_scope"]["not_assessed"]
     # 7.3 mV/A/m (Table 4D5, 6 mm2, from memory) x 26 A x 18 m = 3.42 V = 1.49 % of 230 V
     assert r["voltage_drop_from_origin_percent"] == 1.49
     assert all(c["verdict"] == "pass" for c in r["checks"])

@@ -201,7 +201,10 @@ def test_batch_streams_ndjson_in_order(client):
     lines = [json.loads(line) for line in r.get_data(as_text=True).splitlines()]
     assert [line.get("index") for line in lines[:3]] == [0, 1, 2]
     assert "result" in lines[0] and "problem" in lines[1] and "result" in lines[2]
-    assert lines[3] == {"summary": {"circuits": 3, "pass": 2, "fail": 0, "not-verified": 0, "invalid": 1}}
+    assert lines[3] == {
+        "summary": {"circuits": 3, "pass": 2, "fail": 0, "not-verified": 0, "invalid": 1},
+        "edition": "BS 7671:2018+A4:2026",
+    }
     plain = client.post("/v1/circuits/check-batch?form=full", json=body).get_json()
     assert [line for line in lines[:3]] == plain["results"]
 

@@ -13,7 +13,7 @@ from pathlib import Path
 from faultpath_client import AuthenticatedClient
 from faultpath_client.api.circuits import check_circuit, check_circuits
 from faultpath_client.api.sizing import size_circuit
-from faultpath_client.models import BatchRequest, CheckRequest, CircuitResult, LeanBatch, Problem, SizeRequest
+from faultpath_client.models import BatchRequest, CheckAnswer, CheckRequest, LeanBatch, Problem, SizeRequest
 
 EXAMPLES = Path(os.environ.get("FAULTPATH_EXAMPLES", "schemas/examples"))
 client = AuthenticatedClient(
@@ -27,8 +27,8 @@ def example(name):
 
 # one circuit
 result = check_circuit.sync(client=client, body=CheckRequest.from_dict(example("circuits-check.json")))
-assert isinstance(result, CircuitResult), result
-print("check:", result.id, result.verdict.value, "Zs", result.zs_ohm, "ohm")
+assert isinstance(result, CheckAnswer), result
+print("check:", result.id, result.verdict.value, "Zs", result.zs_ohm, "ohm,", result.edition.value)
 
 # a batch with one bad item: the lean table, one cell per circuit; the bad one is a problem in its place
 batch = check_circuits.sync(client=client, body=BatchRequest.from_dict(example("circuits-check-batch.json")))

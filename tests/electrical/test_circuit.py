@@ -16,8 +16,9 @@ from service.electrical.circuit import check_circuit, check_circuits
 from service.electrical.errors import UnknownDevice
 from service.electrical.model import CableRun, Circuit, Conductors, DeviceSpec, Rcd, Supply
 
-BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)
-CLIPPED = CableRun("flat-twin-earth-70c", "C")  # BS 7671 Table 4D5, clipped direct, 30 degC, alone
+BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1, premises="other")
+# BS 7671 Table 4D5, clipped direct, 30 degC, alone; on the surface, not concealed in a wall (522.6.202 does not bite)
+CLIPPED = CableRun("flat-twin-earth-70c", "C", concealed_in_wall="no")
 ZPN = 230 / 2100
 
 
@@ -34,6 +35,8 @@ def oven(**changes):
         "installation": CLIPPED,
         "device": DeviceSpec(rating_a=32, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
         "conductors": Conductors("copper", "thermoplastic-70", 6, 2.5, 18),
+        "equipment": "cooker",
+        "location": "general",
     }
     return Circuit(**{**fields, **changes})
 
@@ -62,7 +65,11 @@ def test_oven_radial_b32_passes():
     assert r.min_short_circuit_current_a == pytest.approx(218.5 / (ZPN + 0.133056), abs=0.05)
     assert r.short_circuit["withstand_a2s"] == pytest.approx(476_000, rel=1e-3)
     assert r.overload["iz_a"] == 47 and r.check("overload").verdict == "pass"
-    assert r.verdict == "pass" and r.verdict_scope == {"covered": [c.check for c in r.checks], "left_out": []}
+    assert r.verdict == "pass" and r.verdict_scope["covered"] == [c.check for c in r.checks]
+    assert (
+        r.verdict_scope["left_out"] == []
+        and "isolation and switching (Chapter 46, 537)" in r.verdict_scope["not_assessed"]
+    )
     assert [c.check for c in r.checks] == [
         "disconnection-time",
         "max-zs",
@@ -71,6 +78,7 @@ def test_oven_radial_b32_passes():
         "breaking-capacity",
         "overload",
         "voltage-drop",
+        "additional-protection",  # a cooker in a shop, on the surface: no 30 mA RCD required (411.3.3, 411.3.4)
     ]
     # voltage drop: 7.3 mV/A/m (Table 4D5, 6 mm2, from memory) x 28 A x 18 m = 3.68 V = 1.60 % of 230 V <= 5 %
     assert r.voltage_drop_from_origin_percent == pytest.approx(7.3 * 28 * 18 / 1000 / 230 * 100, abs=0.01)
@@ -89,8 +97,9 @@ def test_shop_ring_rcbo_passes():
         load="socket-outlets",
         design_current_a=26,
         installation=CLIPPED,
-        device=DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30)),
+        device=DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30, type="A")),
         conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 64, ring=True),
+        location="general",
     )
     r = check_circuit(BAKERY, ring)
     assert r.r1_plus_r2_ohm == pytest.approx(0.374592, abs=1e-4)
@@ -99,7 +108,9 @@ def test_shop_ring_rcbo_passes():
     assert checks["rcd"].limit == pytest.approx(1666.67, abs=0.01) and checks["rcd"].verdict == "pass"
     assert checks["overload"].value == 20 and "433.1.204" in checks["overload"].basis
     assert r.verdict == "pass"
-    assert not any("411.3.3" in c for c in r.cautions)  # 30 mA additional protection is fitted
+    # 411.3.3: socket-outlets up to 32 A need a 30 mA RCD; the RCBO is one, of type A (531.3.3)
+    assert checks["additional-protection"].verdict == "pass" and checks["additional-protection"].limit == 30
+    assert checks["rcd-type"].verdict == "pass"
 
 
 def test_outbuilding_submain_bs88_63a_passes_on_an_estimated_time():
@@ -164,7 +175,7 @@ def test_tt_kiosk_relies_on_its_rcd():
     # RCD: 10.12 A >= 5 x 30 mA, so <= 40 ms <= 0.2 s (Table 41.1, TT, 230 V)
     # RA = 20 + 0.363 = 20.363 ohm; RA x IΔn = 0.61 V <= 50 V (411.5.3)
     # PFC = 1.10 x 230 / 0.45 = 562.2 A from the line-neutral loop: in TT, never from Ze (434.1)
-    kiosk = Supply(earthing="TT", u0_v=230, ze_ohm=21, electrode_ohm=20, line_neutral_loop_ohm=0.45)
+    kiosk = Supply(earthing="TT", u0_v=230, ze_ohm=21, electrode_ohm=20, line_neutral_loop_ohm=0.45, premises="other")
     r = check_circuit(
         kiosk,
         Circuit(
@@ -173,8 +184,11 @@ def test_tt_kiosk_relies_on_its_rcd():
             load="socket-outlets",
             design_current_a=13,
             installation=CLIPPED,
-            device=DeviceSpec(rating_a=16, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30)),
+            device=DeviceSpec(
+                rating_a=16, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30, type="A")
+            ),
             conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 25),
+            location="outdoors",
         ),
     )
     checks = by_name(r)
@@ -251,7 +265,7 @@ def test_an_earth_fault_only_question_gets_a_clean_answer():
     assert everything.verdict == "not-verified"  # no design current: the overload check cannot be made
     earth_fault = check_circuit(BAKERY, circuit, ["disconnection-time", "max-zs", "protective-conductor"])
     assert earth_fault.verdict == "pass"
-    left_out = ["short-circuit", "breaking-capacity", "overload", "voltage-drop"]
+    left_out = ["short-circuit", "breaking-capacity", "overload", "voltage-drop", "additional-protection"]
     assert earth_fault.verdict_scope["left_out"] == left_out
 
 

@@ -51,10 +51,31 @@ def test_store_sockets_sizing_by_hand():
     s = r.selected
     assert (s["line_csa_mm2"], s["cpc_csa_mm2"]) == (4.0, 1.5)
     assert s["voltage_drop"]["percent"] == pytest.approx(9.24 / 230 * 100, abs=0.01)
-    assert s["check"].r1_plus_r2_ohm == pytest.approx(0.70182, abs=1e-4) and s["check"].verdict == "pass"
+    assert s["check"].r1_plus_r2_ohm == pytest.approx(0.70182, abs=1e-4)
     assert s["check"].protective_conductor["min_csa_mm2"] == pytest.approx(math.sqrt(18_000) / 115, abs=1e-3)
     assert s["capacity"].it_a == 37 and s["capacity"].iz_a == 37  # Table 4D5 4 mm2 clipped (from memory), no factor
     assert any("from memory" in c for c in r.cautions)  # Table 4D5 4 mm2 C is not sourced
+    # sockets up to 32 A need a 30 mA RCD (BS 7671 411.3.3) of type A at least (531.3.3): the breaker was given
+    # without one, so the design says which device the rules call for and is checked with it
+    assert r.device["rcd"] == {"residual_current_ma": 30, "delay": "general", "type": "A"}
+    assert any("30 mA RCD of type A" in c for c in r.cautions)
+    # the premises are not stated: whether an AFDD is required (421.1.7) stays open, and the answer says so
+    assert s["check"].verdict == "not-verified" and s["check"].check("arc-fault-detection").verdict == "not-verified"
+    assert {c.check: c.verdict for c in r.requirements}["additional-protection"] == "pass"
+
+
+def test_sizing_for_an_hmo_adds_the_afdd_the_rules_call_for():
+    # 421.1.7: socket-outlet circuits in a house in multiple occupation need an AFDD; 411.3.3 a 30 mA RCD
+    hmo = dataclasses.replace(STORE, premises="multiple-occupation")
+    r = size_circuit(
+        hmo,
+        Demand(length_m=20, design_current_a=16, load="socket-outlets", location="general"),
+        CableRun("flat-twin-earth-70c", "C", concealed_in_wall="50-mm-or-deeper", wall_has_metal_parts=False),
+        DeviceSpec(rating_a=1, standard="BS EN 60898", type="B", breaking_capacity_ka=6, afdd=False),
+    )
+    assert r.device["afdd"] is True and r.device["rcd"]["residual_current_ma"] == 30
+    assert r.selected["check"].verdict == "pass"
+    assert all(c.verdict == "pass" for c in r.requirements)
 
 
 DEVICES = [DeviceSpec(rating_a=1, standard="BS EN 60898", type=t, breaking_capacity_ka=10) for t in "BC"] + [

@@ -3,6 +3,8 @@
 Invented demo scenario: Larkspur Bakery's shop ring and oven radial.
 """
 
+import dataclasses
+
 import pytest
 
 from service.electrical.columns import CircuitFailure
@@ -21,7 +23,7 @@ RING = Circuit(
     id="ring",
     role="final",
     load="socket-outlets",
-    device=DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30)),
+    device=DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30, type="A")),
     conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 64, ring=True),
 )
 
@@ -61,6 +63,19 @@ def test_rcd_times_insulation_and_polarity():
     assert j["rcd-time-idn"].limit == 300 and j["rcd-time-5idn"].limit == 40
     assert j["insulation-resistance"].verdict == "pass" and j["polarity"].verdict == "pass" and out.verdict == "pass"
     assert any("Table 64" in c for c in out.cautions)
+
+
+def test_the_rcd_the_rules_call_for_is_judged_from_the_same_rules():
+    # BS 7671 411.3.3: socket-outlets up to 32 A need a 30 mA RCD; 531.3.3: of a type that suits the load
+    m = Measured(polarity_confirmed=True)
+    (fitted,) = verify(BAKERY, [(RING, m)])
+    assert judged(fitted)["additional-protection"].verdict == "pass" and judged(fitted)["rcd-type"].verdict == "pass"
+    plain = dataclasses.replace(RING, device=DeviceSpec(rating_a=32, standard="BS EN 60898", type="B"))
+    (bare,) = verify(BAKERY, [(plain, m)])
+    assert judged(bare)["additional-protection"].verdict == "fail" and bare.verdict == "fail"
+    untyped = dataclasses.replace(RING, device=dataclasses.replace(RING.device, rcd=Rcd(30)))
+    (open_,) = verify(BAKERY, [(untyped, m)])
+    assert judged(open_)["rcd-type"].verdict == "not-verified" and "device.rcd.type" in judged(open_)["rcd-type"].note
 
 
 def test_an_rcd_time_on_a_circuit_without_an_rcd_names_the_measurement():

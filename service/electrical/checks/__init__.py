@@ -7,13 +7,17 @@ of its own here, with its clause texts beside it) and one entry in :data:`STEPS`
 
 from __future__ import annotations
 
+from .additional_protection import additional_protection
+from .arc_fault import arc_fault_detection
 from .base import CheckColumns, Step
 from .breaking_capacity import breaking_capacity
 from .disconnection_time import disconnection_time
+from .ev_earthing import ev_earthing
 from .max_zs import max_zs
 from .overload import overload
 from .protective_conductor import protective_conductor
 from .rcd import rcd
+from .rcd_type import rcd_type
 from .selectivity import selectivity_check
 from .short_circuit import short_circuit
 from .voltage_drop import voltage_drop
@@ -29,6 +33,10 @@ STEPS: tuple[Step, ...] = (
     overload,
     voltage_drop,
     rcd,
+    additional_protection,
+    rcd_type,
+    arc_fault_detection,
+    ev_earthing,
     selectivity_check,
 )
 CHECKS: tuple[str, ...] = tuple(step.check_name for step in STEPS)  # type: ignore[attr-defined]

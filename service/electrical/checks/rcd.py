@@ -1,7 +1,7 @@
 """The rcd check: Zs (TN) or RA (TT) x IΔn <= 50 V where an RCD is fitted (BS 7671:2018 411.4.5, 411.5.3).
 
-Also the RCD's cautions: additional protection of socket-outlets (411.3.3) and an unstable electrode
-(note to Table 41.5).
+Also the RCD's cautions: an unstable electrode (note to Table 41.5). Whether a 30 mA RCD is required is the
+additional-protection check's.
 """
 
 from __future__ import annotations
@@ -28,10 +28,6 @@ CAUTIONS = {
         "The loop the RCD is credited on is above 200 ohm: such a value may not be stable (note to BS 7671:2018 "
         "Table 41.5); on TN it points to a fault in the protective conductor path."
     ),
-    "additional-protection": (
-        "Socket-outlets rated up to 32 A need additional protection by a 30 mA RCD (BS 7671:2018 411.3.3), "
-        "unless an exception applies."
-    ),
 }
 
 
@@ -45,7 +41,6 @@ def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Ea
         [cols.has_rcd & ~trip.rcd_credited, cols.tt & np.isnan(cols.electrode_ohm)],
         [NOTES["dc"], NOTES["ra-not-given"]],
     )
-    sockets = (cols.role == "final") & (cols.load == "socket-outlets") & (cols.rating_a <= 32)
     stable = residual.stable_resistance_limit_ohm()
     with np.errstate(invalid="ignore"):
         unstable = cols.tt & cols.has_rcd & (cols.electrode_ohm > stable)
@@ -59,9 +54,5 @@ def rcd(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Ea
         basis,
         note,
         applies=cols.has_rcd,
-        cautions=[
-            (unstable, CAUTIONS["electrode-unstable"]),
-            (high_loop, CAUTIONS["loop-unstable"]),
-            (sockets & (cols.residual_ma > residual.additional_protection_max_ma()), CAUTIONS["additional-protection"]),
-        ],
+        cautions=[(unstable, CAUTIONS["electrode-unstable"]), (high_loop, CAUTIONS["loop-unstable"])],
     )

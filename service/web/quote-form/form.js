@@ -37,15 +37,25 @@ function device() {
   const d = {standard: standard, type: type};
   const icn = number("icn");
   if (icn !== undefined) d.breaking_capacity_ka = icn;
-  if (standard === "BS EN 61009") d.rcd = {residual_current_ma: 30};
+  if (standard === "BS EN 61009") d.rcd = {residual_current_ma: 30, type: "A"};
+  return d;
+}
+
+// The device the sizing chose: its rating, and the RCD or AFDD the rules call for where it added one.
+function chosenDevice(chosen) {
+  const d = Object.assign(device(), {rating_a: chosen.rating_a});
+  if (chosen.rcd) d.rcd = {residual_current_ma: chosen.rcd.residual_current_ma, delay: chosen.rcd.delay, type: chosen.rcd.type};
+  if (chosen.afdd !== null) d.afdd = chosen.afdd;
   return d;
 }
 
 function sizeRequest() {
   return {
-    supply: supply(), id: "quote", role: "final", load: byId("load").value, use: byId("use").value,
+    supply: supply(), premises: byId("premises").value, id: "quote", role: "final", load: byId("load").value,
+    use: byId("use").value, location: byId("location").value,
     design_current_a: number("current"), length_m: number("length"),
-    installation: {cable: byId("cable").value, installation_method: byId("method").value, ambient_c: number("ambient")},
+    installation: {cable: byId("cable").value, installation_method: byId("method").value, ambient_c: number("ambient"),
+                   concealed_in_wall: byId("concealed").value},
     device: device(),
   };
 }
@@ -80,7 +90,9 @@ function text(value, unit) {
 
 function render(size, check, svg) {
   const sel = size.selected;
-  byId("price-device").textContent = `${size.device.standard} type ${size.device.type} ${size.device.rating_a} A`;
+  const rcd = size.device.rcd ? `, with a ${size.device.rcd.residual_current_ma} mA RCD of type ${size.device.rcd.type}` : "";
+  const afdd = size.device.afdd ? ", with an AFDD" : "";
+  byId("price-device").textContent = `${size.device.standard} type ${size.device.type} ${size.device.rating_a} A${rcd}${afdd}`;
   byId("price-cable").textContent = `${sel.line_csa_mm2} mm² line, ${sel.cpc_csa_mm2} mm² cpc (${byId("cable").selectedOptions[0].textContent}), Iz ${text(sel.capacity.iz_a, "A")}, voltage drop ${text(sel.voltage_drop.percent, "%")}`;
   const reach = size.max_length;
   byId("price-reach").textContent = reach && reach.max_length_m ? `${text(reach.max_length_m, "m")} (limited by ${reach.limited_by})` : "-";
@@ -130,14 +142,15 @@ byId("quote").addEventListener("submit", async (event) => {
     }
     const circuit = {
       id: "quote", role: "final", load: byId("load").value, design_current_a: size.design_current_a,
-      device: Object.assign(device(), {rating_a: size.device.rating_a}),
+      device: chosenDevice(size.device), location: byId("location").value,
       conductors: {material: size.selected.material, insulation: size.selected.insulation,
                    line_csa_mm2: size.selected.line_csa_mm2, cpc_csa_mm2: size.selected.cpc_csa_mm2, length_m: number("length")},
       installation: sizeRequest().installation,
     };
     byId("status").textContent = "Checking…";
-    const check = await call("/v1/circuits/check", {supply: supply(), circuit: circuit});
-    const svg = await call("/v1/circuits/picture", {supply: supply(), circuit: circuit}, "image/svg+xml");
+    const body = {premises: byId("premises").value, supply: supply(), circuit: circuit};
+    const check = await call("/v1/circuits/check", body);
+    const svg = await call("/v1/circuits/picture", body, "image/svg+xml");
     render(size, check, svg);
     byId("status").textContent = "Done.";
   } catch (error) {

@@ -34,6 +34,10 @@ def test_every_step_is_named_once_in_results_order():
         "overload",
         "voltage-drop",
         "rcd",
+        "additional-protection",
+        "rcd-type",
+        "arc-fault-detection",
+        "ev-earthing",
         "selectivity",
     )
     assert len(set(CHECKS)) == len(STEPS)

@@ -1,0 +1,56 @@
+"""The ev-earthing check: a charge point on a PME (TN-C-S) supply outdoors needs a measure against a broken PEN
+(BS 7671:2018 722.411.4.1): its own earth electrode (TT), or a device that disconnects on a broken PEN.
+
+Applies to every EV charge point. On TN-S and TT supplies the rule does not bite (pass, said in the note).
+Where the charge point's location or measure is not stated on a PME supply, not-verified, naming the field.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .. import verdicts
+from ..columns import CircuitColumns
+from ..faults import FaultLoop
+from ..response import DeviceResponse
+from .base import CheckColumns, Earlier, check_step, pick
+from .facts import among, bases, stated, unknown
+
+NOTES = {
+    "not-pme": "not a PME (TN-C-S) supply",
+    "measure": "a measure against a broken PEN is fitted",
+    "none-outdoors": "a PME earthing facility used for a charge point outdoors, with no measure against a broken PEN",
+    "measure-unsaid": "not stated: give ev.earthing_measure (open-pen-device, earth-electrode or none)",
+    "location": "not stated: give the charge point's location (outdoors or not), or ev.earthing_measure",
+    "indoors": "not outdoors: the charge point's location is stated as not outdoors",
+}
+MEASURES = ("open-pen-device", "earth-electrode")
+
+
+@check_step("ev-earthing", unit="")
+def ev_earthing(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlier: Earlier) -> CheckColumns:
+    """Fail where a charge point outdoors on PME has no measure against a broken PEN; pass where one is fitted,
+    the supply is not PME, or the charge point is stated to be elsewhere than outdoors."""
+    n = cols.needs
+    pme = cols.earthing == "TN-C-S"
+    outdoors = stated(n.location, "outdoors")
+    conditions = [
+        ~pme,
+        among(n.ev_earthing_measure, MEASURES),
+        outdoors & stated(n.ev_earthing_measure, "none"),
+        outdoors & unknown(n.ev_earthing_measure),
+        unknown(n.location),
+    ]
+    codes = [verdicts.PASS, verdicts.PASS, verdicts.FAIL, verdicts.NOT_VERIFIED, verdicts.NOT_VERIFIED]
+    texts = [NOTES[k] for k in ("not-pme", "measure", "none-outdoors", "measure-unsaid", "location")]
+    empty = np.full(cols.n, np.nan)
+    return CheckColumns(
+        "ev-earthing",
+        "",
+        verdicts.codes(np.select(conditions, codes, verdicts.PASS)),
+        empty,
+        empty,
+        bases(n.edition, [], [], "ev-earthing"),
+        pick(conditions, texts, NOTES["indoors"]),
+        applies=n.ev & (cols.role == "final"),
+    )

@@ -1,0 +1,115 @@
+"""The checks of a board and of a whole installation (not of one circuit): each a function returning one
+:class:`~service.electrical.results.Check`, its clause from data/requirements.json under the edition asked.
+
+- ``demand`` (311.1): a board's demand after diversity within the rating of the device feeding it; at the origin,
+  within the supply's rated current (and the main device's rating, where given).
+- ``rcd-selectivity`` (536.4.1.4): an RCD on a circuit of a board fed through an RCD is selective with it only
+  where the upstream one is time-delayed (S) and its IΔn at least three times the downstream one's.
+- ``surge-protection`` (443.4): fitted, or not required by the stated consequence, or declined in writing
+  where that is allowed.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+from .. import requirements
+from ..devices.catalogue import resolve
+from ..model import Circuit, DeviceSpec, Installation, SurgeProtection, Unread
+from ..results import Check
+from ..verdicts import Verdict
+
+BOARD_CHECKS = ("demand", "rcd-selectivity")
+INSTALLATION_CHECKS = ("surge-protection",)
+SURGE_REQUIRED = ("human-life", "safety-services", "commercial")
+
+
+def _check(name: str, verdict: Verdict, value, limit, unit: str, edition: str, rule: str, note: str) -> Check:
+    margin = None
+    if value is not None and limit:
+        margin = round((limit - value) / limit * 100.0, 1)
+    return Check(name, verdict, value, limit, unit, margin, requirements.rule(edition, rule)["basis"], note)
+
+
+def demand_check(
+    demand_a: float, missing: Sequence[str], feed: DeviceSpec | None, rated_a: float | None, edition: str, origin: bool
+) -> Check:
+    """A board's demand after diversity (A, the largest phase's) against what feeds it (BS 7671:2018 311.1).
+
+    ``feed`` is the device feeding the board (the sub-main's, or the origin's main device); ``rated_a`` the
+    supply's rated current at the origin. Not-verified where the demand is incomplete or nothing rates the feed.
+    """
+    limits = []
+    if feed is not None:
+        limits.append((resolve(feed).overload_current_a, "the rating of the device feeding the board"))
+    if origin and rated_a is not None:
+        limits.append((float(rated_a), "the supply's rated current"))
+    limit, what = min(limits) if limits else (None, "")
+    demand = None if math.isnan(demand_a) else round(demand_a, 1)
+    if demand is None:
+        note = "not stated: give design_current_a for " + ", ".join(missing) + " (or the board's design_current_a)"
+        return _check("demand", Verdict.NOT_VERIFIED, None, limit, "A", edition, "demand", note)
+    if limit is None:
+        field = "supply.rated_current_a" if origin else "the feeding circuit's device"
+        note = f"not stated: give {field} to judge the demand"
+        return _check("demand", Verdict.NOT_VERIFIED, demand, None, "A", edition, "demand", note)
+    verdict = Verdict.PASS if demand <= limit * (1 + 1e-9) else Verdict.FAIL
+    note = f"the demand after diversity against {what}"
+    return _check("demand", verdict, demand, round(limit, 1), "A", edition, "demand", note)
+
+
+def rcd_selectivity_check(
+    upstream: DeviceSpec | None, circuits: Sequence[Circuit | Unread], edition: str
+) -> Check | None:
+    """RCDs in series (536.4.1.4): None where the board is not fed through an RCD or none of its circuits has one."""
+    if upstream is None or upstream.rcd is None:
+        return None
+    below = [c for c in circuits if not isinstance(c, Unread) and c.device.rcd is not None]
+    if not below:
+        return None
+    ratio = requirements.number("rcd_selectivity_ratio")
+    up = upstream.rcd
+    largest = max(c.device.rcd.residual_current_ma for c in below)
+    needed = ratio * largest
+    delayed = up.delay == "S"
+    bad = [
+        c.id or "a circuit"
+        for c in below
+        if not delayed or up.residual_current_ma < ratio * c.device.rcd.residual_current_ma
+    ]
+    if not bad:
+        note = "the upstream RCD is time-delayed (S) with at least three times the IΔn of each RCD below"
+        return _check(
+            "rcd-selectivity", Verdict.PASS, up.residual_current_ma, needed, "mA", edition, "rcd-selectivity", note
+        )
+    why = "is not time-delayed (S)" if not delayed else f"has less than {ratio:g} times their IΔn"
+    note = f"the upstream RCD {why}: a fault on {', '.join(bad)} may trip it too"
+    return _check(
+        "rcd-selectivity", Verdict.FAIL, up.residual_current_ma, needed, "mA", edition, "rcd-selectivity", note
+    )
+
+
+def surge_protection_check(surge: SurgeProtection | None, edition: str) -> Check:
+    """Protection against transient overvoltages (BS 7671:2018 443.4), as the request states it."""
+    rule = "surge"
+    if surge is None:
+        note = "not stated: give surge_protection (fitted, and the consequence of an overvoltage)"
+        return _check("surge-protection", Verdict.NOT_VERIFIED, None, None, "", edition, rule, note)
+    if surge.fitted:
+        return _check("surge-protection", Verdict.PASS, None, None, "", edition, rule, "surge protection is fitted")
+    if surge.consequence is None:
+        note = "not fitted, and not stated: give surge_protection.consequence"
+        return _check("surge-protection", Verdict.NOT_VERIFIED, None, None, "", edition, rule, note)
+    if surge.consequence in SURGE_REQUIRED:
+        note = f"required where the consequence is {surge.consequence}, and not fitted"
+        return _check("surge-protection", Verdict.FAIL, None, None, "", edition, rule, note)
+    if surge.declined_in_writing:
+        note = "not fitted: the owner declined it in writing, as allowed for this consequence"
+        return _check("surge-protection", Verdict.PASS, None, None, "", edition, rule, note)
+    note = "required unless the owner declines it in writing: not fitted and not declined"
+    return _check("surge-protection", Verdict.FAIL, None, None, "", edition, rule, note)
+
+
+def edition_of(inst: Installation) -> str:
+    return inst.supply.edition or requirements.default_edition()
