@@ -34,22 +34,22 @@ def _cable(circuit: Circuit) -> str:
 
 # what each check is, in the words of a designer's schedule
 CHECK_WORDS = {
-    "disconnection-time": "earth fault disconnection time",
-    "max-zs": "earth fault loop impedance (Zs)",
-    "short-circuit": "short circuit of the live conductors",
-    "protective-conductor": "protective conductor size",
-    "breaking-capacity": "breaking capacity",
-    "overload": "overload protection",
-    "voltage-drop": "voltage drop",
+    "disconnection-time": "Earth fault disconnection time",
+    "max-zs": "Earth fault loop impedance (Zs)",
+    "short-circuit": "Short circuit of the live conductors",
+    "protective-conductor": "Protective conductor size",
+    "breaking-capacity": "Breaking capacity",
+    "overload": "Overload protection",
+    "voltage-drop": "Voltage drop",
     "rcd": "RCD fault protection (Zs x IΔn <= 50 V)",
     "additional-protection": "30 mA RCD (additional protection)",
     "rcd-type": "RCD type",
-    "arc-fault-detection": "arc fault detection (AFDD)",
+    "arc-fault-detection": "Arc fault detection (AFDD)",
     "ev-earthing": "EV charge point earthing (broken PEN)",
-    "selectivity": "selectivity with the device above",
-    "demand": "demand against what feeds the board",
+    "selectivity": "Selectivity with the device above",
+    "demand": "Demand against what feeds the board",
     "rcd-selectivity": "RCDs in series",
-    "surge-protection": "surge protection",
+    "surge-protection": "Surge protection",
 }
 
 
