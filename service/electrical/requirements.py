@@ -10,7 +10,7 @@ from __future__ import annotations
 import dataclasses
 from collections.abc import Sequence
 from dataclasses import dataclass
-from functools import cache
+from functools import cache, lru_cache
 from typing import Any
 
 import numpy as np
@@ -87,14 +87,21 @@ def location_not_modelled(location: str) -> str | None:
     return _table()["locations_not_modelled"].get(location)
 
 
-def _words(values: list[Any]) -> np.ndarray:
-    return np.array(values, dtype=object)
-
-
 @dataclass
 class RequirementColumns:
-    """What the rules beyond the calculations read, one cell per circuit (None where the request did not say)."""
+    """What the rules beyond the calculations read, one row per distinct combination of facts among the circuits
+    (``n`` rows; ``inverse`` gives each circuit's row), so that the rules run once per combination, not once per
+    circuit. A fact not stated is None."""
 
+    n: int
+    inverse: np.ndarray  # circuit -> row
+    role: np.ndarray
+    load: np.ndarray
+    phases: np.ndarray
+    current_kind: np.ndarray
+    earthing: np.ndarray
+    has_rcd: np.ndarray
+    residual_ma: np.ndarray
     edition: np.ndarray
     premises: np.ndarray
     equipment: np.ndarray  # the circuit's equipment; lighting also where the circuit's use is lighting
@@ -111,50 +118,74 @@ class RequirementColumns:
     afdd: np.ndarray
 
 
+def _key(s: Any, c: Any) -> tuple:
+    """What decides the rules for one circuit (objects by identity: the loaders share equal nested objects)."""
+    return (id(s), c.role, c.load, c.phases, c.use, c.equipment, c.socket_outlet_rating_a, c.location,
+            id(c.ev), id(c.installation), id(c.device.rcd), c.device.afdd)  # fmt: skip
+
+
+def _facts(s: Any, c: Any) -> list[Any]:
+    run, ev, rcd = c.installation, c.ev, c.device.rcd
+    equipment = c.equipment if c.equipment is not None else ("lighting" if c.use == "lighting" else None)
+    return [
+        c.role, c.load, c.phases, s.current_kind, s.earthing, rcd is not None,
+        np.inf if rcd is None else rcd.residual_current_ma,
+        default_edition() if s.edition is None else s.edition, s.premises, equipment,
+        np.nan if c.socket_outlet_rating_a is None else c.socket_outlet_rating_a, c.location,
+        equipment == "ev-charge-point",
+        None if ev is None else ev.dc_fault_detection, None if ev is None else ev.earthing_measure,
+        None if run is None else run.concealed_in_wall, None if run is None else run.wall_has_metal_parts,
+        None if run is None else run.earthed_metallic_covering,
+        None if rcd is None else rcd.type, None if rcd is None else rcd.delay, c.device.afdd,
+    ]  # fmt: skip
+
+
+_KINDS = {"phases": np.int8, "has_rcd": bool, "residual_ma": float, "socket_outlet_rating_a": float, "ev": bool}
+
+
 def requirement_columns(supplies: Sequence[Any], circuits: Sequence[Any]) -> RequirementColumns:
-    """The columns of :class:`RequirementColumns` for circuits and their supplies (core model objects)."""
-    default = default_edition()
-    runs = [c.installation for c in circuits]
-    evs = [c.ev for c in circuits]
-    rcds = [c.device.rcd for c in circuits]
-    equipment = [
-        c.equipment if c.equipment is not None else ("lighting" if c.use == "lighting" else None) for c in circuits
-    ]
-    return RequirementColumns(
-        edition=_words([default if s.edition is None else s.edition for s in supplies]),
-        premises=_words([s.premises for s in supplies]),
-        equipment=_words(equipment),
-        socket_outlet_rating_a=np.array(
-            [np.nan if c.socket_outlet_rating_a is None else c.socket_outlet_rating_a for c in circuits], dtype=float
-        ),
-        location=_words([c.location for c in circuits]),
-        ev=np.array([e == "ev-charge-point" for e in equipment], dtype=bool),
-        ev_dc_fault_detection=_words([None if e is None else e.dc_fault_detection for e in evs]),
-        ev_earthing_measure=_words([None if e is None else e.earthing_measure for e in evs]),
-        concealed_in_wall=_words([None if r is None else r.concealed_in_wall for r in runs]),
-        wall_has_metal_parts=_words([None if r is None else r.wall_has_metal_parts for r in runs]),
-        earthed_metallic_covering=_words([None if r is None else r.earthed_metallic_covering for r in runs]),
-        rcd_type=_words([None if r is None else r.type for r in rcds]),
-        rcd_delay=_words([None if r is None else r.delay for r in rcds]),
-        afdd=_words([c.device.afdd for c in circuits]),
-    )
+    """The :class:`RequirementColumns` of circuits and their supplies (core model objects): one Python pass for
+    the key of each circuit, the facts read once per distinct key."""
+    rows: dict[tuple, int] = {}
+    firsts: list[int] = []
+    inverse = np.empty(len(circuits), dtype=np.intp)
+    for i, key in enumerate(map(_key, supplies, circuits)):
+        at = rows.get(key)
+        if at is None:
+            at = rows[key] = len(firsts)
+            firsts.append(i)
+        inverse[i] = at
+    table = [_facts(supplies[i], circuits[i]) for i in firsts]
+    names = [f.name for f in dataclasses.fields(RequirementColumns)][2:]
+    columns = {}
+    for k, name in enumerate(names):
+        values = [row[k] for row in table]
+        columns[name] = np.array(values, dtype=_KINDS.get(name, object))
+    return RequirementColumns(n=len(firsts), inverse=inverse, **columns)
 
 
 def circuit_problem(circuit: Any, edition: str | None) -> InvalidInput | None:
     """A combination of the circuit's facts that makes no sense, naming the field (None where all is well)."""
+    c = circuit
+    return _problem(edition, c.role, c.load, c.equipment, c.location, c.ev is not None, c.socket_outlet_rating_a)
+
+
+@lru_cache(maxsize=1024)
+def _problem(
+    edition: str | None, role: str, load: str | None, equipment: str | None, location: str | None, ev: bool, sockets
+) -> InvalidInput | None:
     if edition is not None and edition not in _table()["editions"]:
         return InvalidInput(("supply", "edition"), f"the edition is one of {editions()}")
-    for name, allowed in (("equipment", "equipment"), ("location", "locations")):
-        value = getattr(circuit, name)
+    for name, value, allowed in (("equipment", equipment, "equipment"), ("location", location, "locations")):
         if value is not None and value not in _table()[allowed]:
             return InvalidInput(("circuit", name), f"{name} is one of {choices(allowed)}")
-    if circuit.ev is not None and circuit.equipment != "ev-charge-point":
+    if ev and equipment != "ev-charge-point":
         return InvalidInput(
             ("circuit", "ev"), "ev describes an EV charge point: give it with equipment ev-charge-point"
         )
-    if circuit.socket_outlet_rating_a is not None and circuit.load != "socket-outlets":
+    if sockets is not None and load != "socket-outlets":
         return InvalidInput(("circuit", "socket_outlet_rating_a"), "a socket-outlet rating needs load socket-outlets")
-    if circuit.equipment is not None and circuit.role != "final":
+    if equipment is not None and role != "final":
         return InvalidInput(("circuit", "equipment"), "equipment describes what a final circuit supplies")
     return None
 

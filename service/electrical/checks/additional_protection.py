@@ -18,7 +18,7 @@ from ..devices import residual
 from ..faults import FaultLoop
 from ..response import DeviceResponse
 from .base import CheckColumns, Earlier, check_step, pick
-from .facts import among, bases, joined, stated, unknown
+from .facts import among, bases, joined, spread, stated, unknown
 
 NOTES = {
     "no-rcd": "required, and no RCD is fitted",
@@ -39,14 +39,15 @@ NOTES = {
 
 def _required(cols: CircuitColumns) -> dict[str, np.ndarray]:
     """Where each rule calls for a 30 mA RCD, by rule name (as in data/requirements.json)."""
-    n, final = cols.needs, cols.role == "final"
+    n = cols.needs
+    final = n.role == "final"
     covered = stated(n.earthed_metallic_covering, True)
     bare = stated(n.earthed_metallic_covering, False)
     in_wall = among(n.concealed_in_wall, ("under-50-mm", "50-mm-or-deeper"))
     with np.errstate(invalid="ignore"):
         small_sockets = ~(n.socket_outlet_rating_a > requirements.number("socket_outlets_up_to_a"))
     return {
-        "sockets": final & (cols.load == "socket-outlets") & small_sockets,
+        "sockets": final & (n.load == "socket-outlets") & small_sockets,
         "dwelling-lighting": final
         & stated(n.equipment, "lighting")
         & among(n.premises, requirements.choices("dwellings")),
@@ -59,7 +60,8 @@ def _required(cols: CircuitColumns) -> dict[str, np.ndarray]:
 
 def _unknown(cols: CircuitColumns) -> list[tuple[np.ndarray, str]]:
     """Where a rule cannot be judged for want of a fact, with the note naming it (first missing fact first)."""
-    n, final = cols.needs, cols.role == "final"
+    n = cols.needs
+    final = n.role == "final"
     covered = stated(n.earthed_metallic_covering, True)
     dwelling_or_unsaid = unknown(n.premises) | among(n.premises, requirements.choices("dwellings"))
     return [
@@ -70,7 +72,7 @@ def _unknown(cols: CircuitColumns) -> list[tuple[np.ndarray, str]]:
             NOTES["metal-wall"],
         ),
         (final & unknown(n.location) & ~stated(n.equipment, "shower"), NOTES["location"]),
-        (final & unknown(n.equipment) & (cols.load != "socket-outlets") & dwelling_or_unsaid, NOTES["equipment"]),
+        (final & unknown(n.equipment) & (n.load != "socket-outlets") & dwelling_or_unsaid, NOTES["equipment"]),
         (final & stated(n.equipment, "lighting") & unknown(n.premises), NOTES["premises"]),
     ]
 
@@ -84,12 +86,12 @@ def additional_protection(
     n = cols.needs
     limit_ma = residual.additional_protection_max_ma()
     general = stated(n.rcd_delay, "general")
-    counts = cols.has_rcd & (cols.residual_ma <= limit_ma) & general
+    counts = n.has_rcd & (n.residual_ma <= limit_ma) & general
     required = _required(cols)
     needed = np.logical_or.reduce(list(required.values()))
     missing = _unknown(cols)
     unsaid = np.logical_or.reduce([m for m, _ in missing])
-    special = (cols.role == "final") & among(n.location, requirements.special_locations())
+    special = (n.role == "final") & among(n.location, requirements.special_locations())
     verdict = verdicts.where(needed & ~counts, verdicts.FAIL, verdicts.PASS)
     verdict = verdicts.where(
         (verdict == verdicts.PASS) & ((unsaid & ~counts) | special), verdicts.NOT_VERIFIED, verdict
@@ -102,18 +104,19 @@ def additional_protection(
         "; or fit a 30 mA RCD",
     )
     note = pick(
-        [failing & ~cols.has_rcd, failing & ~general, failing, special & ~failing, asked != None, needed, counts],  # noqa: E711
+        [failing & ~n.has_rcd, failing & ~general, failing, special & ~failing, asked != None, needed, counts],  # noqa: E711
         [NOTES["no-rcd"], NOTES["delayed"], NOTES["above-30"], NOTES["special"], asked, NOTES["met"], NOTES["fitted"]],
         NOTES["not-required"],
     )  # fmt: skip
     names = list(required)
     basis = bases(n.edition, [required[k] for k in names], names, "rcd-counts")
-    return CheckColumns(
+    check = CheckColumns(
         "additional-protection",
         "mA",
         verdict,
-        np.where(cols.has_rcd, cols.residual_ma, np.nan),
+        np.where(n.has_rcd, n.residual_ma, np.nan),
         np.where(needed, limit_ma, np.nan),
         basis,
         note,
     )
+    return spread(check, n.inverse)

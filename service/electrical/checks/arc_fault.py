@@ -9,11 +9,12 @@ from __future__ import annotations
 import numpy as np
 
 from .. import requirements, verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
 from .base import CheckColumns, Earlier, check_step, pick
-from .facts import among, bases, stated, unknown
+from .facts import among, bases, spread, stated, unknown
 
 NOTES = {
     "premises": "not stated: give premises (an AFDD is required in some premises, 421.1.7)",
@@ -31,7 +32,7 @@ CAUTION = (
 def _required(cols: CircuitColumns) -> np.ndarray:
     """Where the premises are of a kind the circuit's edition requires AFDDs in."""
     n = cols.needs
-    out = np.zeros(cols.n, dtype=bool)
+    out = np.zeros(n.n, dtype=bool)
     for edition in dict.fromkeys(n.edition.tolist()):
         out |= stated(n.edition, edition) & among(n.premises, requirements.rule(edition, "afdd")["required_in"])
     return out
@@ -45,8 +46,8 @@ def arc_fault_detection(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespo
     with np.errstate(invalid="ignore"):
         small = ~(n.socket_outlet_rating_a > requirements.number("socket_outlets_up_to_a"))
     applies = (
-        (cols.role == "final") & (cols.load == "socket-outlets") & small & (cols.phases == 1)
-        & (cols.current_kind == "ac")
+        (n.role == "final") & (n.load == "socket-outlets") & small & (n.phases == 1)
+        & (n.current_kind == "ac")
     )  # fmt: skip
     required = _required(cols)
     conditions = [
@@ -58,12 +59,12 @@ def arc_fault_detection(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespo
     ]
     codes = [verdicts.NOT_VERIFIED, verdicts.NOT_VERIFIED, verdicts.FAIL, verdicts.PASS, verdicts.PASS]
     texts = [NOTES[k] for k in ("premises", "afdd", "missing", "fitted", "fitted")]
-    empty = np.full(cols.n, np.nan)
+    empty = np.full(n.n, np.nan)
     recommended = applies & ~required & ~unknown(n.premises) & ~stated(n.afdd, True)
-    return CheckColumns(
+    check = CheckColumns(
         "arc-fault-detection",
         "",
-        verdicts.codes(np.select(conditions, codes, verdicts.PASS)),
+        verdicts.codes(select(conditions, codes, verdicts.PASS)),
         empty,
         empty,
         bases(n.edition, [], [], "afdd"),
@@ -71,3 +72,4 @@ def arc_fault_detection(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespo
         applies=applies,
         cautions=[(recommended, CAUTION)],
     )
+    return spread(check, n.inverse)

@@ -10,11 +10,12 @@ from __future__ import annotations
 import numpy as np
 
 from .. import verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
 from .base import CheckColumns, Earlier, check_step, pick
-from .facts import among, bases, stated, unknown
+from .facts import among, bases, spread, stated, unknown
 
 NOTES = {
     "not-pme": "not a PME (TN-C-S) supply",
@@ -32,7 +33,7 @@ def ev_earthing(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, ear
     """Fail where a charge point outdoors on PME has no measure against a broken PEN; pass where one is fitted,
     the supply is not PME, or the charge point is stated to be elsewhere than outdoors."""
     n = cols.needs
-    pme = cols.earthing == "TN-C-S"
+    pme = n.earthing == "TN-C-S"
     outdoors = stated(n.location, "outdoors")
     conditions = [
         ~pme,
@@ -43,14 +44,15 @@ def ev_earthing(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, ear
     ]
     codes = [verdicts.PASS, verdicts.PASS, verdicts.FAIL, verdicts.NOT_VERIFIED, verdicts.NOT_VERIFIED]
     texts = [NOTES[k] for k in ("not-pme", "measure", "none-outdoors", "measure-unsaid", "location")]
-    empty = np.full(cols.n, np.nan)
-    return CheckColumns(
+    empty = np.full(n.n, np.nan)
+    check = CheckColumns(
         "ev-earthing",
         "",
-        verdicts.codes(np.select(conditions, codes, verdicts.PASS)),
+        verdicts.codes(select(conditions, codes, verdicts.PASS)),
         empty,
         empty,
         bases(n.edition, [], [], "ev-earthing"),
         pick(conditions, texts, NOTES["indoors"]),
-        applies=n.ev & (cols.role == "final"),
+        applies=n.ev & (n.role == "final"),
     )
+    return spread(check, n.inverse)

@@ -8,10 +8,12 @@ from collections.abc import Sequence
 import numpy as np
 
 from .. import requirements
+from .base import CheckColumns
 
 
 def stated(values: np.ndarray, value: object) -> np.ndarray:
-    """Where a fact was stated as ``value`` (True, False or a word); a fact not stated (None) is never equal."""
+    """Where a fact (an object column of True, False, words or None) was stated as ``value``; a fact not stated
+    (None) is never equal to a stated one."""
     return np.array([v is value or (v is not None and v == value) for v in values.tolist()], dtype=bool)
 
 
@@ -26,35 +28,42 @@ def among(values: np.ndarray, words: Sequence[str]) -> np.ndarray:
 
 
 def bases(editions: np.ndarray, masks: Sequence[np.ndarray], rules: Sequence[str], default: str) -> np.ndarray:
-    """Per circuit, the clauses of the rules whose mask holds there (``default`` where none does), under the
-    circuit's edition: 'BS 7671:2018+A4:2026 411.3.3, 701.411.3.3 (carried forward ...)'."""
-    n = len(editions)
-    if not masks:
-        bits = np.zeros(n, dtype=np.int64)
-    else:
-        weights = 1 << np.arange(len(masks), dtype=np.int64)
-        bits = np.vstack([np.asarray(m, bool) for m in masks]).T.astype(np.int64) @ weights
-    names_of = {e: k for k, e in enumerate(dict.fromkeys(editions.tolist()))}
-    edition_codes = np.array([names_of[e] for e in editions.tolist()], dtype=np.int64)
-    patterns, inverse = np.unique(edition_codes << 32 | bits, return_inverse=True)
-    by_code = list(names_of)
-    texts = []
-    for pattern in patterns.tolist():
-        edition = by_code[pattern >> 32]
-        names = [rule for j, rule in enumerate(rules) if pattern >> j & 1] or [default]
-        clauses = ", ".join(dict.fromkeys(requirements.rule(edition, name)["clause"] for name in names))
-        where = requirements.rule(edition, names[0])["basis"].split("(", 1)[1]
-        texts.append(f"{edition} {clauses} ({where}")
-    return np.array(texts, dtype=object)[inverse.reshape(-1)]
+    """Per row, the clauses of the rules whose mask holds there (``default`` where none does), under the row's
+    edition: 'BS 7671:2018+A4:2026 411.3.3, 701.411.3.3 (carried forward ...)'. Each distinct text is made once."""
+    flags = list(zip(*(np.asarray(m, bool).tolist() for m in masks), strict=True)) if masks else None
+    spelled: dict[tuple, str] = {}
+    out = []
+    for i, edition in enumerate(editions.tolist()):
+        key = (edition, flags[i] if flags is not None else ())
+        text = spelled.get(key)
+        if text is None:
+            names = [rule for rule, on in zip(rules, key[1], strict=True) if on] or [default]
+            clauses = ", ".join(dict.fromkeys(requirements.rule(edition, name)["clause"] for name in names))
+            where = requirements.rule(edition, names[0])["basis"].split("(", 1)[1]
+            text = spelled[key] = f"{edition} {clauses} ({where}"
+        out.append(text)
+    return np.array(out, dtype=object)
 
 
 def joined(masks: Sequence[np.ndarray], texts: Sequence[str], head: str, tail: str) -> np.ndarray:
-    """Per circuit, ``head`` and the texts whose masks hold there joined by '; ', then ``tail`` (None where none
-    holds): a note that names every fact missing at once. Each distinct combination is spelled once."""
-    weights = 1 << np.arange(len(masks), dtype=np.int64)
-    bits = np.vstack([np.asarray(m, bool) for m in masks]).T.astype(np.int64) @ weights
-    patterns, inverse = np.unique(bits, return_inverse=True)
-    spelled = [
-        head + "; ".join(t for j, t in enumerate(texts) if p >> j & 1) + tail if p else None for p in patterns.tolist()
-    ]
-    return np.array(spelled, dtype=object)[inverse.reshape(-1)]
+    """Per row, ``head`` and the texts whose masks hold there joined by '; ', then ``tail`` (None where none
+    holds): a note that names every fact missing at once."""
+    out = []
+    for flags in zip(*(np.asarray(m, bool).tolist() for m in masks), strict=True):
+        said = [t for t, on in zip(texts, flags, strict=True) if on]
+        out.append(head + "; ".join(said) + tail if said else None)
+    return np.array(out, dtype=object)
+
+
+def spread(check: CheckColumns, inverse: np.ndarray) -> CheckColumns:
+    """A check computed once per distinct combination of facts, given to each circuit (``inverse``: its row)."""
+    check.verdict, check.value, check.limit = check.verdict[inverse], check.value[inverse], check.limit[inverse]
+    check.basis, check.note, check.margin_percent = (
+        check.basis[inverse],
+        check.note[inverse],
+        check.margin_percent[inverse],
+    )
+    if check.applies is not None:
+        check.applies = np.asarray(check.applies)[inverse]
+    check.cautions = [(np.asarray(mask)[inverse], text) for mask, text in check.cautions]
+    return check

@@ -11,11 +11,12 @@ from __future__ import annotations
 import numpy as np
 
 from .. import requirements, verdicts
+from ..arrays import select
 from ..columns import CircuitColumns
 from ..faults import FaultLoop
 from ..response import DeviceResponse
 from .base import CheckColumns, Earlier, check_step, pick
-from .facts import among, bases, stated, unknown
+from .facts import among, bases, spread, stated, unknown
 
 NOTES = {
     "ev-no-rcd": "an EV charge point needs its own RCD, type B or type A/F with d.c. fault detection",
@@ -33,8 +34,8 @@ NOTES = {
 def _ac_accepted(cols: CircuitColumns) -> np.ndarray:
     """Where type AC is accepted: fixed equipment of a kind the circuit's edition lists as drawing no d.c."""
     n = cols.needs
-    fixed = (cols.role == "final") & (cols.load == "fixed-equipment")
-    accepted = np.zeros(cols.n, dtype=bool)
+    fixed = (n.role == "final") & (n.load == "fixed-equipment")
+    accepted = np.zeros(n.n, dtype=bool)
     for edition in dict.fromkeys(n.edition.tolist()):
         kinds = requirements.rule(edition, "rcd-type")["type_ac_accepted_for"]
         accepted |= stated(n.edition, edition) & among(n.equipment, kinds)
@@ -46,13 +47,13 @@ def rcd_type(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
     """Pass where the RCD's type suits the load; fail where it does not; not-verified where the type, or a fact it
     depends on, is not stated."""
     n = cols.needs
-    ev = n.ev & (cols.role == "final")
+    ev = n.ev & (n.role == "final")
     t = n.rcd_type
     ac, a_or_f, b = stated(t, "AC"), among(t, ("A", "F")), stated(t, "B")
-    no_type = cols.has_rcd & unknown(t)
-    fixed_unsaid = (cols.role == "final") & (cols.load == "fixed-equipment") & unknown(n.equipment)
+    no_type = n.has_rcd & unknown(t)
+    fixed_unsaid = (n.role == "final") & (n.load == "fixed-equipment") & unknown(n.equipment)
     conditions = [
-        ev & ~cols.has_rcd,
+        ev & ~n.has_rcd,
         no_type,
         ev & ac,
         ev & a_or_f & stated(n.ev_dc_fault_detection, False),
@@ -65,9 +66,9 @@ def rcd_type(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
     codes = [verdicts.FAIL, verdicts.NOT_VERIFIED, verdicts.FAIL, verdicts.FAIL, verdicts.NOT_VERIFIED, verdicts.PASS,
              verdicts.PASS, verdicts.NOT_VERIFIED, verdicts.FAIL]  # fmt: skip
     texts = [NOTES[k] for k in ("ev-no-rcd", "type", "ev-ac", "ev-no-dc", "ev-dc", "ok", "ac-ok", "ac-equipment", "ac")]
-    verdict = verdicts.codes(np.select(conditions, codes, verdicts.PASS))
-    empty = np.full(cols.n, np.nan)
-    return CheckColumns(
+    verdict = verdicts.codes(select(conditions, codes, verdicts.PASS))
+    empty = np.full(n.n, np.nan)
+    check = CheckColumns(
         "rcd-type",
         "",
         verdict,
@@ -75,5 +76,6 @@ def rcd_type(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
         empty,
         bases(n.edition, [ev], ["ev-rcd-type"], "rcd-type"),
         pick(conditions, texts, NOTES["ok"]),
-        applies=cols.has_rcd | ev,
+        applies=n.has_rcd | ev,
     )
+    return spread(check, n.inverse)
