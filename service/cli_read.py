@@ -16,9 +16,11 @@ from marshmallow import Schema, ValidationError
 
 from .api.errors import core_errors, flatten, pointer_of
 from .api.fastload import Refused, fast_load
+from .api.requirement_schemas import device_defaults_field
 from .api.schemas import CircuitSchema, SupplySchema, edition_field, premises_field, with_edition
 from .api.strictjson import strict_loads
 from .electrical.columns import CircuitFailure
+from .electrical.devices import defaults as device_defaults
 
 # column -> (where it goes, field, kind); documented in the README
 CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
@@ -73,14 +75,16 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
 
 SUPPLY_SCHEMA = SupplySchema()
 CIRCUIT_SCHEMA = CircuitSchema()
-HEAD_KEYS = ("edition", "premises")
+HEAD_KEYS = ("edition", "premises", "device_defaults")
 
 
 class HeadSchema(Schema):
-    """What a schedule says once for all its circuits, beside the supply: the edition and the premises."""
+    """What a schedule says once for all its circuits, beside the supply: the edition, the premises and the maker's
+    data for its devices."""
 
     edition = edition_field()
     premises = premises_field()
+    device_defaults = device_defaults_field()
 
 
 HEAD_SCHEMA = HeadSchema()
@@ -205,11 +209,13 @@ def _validated(
     head: dict | None = None,
 ) -> Row:
     ident = circuit_raw.get("id") if isinstance(circuit_raw, dict) and isinstance(circuit_raw.get("id"), str) else None
-    supply, supply_problems = supply_loaded or _supply(supply_raw, supply_pointer, head or {})
+    supply, supply_problems, given = supply_loaded or _supply(supply_raw, supply_pointer, head or {})
     circuit, circuit_problems = _load(CIRCUIT_SCHEMA, circuit_raw, circuit_pointer)
     problems = (supply_problems or []) + (circuit_problems or [])
     if problems:
         return Row(index, ident, base, problem=problems)
+    if given:
+        circuit = device_defaults.with_defaults_of(circuit, given)
     return Row(index, ident, base, supply, circuit)
 
 
@@ -218,8 +224,8 @@ def _supply(supply_raw: Any, pointer: str, head: dict) -> tuple:
     supply, problems = _load(SUPPLY_SCHEMA, supply_raw, pointer)
     top, top_problems = _load(HEAD_SCHEMA, head, "")
     if problems or top_problems:
-        return None, (problems or []) + (top_problems or [])
-    return with_edition({**top, "supply": supply})["supply"], None
+        return None, (problems or []) + (top_problems or []), None
+    return with_edition({**top, "supply": supply})["supply"], None, top.get("device_defaults")
 
 
 def iter_items(supply_raw: Any, items: Iterator[Any], head: dict | None = None) -> Iterator[Row]:

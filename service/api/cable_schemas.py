@@ -32,7 +32,12 @@ class InstallationSchema(Schema):
         minimum=0.5, maximum=3, metadata={"description": "method D: soil thermal resistivity"}
     )
     in_duct = Flag(load_default=False)
-    reactance_mohm_per_m = Number(minimum=0, maximum=1, metadata={"description": "for a drop computed from resistance"})
+    reactance_mohm_per_m = Number(
+        minimum=0,
+        maximum=1,
+        metadata={"description": "the cable's reactance per conductor, mohm/m: for a drop computed from resistance, "
+                  "and, on a sub-main, in every fault figure below it"},
+    )  # fmt: skip
     buried_spacing = choice(
         capacity.BURIED_SPACINGS, metadata={"description": "buried groupings: the clearance (Tables 4C2, 4C3)"}
     )

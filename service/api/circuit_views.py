@@ -15,9 +15,10 @@ from . import metrics
 from .base import Blueprint
 from .errors import CoreInputError, json_bytes, json_response
 from .helpers import failed_item, invalid_item, svg_response
+from .item_lists import ItemProblem
 from .lean import FormSchema, LeanBatchSchema, lean_answer
 from .result_schemas import CheckAnswerSchema
-from .schemas import BatchRequestSchema, CheckRequestSchema, ItemProblem
+from .schemas import BatchRequestSchema, CheckRequestSchema
 
 blp = Blueprint(
     "circuits",

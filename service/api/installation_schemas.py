@@ -16,8 +16,9 @@ from . import fastload
 from .errors import flatten
 from .fields import Flag, Number, Text, choice
 from .helpers import failed_item, invalid_item
+from .item_lists import ItemProblem, PerItemList
 from .result_schemas import BatchItemSchema, BatchSummarySchema, CheckResultSchema, edition_answer, nullable_number
-from .schemas import CircuitSchema, DeviceSchema, ItemProblem, PerItemList, ScopedSchema, SupplySchema
+from .schemas import CircuitSchema, DeviceSchema, ScopedSchema, SupplySchema
 
 MAX_BOARDS = 500
 

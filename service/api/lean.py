@@ -16,8 +16,8 @@ from ..electrical.table import Interned, add_problem, check_table, column_names,
 from . import metrics
 from .errors import ProblemSchema
 from .helpers import failed_item, invalid_item
+from .item_lists import ItemProblem
 from .result_schemas import BatchSummarySchema, DeviceSummarySchema, edition_answer
-from .schemas import ItemProblem
 
 CHUNK = 2000
 FORMS = ("lean", "full")

@@ -12,17 +12,10 @@ from .base import Blueprint
 from .errors import json_response
 from .fields import Flag, Number, choice
 from .helpers import failed_item, invalid_item
+from .item_lists import ItemProblem, PerItemList
+from .requirement_schemas import device_defaults_field, with_device_defaults
 from .result_schemas import edition_answer, nullable_number
-from .schemas import (
-    CircuitSchema,
-    FastSchema,
-    ItemProblem,
-    PerItemList,
-    SupplySchema,
-    edition_field,
-    premises_field,
-    with_edition,
-)
+from .schemas import CircuitSchema, FastSchema, SupplySchema, edition_field, premises_field, with_edition
 
 blp = Blueprint(
     "test_results",
@@ -71,10 +64,11 @@ class VerifyRequestSchema(FastSchema):
     circuits = PerItemList(fields.Nested(VerifyItemSchema), required=True)
     edition = edition_field()
     premises = premises_field()
+    device_defaults = device_defaults_field()
 
     @post_load
     def onto_supply(self, data, **kwargs):
-        return with_edition(data)
+        return with_device_defaults(with_edition(data))
 
 
 class JudgementSchema(Schema):

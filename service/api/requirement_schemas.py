@@ -4,11 +4,14 @@ from __future__ import annotations
 
 import dataclasses
 
-from marshmallow import Schema, fields, post_load
+from marshmallow import Schema, ValidationError, fields, post_load, validate
 
 from ..electrical import requirements
-from ..electrical.model import EvCharge, built
-from .fields import Flag, Number, choice
+from ..electrical.devices import defaults as device_defaults
+from ..electrical.devices.catalogue import standards, types
+from ..electrical.errors import ElectricalError
+from ..electrical.model import DeviceDefaults, EvCharge, built
+from .fields import Flag, Number, WholeNumber, choice
 
 
 class EvSchema(Schema):
@@ -68,4 +71,73 @@ def with_edition(data: dict) -> dict:
     if "premises" in data:
         changes["premises"] = data["premises"]
     data["supply"] = dataclasses.replace(data["supply"], **changes)
+    return data
+
+
+class LetThroughPointSchema(Schema):
+    prospective_current_a = Number(minimum=1, maximum=1e6, required=True)
+    i2t_a2s = Number(minimum=1, maximum=1e10, required=True, metadata={"description": "let-through energy, A2s"})
+
+
+def let_through_curve_field() -> fields.List:
+    return fields.List(
+        fields.Nested(LetThroughPointSchema),
+        validate=validate.Length(min=2, max=50),
+        metadata={"description": "the maker's let-through I2t against prospective current, read on log-log axes "
+                  "between points; below the first point its energy, above the last point nothing"},
+    )  # fmt: skip
+
+
+def curve_of(points) -> tuple[tuple[float, float], ...]:
+    return tuple((p["prospective_current_a"], p["i2t_a2s"]) for p in points)
+
+
+class DeviceDefaultsSchema(Schema):
+    standard = choice(standards(), required=True)
+    type = choice(types(), metadata={"description": "omit: every type of the standard"})
+    breaking_capacity_ka = Number(minimum=0.1, maximum=200)
+    energy_limiting_class = WholeNumber(minimum=1, maximum=3)
+    let_through_curve = let_through_curve_field()
+
+    @post_load
+    def make(self, data, **kwargs):
+        if "let_through_curve" in data:
+            data["let_through_curve"] = curve_of(data["let_through_curve"])
+        return built(DeviceDefaults, data)
+
+
+def device_defaults_field() -> fields.List:
+    return fields.List(
+        fields.Nested(DeviceDefaultsSchema),
+        validate=validate.Length(min=1, max=50),
+        metadata={"description": "the maker's data said once: every device of that standard and type takes the "
+                  "fields it does not state itself"},
+    )  # fmt: skip
+
+
+def with_device_defaults(data: dict) -> dict:
+    """The request's devices completed from its ``device_defaults`` (a single circuit, a batch's circuits, an
+    installation's boards and their circuits); the core checks that each standard and type is given once."""
+    given = data.get("device_defaults")
+    if not given:
+        return data
+    try:
+        device_defaults.check_defaults(given)
+    except ElectricalError as err:
+        raise ValidationError(err.message, "device_defaults") from None
+    if "circuit" in data:
+        data["circuit"] = device_defaults.apply([data["circuit"]], given)[0]
+    if "device" in data:  # circuits/size: the device family to choose from
+        data["device"] = device_defaults.with_defaults(data["device"], given)
+    if "circuits" in data and isinstance(data["circuits"], list):
+        items = data["circuits"]
+        if items and all(isinstance(i, dict) and "circuit" in i for i in items):  # test-results/verify
+            for item, circuit in zip(items, device_defaults.apply([i["circuit"] for i in items], given), strict=True):
+                item["circuit"] = circuit
+        else:
+            data["circuits"] = device_defaults.apply(items, given)
+    for board in data.get("boards", []):
+        board["circuits"] = device_defaults.apply(board["circuits"], given)
+        if board.get("device") is not None:
+            board["device"] = device_defaults.with_defaults(board["device"], given)
     return data

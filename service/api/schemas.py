@@ -23,10 +23,23 @@ from . import fastload
 from .cable_schemas import InstallationSchema
 from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
-from .requirement_schemas import CircuitFactsSchema, edition_field, premises_field, with_edition
+from .item_lists import PerItemList
+from .requirement_schemas import (
+    CircuitFactsSchema,
+    curve_of,
+    device_defaults_field,
+    edition_field,
+    let_through_curve_field,
+    premises_field,
+    with_device_defaults,
+    with_edition,
+)
 
 DEVICE_STANDARDS = catalogue.standards()
 RATED_CURRENT = "the supply's rated current (the cut-out fuse or service rating): the origin's demand (311.1)"
+X_OVER_R = (
+    "the supply impedance's X/R at the origin; not given: the largest currents below it take the least any angle allows"
+)
 DEVICE_TYPES = catalogue.types()
 
 
@@ -128,6 +141,7 @@ class DeviceSchema(Schema):
         minimum=0.01, maximum=5, metadata={"description": "adjustable breakers: the short-time delay tsd, s"}
     )
     afdd = Flag(metadata={"description": "an arc fault detection device (BS EN 62606) at the circuit's origin"})
+    let_through_curve = let_through_curve_field()
 
     @validates_schema
     def standard_or_points(self, data, **kwargs):
@@ -143,6 +157,8 @@ class DeviceSchema(Schema):
         points = data.pop("curve_points", None)
         if points is not None:
             data["curve_points"] = tuple((p["current_a"], p["time_s"]) for p in points)
+        if "let_through_curve" in data:
+            data["let_through_curve"] = curve_of(data["let_through_curve"])
         return built(DeviceSpec, data)
 
 
@@ -243,6 +259,7 @@ class SupplySchema(Schema):
     )
 
     rated_current_a = Number(minimum=1, maximum=10000, metadata={"description": RATED_CURRENT})
+    x_over_r = Number(minimum=0, maximum=50, metadata={"description": X_OVER_R})
 
     @validates_schema
     def one_or_three_phases(self, data, **kwargs):
@@ -332,10 +349,11 @@ class ScopedSchema(FastSchema):
     checks = checks_field()
     edition = edition_field()
     premises = premises_field()
+    device_defaults = device_defaults_field()
 
     @post_load
     def onto_supply(self, data, **kwargs):
-        return with_edition(data) if "supply" in data else data
+        return with_device_defaults(with_edition(data) if "supply" in data else data)
 
     @validates_schema
     def checks_once(self, data, **kwargs):
@@ -347,37 +365,6 @@ class ScopedSchema(FastSchema):
 class CheckRequestSchema(ScopedSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuit = fields.Nested(CircuitSchema, required=True)
-
-
-class ItemProblem:
-    """A batch item that did not validate: its place, its id if readable, and its messages."""
-
-    def __init__(self, index: int, messages, raw):
-        self.index = index
-        self.messages = messages
-        self.raw = raw
-        self.id = raw.get("id") if isinstance(raw, dict) and isinstance(raw.get("id"), str) else None
-
-
-class PerItemList(fields.List):
-    """A list whose items are validated one by one: a bad item becomes an ItemProblem, never a 422."""
-
-    def _deserialize(self, value, attr, data, **kwargs):
-        if not isinstance(value, list):
-            raise self.make_error("invalid")
-        out = []
-        schema = self.inner.schema
-        for index, item in enumerate(value):
-            try:
-                out.append(fast_load(schema, item))
-                continue
-            except Refused:
-                pass
-            try:  # marshmallow itself: the same answer, with the documented messages
-                out.append(self.inner.deserialize(item, **kwargs))
-            except ValidationError as err:
-                out.append(ItemProblem(index, err.messages, item))
-        return out
 
 
 class BatchRequestSchema(ScopedSchema):

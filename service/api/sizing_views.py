@@ -13,7 +13,13 @@ from ..electrical.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand
 from .base import Blueprint
 from .errors import CoreInputError, json_response
 from .fields import Flag, Number, Text, WholeNumber, choice
-from .requirement_schemas import CircuitFactsSchema
+from .requirement_schemas import (
+    CircuitFactsSchema,
+    curve_of,
+    device_defaults_field,
+    let_through_curve_field,
+    with_device_defaults,
+)
 from .result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
 from .schemas import (
     DEVICE_STANDARDS,
@@ -45,9 +51,12 @@ class SizeDeviceSchema(Schema):
     rcd = fields.Nested(RcdSchema)
     energy_limiting_class = energy_class_field()
     afdd = Flag(metadata={"description": "an AFDD at the circuit's origin (421.1.7)"})
+    let_through_curve = let_through_curve_field()
 
     @post_load
     def make(self, data, **kwargs):
+        if "let_through_curve" in data:
+            data["let_through_curve"] = curve_of(data["let_through_curve"])
         return DeviceSpec(rating_a=1.0, **data)
 
 
@@ -55,6 +64,7 @@ class SizeRequestSchema(CircuitFactsSchema):
     supply = fields.Nested(SupplySchema, required=True)
     edition = edition_field()
     premises = premises_field()
+    device_defaults = device_defaults_field()
     id = Text(max_length=200)
     role = choice(disconnection.ROLES, load_default="final")
     load = choice(disconnection.LOADS, metadata={"description": "final circuits: what it supplies"})
@@ -96,7 +106,7 @@ class SizeRequestSchema(CircuitFactsSchema):
 
     @post_load
     def onto_supply(self, data, **kwargs):
-        return with_edition(data)
+        return with_device_defaults(with_edition(data))
 
 
 class CapacitySchema(Schema):
@@ -142,6 +152,12 @@ class TriedSchema(Schema):
     unit = fields.String(allow_none=True, required=True)
 
 
+class LengthLimitSchema(Schema):
+    check = fields.String(required=True)
+    max_length_m = nullable_number("the longest run its closed form allows; null where it cannot limit the run")
+    note = fields.String(required=True)
+
+
 class MaxLengthResultSchema(Schema):
     max_length_m = nullable_number("null where no length passes")
     limited_by = fields.String(
@@ -154,6 +170,13 @@ class MaxLengthResultSchema(Schema):
         required=True,
         metadata={"description": "the rules beyond the calculations for the circuit (they do not depend on length)"},
     )
+    breakdown = fields.List(
+        fields.Nested(LengthLimitSchema),
+        required=True,
+        metadata={"description": "per check with a closed form: the longest run it allows, or why it cannot limit it"},
+    )
+    note = fields.String(allow_none=True, required=True, metadata={"description": "where no length passes: what would"})
+    cautions = fields.List(fields.String(), required=True)
 
 
 class RcdAnswerSchema(Schema):
@@ -259,10 +282,11 @@ class MaxLengthRequestSchema(Schema):
     voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
     edition = edition_field()
     premises = premises_field()
+    device_defaults = device_defaults_field()
 
     @post_load
     def onto_supply(self, data, **kwargs):
-        return with_edition(data)
+        return with_device_defaults(with_edition(data))
 
     @validates_schema
     def has_conductors(self, data, **kwargs):

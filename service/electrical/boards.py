@@ -4,17 +4,19 @@ Demand (bottom-up, BS 7671 Appendix 1 leaves diversity to the designer): a board
 phase is the sum of what its circuits draw, each times its own ``diversity``, the whole times the board's
 ``diversity``; a stated ``design_current_a`` on the board replaces the sum. A three-phase circuit draws on
 every phase; a single-phase one on its ``phase``, or, where none is named, on every phase (the safe side for
-the feed). A circuit that feeds a board draws the larger of its stated Ib and that board's demand (a
-three-phase feed: that board's demand on each phase, unless its stated Ib is larger). A demand is complete
-only where every circuit states its Ib (or the board states its own).
+the feed). A circuit that feeds a board draws its stated Ib (the designer's maximum demand after diversity,
+311.1), or, where it states none, that board's demand (a three-phase feed: that board's demand on each phase);
+a caution says where the board's sum exceeds the stated Ib. A demand is complete only where every circuit
+states its Ib (or the board states its own).
 
 Faults (top-down, IEC 60909-0 method; BS 7671:2018 411.4.4, 434.1): a board's Ze and line-neutral loop are
 its parent's plus the feed's R1+R2 and R1+Rn at the temperatures the rules assume, moduli added (an
 impedance never underestimated: the smallest fault currents, Cmin, never overestimated). For the largest
-currents (cmax) the feed's resistances are taken at 20 degC and added to the parent's impedance as the root
-of the sum of squares, which is the least the sum of two impedances of angle 0 to 90 degrees can be (the
-largest currents never underestimated). A cable reactance given in the feed's installation enters both.
-The three-phase loop is the line conductor alone.
+currents (cmax) the feeds' resistances at 20 degC and their reactances are summed from the origin and added to
+the supply's impedance at the origin (:func:`tightest`): as complex numbers where the supply's X/R is given,
+else the least modulus any supply angle from 0 to 90 degrees allows, so the largest currents are never
+underestimated and never compounded board by board. A cable reactance given in the feed's installation enters
+both. The three-phase loop is the line conductor alone.
 """
 
 from __future__ import annotations
@@ -33,8 +35,8 @@ PHASES = ("L1", "L2", "L3")
 CAUTIONS = {
     "unallocated": "{n} single-phase circuit(s) name no phase: counted on every phase of the board's demand.",
     "incomplete": "The board's demand is incomplete: {missing} state no design current; the feed's own Ib is used.",
-    "raised": "The feed's stated design current {stated:g} A is below the board's demand {demand:g} A: the demand is "
-    "used.",
+    "below-sum": "The board's summed demand after its stated diversity, {demand:g} A, exceeds the feed's stated design "
+    "current {stated:g} A (the designer's maximum demand, 311.1), which its checks use: confirm the diversity.",
     "no-reactance": (
         "The feed's reactance is not given: its loops are resistance only. Above 35 mm2 give "
         "installation.reactance_mohm_per_m (the maker's figure), or the fault currents below it are optimistic."
@@ -98,7 +100,7 @@ def _board_demand(b: int, inst: Installation, tree: Tree, out: list, child_of: d
             continue
         draw, left = _draw(tree.phases[b], circuit.phases, circuit.phase, current)
         if fed is not None and fed.complete and len(fed.per_phase_a) == len(draw) == 3:
-            draw = [max(x, current if current > fed.design_current_a else 0.0) for x in fed.per_phase_a.tolist()]
+            draw = _feed_draw(fed, current)
         share = 1.0 if circuit.diversity is None else circuit.diversity
         total = [t + d * share for t, d in zip(total, draw, strict=True)]
         unallocated += left
@@ -119,13 +121,26 @@ def demands(
     return out, feed_current  # type: ignore[return-value]
 
 
+def _feed_draw(fed: Demand, current: float) -> list[float]:
+    """A three-phase feed's draw on each phase: the board's phase currents, scaled down to a stated design current
+    below their largest (the stated demand wins), or the stated current on every phase where it is larger."""
+    largest, phases = fed.design_current_a, fed.per_phase_a.tolist()
+    if current > largest:
+        return [current] * 3
+    return phases if current == largest else [x * current / largest for x in phases]
+
+
 def _feed_current(stated: float | None, below: Demand | None) -> tuple[float | None, str | None]:
+    """The feed's design current: as stated (the designer's maximum demand after diversity, 311.1), else the
+    board's summed demand; a caution where the sum exceeds what was stated."""
     if below is None or not below.complete:
         return stated, None
     demand = below.design_current_a
-    if stated is None or stated >= demand:
-        return (demand if stated is None else stated), None
-    return demand, CAUTIONS["raised"].format(stated=stated, demand=demand)
+    if stated is None:
+        return demand, None
+    if demand > stated * (1 + 1e-9):
+        return stated, CAUTIONS["below-sum"].format(stated=round(stated, 1), demand=round(demand, 1))
+    return stated, None
 
 
 @dataclass(frozen=True)
@@ -143,26 +158,66 @@ class FeedLoop:
     large_without_reactance: bool = False
 
 
+def tightest(supply_ohm: float, r_ohm: float, x_ohm: float, x_over_r: float | None) -> float:
+    """The least modulus of the supply's impedance at the origin (modulus ``supply_ohm``) plus the feeds' R + jX.
+
+    With the supply's X/R given, the complex sum. Without it, the least over supply angles of 0 to 90 degrees:
+    |Zs e^jθ + R + jX|^2 = |Zs|^2 + R^2 + X^2 + 2|Zs|(R cos θ + X sin θ), least at θ = 0 or 90 degrees, so the
+    smaller of sqrt(R^2 + (|Zs| + X)^2) and sqrt((|Zs| + R)^2 + X^2) (derived; the first wherever X <= R).
+    Never below the true impedance for any angle: the largest fault currents are never underestimated.
+    """
+    if math.isnan(supply_ohm):
+        return math.nan
+    if x_over_r is not None:
+        angle = math.atan(x_over_r)
+        return abs(complex(supply_ohm * math.cos(angle) + r_ohm, supply_ohm * math.sin(angle) + x_ohm))
+    return min(math.hypot(r_ohm, supply_ohm + x_ohm), math.hypot(supply_ohm + r_ohm, x_ohm))
+
+
 @dataclass(frozen=True)
 class BoardFaults:
     """A board's loops (ohm) and fault currents (A), and its drop from the origin (%).
 
-    ``ze_ohm``/``zpn_ohm``: moduli added, hot (for the smallest currents); ``*_min_ohm``: the least the
-    impedance can be (for the largest currents). ``pfc_a`` is the larger of line-neutral, line-earth (not in
-    TT) and, on three phases, the symmetrical three-phase current (434.1).
+    ``ze_ohm``/``zpn_ohm``: moduli added, hot (for the smallest currents). For the largest currents, the supply's
+    impedances at the origin (``origin_min_ohm``: earth loop, line-neutral loop, three-phase, each the least it can
+    be) and the feeds' sums from the origin (``r_ohm``, ``x_ohm``, conductors at 20 degC, in the same order);
+    ``*_min_ohm`` is what :func:`tightest` makes of them. ``pfc_a`` is the larger of line-neutral, line-earth (not
+    in TT) and, on three phases, the symmetrical three-phase current (434.1).
     """
 
     ze_ohm: float
     zpn_ohm: float
-    ze_min_ohm: float
-    zpn_min_ohm: float
-    z3_min_ohm: float
+    origin_min_ohm: tuple[float, float, float]
     c_max: float
     u0_v: float
     tt: bool
     three_phase: bool
     voltage_drop_percent: float
     cautions: tuple[str, ...] = ()
+    r_ohm: tuple[float, float, float] = (0.0, 0.0, 0.0)
+    x_ohm: tuple[float, float, float] = (0.0, 0.0, 0.0)
+    x_over_r: float | None = None
+
+    def _least(self, k: int) -> float:
+        return tightest(self.origin_min_ohm[k], self.r_ohm[k], self.x_ohm[k], self.x_over_r)
+
+    @property
+    def ze_min_ohm(self) -> float:
+        return self._least(0)
+
+    @property
+    def zpn_min_ohm(self) -> float:
+        return self._least(1)
+
+    @property
+    def z3_min_ohm(self) -> float:
+        return self._least(2) if self.three_phase else math.nan
+
+    @property
+    def phase_fault_a(self) -> float:
+        """The larger of the line-neutral and line-earth (not in TT) currents: what a single-pole device sees."""
+        known = [x for x in (self.max_line_neutral_a, math.nan if self.tt else self.max_earth_fault_a) if x == x]
+        return max(known) if known else math.nan
 
     def _current(self, factor: float, impedance: float) -> float:
         return factor * self.u0_v / impedance if impedance > 0 else math.nan
@@ -181,8 +236,7 @@ class BoardFaults:
 
     @property
     def pfc_a(self) -> float:
-        known = [self.max_line_neutral_a, math.nan if self.tt else self.max_earth_fault_a, self.three_phase_a]
-        known = [x for x in known if not math.isnan(x)]
+        known = [x for x in (self.phase_fault_a, self.three_phase_a) if not math.isnan(x)]
         return max(known) if known else math.nan
 
     @property
@@ -218,17 +272,22 @@ def origin_faults(supply: Supply) -> BoardFaults:
     if supply.max_earth_fault_current_ka is not None:
         ef_max = supply.max_earth_fault_current_ka * 1000.0
     cautions = [faults.CAUTIONS[k] for k in (zpn_key[0],) if k in ("zpn-from-pfc", "zpn-from-ze")]
-    if pfc_key[0] == "line-earth":
-        cautions.append(faults.CAUTIONS["pfc-from-ze"])
+    if supply.prospective_fault_current_ka is None and supply.line_neutral_loop_ohm is None and not tt[0]:
+        cautions.append(faults.CAUTIONS["pfc-from-ze"])  # only Ze known: the line-neutral value may be higher
     if twice[0]:
         cautions.append(faults.CAUTIONS["ik3-twice"])
     impedance = lambda current: c_max * supply.u0_v / current if current > 0 else math.nan  # noqa: E731
+    # the line-neutral loop at its least: as given; else the stated fault level (the larger of the two, so the
+    # line-neutral value is no higher); else, in TN, Ze (said in a caution)
+    if supply.line_neutral_loop_ohm is not None:
+        zpn_min = supply.line_neutral_loop_ohm
+    else:
+        zpn_min = impedance(float(pfc_ka[0]) * 1000.0)
     return BoardFaults(
         ze_ohm=supply.ze_ohm,
         zpn_ohm=float(zpn[0]),
-        ze_min_ohm=impedance(ef_max),
-        zpn_min_ohm=impedance(float(pfc_ka[0]) * 1000.0),
-        z3_min_ohm=impedance(float(ik3[0])),
+        origin_min_ohm=(impedance(ef_max), zpn_min, impedance(float(ik3[0]))),
+        x_over_r=supply.x_over_r,
         c_max=c_max,
         u0_v=supply.u0_v,
         tt=bool(tt[0]),
@@ -244,13 +303,13 @@ def below(parent: BoardFaults, feed: FeedLoop) -> BoardFaults:
     cautions = parent.cautions
     if not feed.three_phase:
         cautions = tuple(c for c in cautions if c != faults.CAUTIONS["ik3-twice"])
+    r, xs = parent.r_ohm, parent.x_ohm
     return dataclasses.replace(
         parent,
         ze_ohm=parent.ze_ohm + math.hypot(feed.r1r2_hot, x),
         zpn_ohm=parent.zpn_ohm + math.hypot(feed.r1rn_hot, x),
-        ze_min_ohm=math.hypot(parent.ze_min_ohm, math.hypot(feed.r1r2_20, x)),
-        zpn_min_ohm=math.hypot(parent.zpn_min_ohm, math.hypot(feed.r1rn_20, x)),
-        z3_min_ohm=math.hypot(parent.z3_min_ohm, math.hypot(feed.r1_20, x / 2)) if feed.three_phase else math.nan,
+        r_ohm=(r[0] + feed.r1r2_20, r[1] + feed.r1rn_20, r[2] + feed.r1_20),
+        x_ohm=(xs[0] + x, xs[1] + x, xs[2] + x / 2),
         three_phase=feed.three_phase,
         voltage_drop_percent=parent.voltage_drop_percent + feed.drop_percent,
         cautions=cautions,
@@ -266,7 +325,8 @@ def board_supply(origin: Supply, board: Board, values: BoardFaults, phases: int,
     return dataclasses.replace(
         origin,
         ze_ohm=values.ze_ohm,
-        prospective_fault_current_ka=known(values.pfc_a, 1000.0),
+        # what a single-pole device sees; a three-phase circuit adds the three-phase value (faults.fault_loop)
+        prospective_fault_current_ka=known(values.phase_fault_a, 1000.0),
         line_neutral_loop_ohm=known(values.zpn_ohm),
         phases=phases,
         three_phase_fault_current_ka=known(values.three_phase_a, 1000.0),

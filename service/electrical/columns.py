@@ -171,7 +171,9 @@ def columns_of(supplies: Sequence[Supply], circuits: Sequence[Circuit]) -> Circu
         conductors=cond.conductor_columns([c.conductors for c in circuits]),
         devices=devices,
         device_groups=device_groups,
-        energy_groups=groups([(c.device.curve_key, c.device.energy_limiting_class) for c in circuits]),
+        energy_groups=groups(
+            [(c.device.curve_key, c.device.energy_limiting_class, c.device.let_through_curve) for c in circuits]
+        ),
         standard_device=np.array([d.standard is not None for d in devices], dtype=bool),
         is_fuse=np.array([d.kind == "fuse" for d in devices], dtype=bool),
         standard=np.array([d.standard for d in devices], dtype=object),
@@ -235,6 +237,8 @@ def device_problem(spec) -> ElectricalError | None:
         dev = resolve(spec)
         if spec.energy_limiting_class is not None and spec.energy_limiting_class not in let_through.ENERGY_CLASSES:
             raise InvalidInput("energy_limiting_class", f"the class is one of {list(let_through.ENERGY_CLASSES)}")
+        if spec.let_through_curve is not None:
+            let_through.check_curve(spec.let_through_curve)
         if spec.rcd is not None:
             residual.rcd_characteristic(spec.rcd.residual_current_ma, spec.rcd.delay)
         if dev.residual and spec.rcd is None:

@@ -72,8 +72,10 @@ BASES = {
     "zpn-given": "the line-neutral loop given",
     "zpn-from-pfc": "U0 / the stated prospective fault current",
     "zpn-from-ze": "Ze taken for the line-neutral loop (TN)",
-    "board-faults": "carried down to board {board} from the origin: cmax, conductors at 20 degC, impedances added as "
-    "the root of the sum of squares (never underestimated)",
+    "board-faults": "carried down to board {board} from the origin: cmax, conductors at 20 degC, the feeds' impedances "
+    "summed from the origin and added to the supply's at the least modulus its angle allows (never underestimated); "
+    "the larger of line-neutral and line-earth (a single-pole device sees no three-phase fault; a three-phase circuit "
+    "takes the three-phase value where it is larger)",
     "board-loop": "carried down to board {board}: the origin's loop plus each feed's R1+Rn, hot (never underestimated)",
 }
 CAUTIONS = {

@@ -37,9 +37,13 @@ RATING_BASIS = (
 )
 COMBINED = (
     "Ze and the line-neutral loop: the origin's plus each feed's R1+R2 and R1+Rn hot, moduli added (for the smallest "
-    "currents, Cmin 0.95); the largest currents: cmax, the feeds at 20 degC added as the root of the sum of squares "
-    "(IEC 60909-0 method; BS 7671:2018 411.4.4, 434.1)"
+    "currents, Cmin 0.95); the largest currents: cmax, the feeds' resistances at 20 degC and reactances summed from "
+    "the origin and added to the supply's impedance {how} (IEC 60909-0 method; BS 7671:2018 411.4.4, 434.1)"
 )
+HOW = {
+    "angle": "at the least modulus any supply angle from 0 to 90 degrees allows (supply.x_over_r not given)",
+    "x-over-r": "as complex numbers, with the supply's X/R as given",
+}
 CHUNK = 2000  # circuits per pipeline run where progress is reported
 FEED_UNREAD = "the feed could not be read: see its problem"
 FEED_NEEDS_CONDUCTORS = "a circuit that feeds a board needs its conductors: the loops below it follow from them"
@@ -268,7 +272,7 @@ def _figures(values: bv.BoardFaults | None, exact: bool) -> dict[str, Any]:
         return None if math.isnan(x) or math.isinf(x) else x
 
     if values is None:
-        return {name: None for name in FIGURES} | {"impedance_basis": COMBINED}
+        return {name: None for name in FIGURES} | {"impedance_basis": COMBINED.format(how=HOW["angle"])}
     figures = {
         "ze_ohm": known(values.ze_ohm),
         "line_neutral_loop_ohm": known(values.zpn_ohm),
@@ -279,7 +283,7 @@ def _figures(values: bv.BoardFaults | None, exact: bool) -> dict[str, Any]:
         "min_earth_fault_current_a": known(values.min_earth_fault_a),
         "min_line_neutral_fault_current_a": known(values.min_line_neutral_a),
         "voltage_drop_percent": known(values.voltage_drop_percent),
-        "impedance_basis": COMBINED,
+        "impedance_basis": COMBINED.format(how=HOW["angle" if values.x_over_r is None else "x-over-r"]),
     }
     return figures if exact else precision.rounded_record(figures)
 

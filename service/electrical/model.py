@@ -26,6 +26,7 @@ class Supply:
     current_kind: str = "ac"
     reduced_low_voltage: bool = False
     line_neutral_loop_ohm: float | None = None  # at the origin, measured or declared
+    x_over_r: float | None = None  # the supply impedance's X/R at the origin (the largest currents below it)
     phases: int = 1
     three_phase_fault_current_ka: float | None = None  # symmetrical, where known
     max_earth_fault_current_ka: float | None = None  # the largest earth fault (default U0 x cmax / Ze)
@@ -72,6 +73,8 @@ class DeviceSpec:
     isd_a: float | None = None  # short-time pickup
     tsd_s: float | None = None  # short-time delay
     afdd: bool | None = None  # an arc fault detection device at the circuit's origin (421.1.7); None: not stated
+    # the maker's let-through energy: (prospective current A, I2t A2s) points, read on log-log axes between them
+    let_through_curve: tuple[tuple[float, float], ...] | None = None
 
     @cached_property  # a frozen dataclass keeps it in its __dict__; equality and hashing read the fields only
     def curve_key(self) -> tuple:
@@ -86,6 +89,18 @@ class DeviceSpec:
             self.isd_a,
             self.tsd_s,
         )
+
+
+@dataclass(frozen=True)
+class DeviceDefaults:
+    """The maker's data said once for every device of a standard and type (a request's ``device_defaults``): each
+    device of that standard and type takes the fields it does not state itself."""
+
+    standard: str
+    type: str | None = None
+    breaking_capacity_ka: float | None = None
+    energy_limiting_class: int | None = None
+    let_through_curve: tuple[tuple[float, float], ...] | None = None
 
 
 @dataclass(frozen=True)

@@ -96,10 +96,13 @@ def rounded(values: Any, rule: tuple[str, int] | None) -> np.ndarray:
     kind, n = rule
     if kind == "decimals":
         return np.round(x, n)
-    with np.errstate(divide="ignore", invalid="ignore"):
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
         magnitude = np.floor(np.log10(np.abs(x)))
-        scale = np.where(np.isfinite(magnitude), 10.0 ** (n - 1 - magnitude), 1.0)
-        return np.where(np.isfinite(x) & (x != 0), np.round(x * scale) / scale, x)
+        places = np.where(np.isfinite(magnitude), n - 1 - magnitude, 0.0)
+        # scale by an exact power of ten on the side that keeps the result exact: 12 800 000 is 128 x 10^5, never
+        # 128 / 10^-5 (which gives 12800000.000000002)
+        up, down = 10.0 ** np.maximum(places, 0.0), 10.0 ** np.maximum(-places, 0.0)
+        return np.where(np.isfinite(x) & (x != 0), np.round(x * up / down) / up * down, x)
 
 
 def rounded_record(record: Any, unit: str | None = None) -> Any:

@@ -117,15 +117,49 @@ def max_length(
     found = _max_length(supply, circuit, inst, demand)
     if found["max_length_m"] is not None:
         found["max_length_m"] = math.floor(found["max_length_m"] * 100) / 100
+    forms = found["closed_form_m"]
+    found["closed_form_m"] = {k: v for k, v in forms.items() if 0 <= v <= MAX_LENGTH_M}
     found = precision.rounded_record(found)
-    found["requirements"] = _requirements(*_as_run(supply, circuit, inst, demand))
+    found["breakdown"] = [_limit_of(name, length) for name, length in forms.items()]
+    found["note"] = FIXES.get(found["limited_by"]) if found["max_length_m"] is None else None
+    run_supply, run_circuit = _as_run(supply, circuit, inst, demand)
+    at = circuit.conductors.length_m if found["max_length_m"] is None else found["max_length_m"]
+    found["requirements"], found["cautions"] = _said(run_supply, run_circuit, at)
     return found
 
 
-def _requirements(supply: Supply, circuit: Circuit) -> list[Check]:
-    """The rules beyond the calculations for the circuit (they do not depend on its length)."""
-    outcome = check_circuits(supply, [circuit])[0]
-    return [] if isinstance(outcome, CircuitFailure) else [c for c in outcome.checks if c.check in REQUIREMENT_CHECKS]
+# what would let a run pass where no length does, by the check that fails at the shortest length (common practice)
+FIXES = {
+    "capacity": "the cable cannot carry the device's rating: a larger cable, or a smaller device",
+    "breaking-capacity": "the fault level exceeds the device's capacity: a device of higher breaking capacity",
+    "protective-conductor": "a larger cpc, or the maker's let-through data (device.let_through_curve)",
+    "short-circuit": "a larger line conductor, a device that clears sooner, or the maker's let-through data",
+    "disconnection-time": "a lower Ze, an RCD, or a device that trips at a lower current",
+    "max-zs": "a lower Ze, an RCD, or a device that trips at a lower current",
+    "voltage-drop": "a larger cable, or the load nearer the origin",
+    "rcd": "a lower loop impedance or electrode resistance, or an RCD of smaller IΔn",
+}
+
+
+def _limit_of(name: str, length_m: float) -> dict[str, Any]:
+    """One row of the breakdown: the longest run the check's closed form allows, or why it cannot limit the run."""
+    if length_m > MAX_LENGTH_M:
+        note = f"cannot limit the run within {MAX_LENGTH_M:g} m (its limit lies beyond any real run)"
+        return {"check": name, "max_length_m": None, "note": note}
+    if length_m < 0:
+        return {"check": name, "max_length_m": 0.0, "note": "fails at any length: the origin alone exceeds its limit"}
+    rounded = float(precision.rounded(length_m, precision.RULES["m"]))
+    return {"check": name, "max_length_m": rounded, "note": "closed form (the whole check confirms the answer)"}
+
+
+def _said(supply: Supply, circuit: Circuit, length_m: float) -> tuple[list[Check], list[str]]:
+    """The rules beyond the calculations for the circuit (they do not depend on its length) and its cautions at the
+    length answered (or, where no length passes, at the length given)."""
+    run = dataclasses.replace(circuit, conductors=dataclasses.replace(circuit.conductors, length_m=float(length_m)))
+    outcome = check_circuits(supply, [run])[0]
+    if isinstance(outcome, CircuitFailure):
+        return [], []
+    return [c for c in outcome.checks if c.check in REQUIREMENT_CHECKS], outcome.cautions
 
 
 def _max_length(
@@ -227,6 +261,7 @@ def _closed_forms(supply: Supply, circuit: Circuit, inst: CableRun | None, deman
     ib = circuit.design_current_a if demand is None or demand.design_current_a is None else demand.design_current_a
     if inst is not None and demand is not None and ib:
         with installation_paths():
-            vd_1m = voltage_drop(inst, demand, circuit.conductors.line_csa_mm2, ib, supply.u0_v, 1.0)
+            c = circuit.conductors  # a ring's drop is a quarter of its whole length's (as the check takes it)
+            vd_1m = voltage_drop(inst, demand, c.line_csa_mm2, ib, supply.u0_v, 1.0, c.ring, c.parallel_cables)
         candidates["voltage-drop"] = vd_1m["limit_percent"] / vd_1m["percent"]
     return candidates

@@ -16,7 +16,7 @@ import numpy as np
 from . import disconnection, protective, verdicts
 from .arrays import finite_or_none, nan_to
 from .columns import CircuitColumns
-from .devices import catalogue, residual
+from .devices import catalogue, let_through, residual
 from .devices.catalogue import resolve
 from .devices.characteristic import BEYOND_DATA, ESTIMATED, bound_names
 from .errors import ElectricalError
@@ -64,12 +64,16 @@ def fault_energies(cols: CircuitColumns, currents: Sequence[np.ndarray]) -> list
     t, b = np.empty(n * k), np.empty(n * k, np.int8)
     data, basis = np.full(n * k, np.nan), np.full(n * k, None, dtype=object)
     shifts = n * np.arange(k)[:, None]
-    for (_, energy_class), idx in cols.energy_groups.items():
+    given = np.tile(cols.let_through_a2s, k)
+    for (_, energy_class, curve), idx in cols.energy_groups.items():
         dev = cols.devices[idx[0]]
         at = (idx[None, :] + shifts).ravel()
         t[at], b[at] = dev.characteristic.time_codes(current[at])
         data[at], basis[at] = catalogue.let_through(dev, current[at], energy_class)
-    energy, method = protective.fault_energy_a2s(current, t, np.tile(cols.let_through_a2s, k), data)
+        if curve is not None:  # the maker's curve where it reaches the current, else the single figure if any
+            from_curve = let_through.curve_a2s(curve, current[at])
+            given[at] = np.where(np.isnan(from_curve), given[at], from_curve)
+    energy, method = protective.fault_energy_a2s(current, t, given, data)
     energy = np.where(known, energy, np.nan)
     method = np.where(known, method, None).astype(object)
     from_data = method == "let-through-data"

@@ -148,6 +148,13 @@ def _fuse_over_breaker(down: Device, down_spec: DeviceSpec, up: Device) -> PairL
             f"the breaker's curve reaches the fuse's no-melt limits ({gate['imin_0_1s_a']:g} A in 0.1 s, "
             f"{gate['imin_10s_a']:g} A in 10 s, {non_fusing:g} A conventional): no selectivity shown",
         )
+    if down_spec.let_through_curve is not None:
+        limit = let_through.curve_limit_a(down_spec.let_through_curve, pre_arcing)
+        return PairLimit(
+            limit,
+            f"the maker's let-through curve against the fuse's pre-arcing {pre_arcing:g} A2s (read on log-log axes, "
+            "never beyond the curve's last point)",
+        )
     if down_spec.let_through_a2s is not None:
         limit = ANY if down_spec.let_through_a2s <= pre_arcing else 0.0
         return PairLimit(
@@ -161,7 +168,7 @@ def _fuse_over_breaker(down: Device, down_spec: DeviceSpec, up: Device) -> PairL
 def _class_limit(down: Device, down_spec: DeviceSpec, pre_arcing: float) -> PairLimit:
     """The largest prospective current whose class let-through stays below the fuse's pre-arcing I2t."""
     if not let_through.class_applies(down.type, down.rating_a):
-        return PairLimit(NOT_SHOWN, "the breaker's let-through is not classed: give the maker's let_through_a2s")
+        return PairLimit(NOT_SHOWN, "the breaker's let-through is not classed: give the maker's let_through_curve")
     columns = [c["prospective_current_a"] for b in device_table("let_through_energy")["bands"] for c in b["columns"]]
     energy_class = down_spec.energy_limiting_class or let_through.default_class()[0]
     energies = let_through.class_let_through_a2s(down.type, down.rating_a, energy_class, sorted(set(columns)))

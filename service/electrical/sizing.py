@@ -185,8 +185,18 @@ def rules_out(name: str, verdict: str, lenient: frozenset[str] = frozenset()) ->
     return verdict == Verdict.NOT_VERIFIED and name not in lenient and name not in RULE_CHECKS
 
 
-def voltage_drop(inst: CableRun, demand: Demand, csa: float, ib: float, u0_v: float, length_m: float) -> dict[str, Any]:
-    """The voltage drop of the run: mV/A/m x Ib x L, in volts and in percent of U0 (or of the line voltage).
+def voltage_drop(
+    inst: CableRun,
+    demand: Demand,
+    csa: float,
+    ib: float,
+    u0_v: float,
+    length_m: float,
+    ring: bool = False,
+    parallel_cables: int = 1,
+) -> dict[str, Any]:
+    """The voltage drop of the run: mV/A/m x Ib x L, in volts and in percent of U0 (or of the line voltage); a
+    ring's a quarter of its whole length's, cables in parallel share it (:func:`capacity.drop_v`).
 
     The limit beside it is the request's, else Appendix 4 section 6.4's for the supply and use.
     """
@@ -197,7 +207,7 @@ def voltage_drop(inst: CableRun, demand: Demand, csa: float, ib: float, u0_v: fl
             inst.cable, csa, demand.phases, inst.reactance_mohm_per_m, inst.installation_method
         )
     nominal = float(cap.nominal_voltage_v(u0_v, demand.phases))
-    drop = float(cap.drop_v(mv, ib, length_m))
+    drop = float(cap.drop_v(mv, ib, length_m, parallel_cables, ring))
     if demand.voltage_drop_limit_percent is not None:
         limit, limit_basis = float(demand.voltage_drop_limit_percent), "set in the request"
     else:

@@ -11,7 +11,7 @@ import pytest
 from service.electrical.columns import CircuitFailure
 from service.electrical.errors import InvalidInput
 from service.electrical.installation import check_installation
-from service.electrical.model import Board, CableRun, Conductors, DeviceSpec, Installation, Supply, Unread
+from service.electrical.model import Board, CableRun, Circuit, Conductors, DeviceSpec, Installation, Supply, Unread
 from service.electrical.results import CircuitResult
 from tests.electrical.pipeline import B32, RCBO_B16, TWIN_2_5, circuit
 
@@ -75,11 +75,16 @@ def test_a_feed_with_only_r1_plus_r2_or_unread_cannot_carry_the_loops_down():
     assert isinstance(unread.boards[0].circuits[0], Unread) and "could not be read" in unread.boards[1].not_checked
 
 
-def test_the_feed_carries_the_demand_below_and_says_where_it_raised_its_ib():
+def test_a_stated_feed_current_wins_and_the_sum_below_is_shown_beside_it():
+    # BS 7671 311.1: the designer's maximum demand after diversity is the design basis (installation-rules.md)
     result = check_installation(garden_centre(feed=glasshouse_feed(design_current_a=6)))
     feed = result.boards[0].circuits[0]
-    assert feed.overload["design_current_a"] == 10 and any("below the board's demand" in c for c in feed.cautions)
+    assert feed.overload["design_current_a"] == 6
+    assert any("summed demand after its stated diversity, 10 A, exceeds the feed's stated" in c for c in feed.cautions)
     assert result.boards[1].demand["design_current_a"] == 10
+    # without a stated Ib the feed carries the sum below
+    unstated = check_installation(garden_centre(feed=glasshouse_feed(design_current_a=None)))
+    assert unstated.boards[0].circuits[0].overload["design_current_a"] == 10
 
 
 def test_a_drop_not_known_above_leaves_the_drop_below_not_verified():
@@ -111,3 +116,32 @@ def test_diversity_is_a_share():
     with pytest.raises(InvalidInput) as err:
         check_installation(dataclasses.replace(inst, boards=(inst.boards[0], bad)))
     assert err.value.path == ("boards", 1, "diversity")
+
+
+def test_a_single_phase_device_on_a_three_phase_board_sees_the_phase_faults_not_the_three_phase_one():
+    # installation-rules.md (derived): a single-pole device is reached by a line-neutral or line-earth fault, never by
+    # the symmetrical three-phase one. The B32 ring on a three-phase board under a gG 100 A feed: its largest fault is
+    # the board's line-neutral 2.5 kA, not the 5.0 kA three-phase; B32 class 3 lets through at most 18 000 A2s up to
+    # 3 kA (BS EN 60898-1 Annex ZA, from memory) against the gG 100 A pre-arcing 27 000 A2s (IEC 60269-1, from
+    # memory): selective up to 3 kA, so total for this board.
+    origin = Supply("TN-S", 230, 0.25, line_neutral_loop_ohm=0.1, phases=3, three_phase_fault_current_ka=5.0)
+    run = CableRun("multicore-armoured-90c", "C", earthed_metallic_covering=True)
+    feed = Circuit(DeviceSpec(100, "BS 88-2", "gG"), Conductors("copper", "thermosetting-90", 35, 16, 10),
+                   role="distribution", phases=3, feeds_board="DB", id="db feed", installation=run)  # fmt: skip
+    ring = Circuit(DeviceSpec(32, "BS EN 60898", "B", breaking_capacity_ka=6),
+                   Conductors("copper", "thermoplastic-70", 2.5, 1.5, 40, ring=True),
+                   load="socket-outlets", phase="L1", id="ring", selectivity_required=True)  # fmt: skip
+    motor_cable = Conductors("copper", "thermosetting-90", 6, 6, 20)
+    three = Circuit(DeviceSpec(32, "BS EN 60898", "C", breaking_capacity_ka=6), motor_cable, load="fixed-equipment",
+                    phases=3, id="motor")  # fmt: skip
+    result = check_installation(Installation(origin, (Board("MAIN", (feed,)), Board("DB", (ring, three), "MAIN"))))
+    board, (sockets, motor) = result.boards[1], result.boards[1].circuits
+    assert board.three_phase_fault_current_ka > 4.9 and sockets.prospective_fault_current_ka < 2.6
+    assert sockets.prospective_fault_current_ka == board.max_line_neutral_fault_current_ka
+    assert sockets.selectivity["verdict"] == "total" and sockets.check("selectivity").verdict == "pass"
+    assert motor.prospective_fault_current_ka == board.three_phase_fault_current_ka  # a three-phase device: Ik3
+    # a single-pole device whose Icn is below the board's three-phase fault: said, not failed
+    small = dataclasses.replace(ring, device=DeviceSpec(32, "BS EN 60898", "B", breaking_capacity_ka=4.5))
+    result = check_installation(Installation(origin, (Board("MAIN", (feed,)), Board("DB", (small,), "MAIN"))))
+    checked = result.boards[1].circuits[0]
+    assert checked.check("breaking-capacity").verdict == "pass" and any("single-pole" in c for c in checked.cautions)

@@ -183,3 +183,39 @@ def test_the_rcbo_radial_is_limited_by_its_short_circuit():
     r = max_length(shop, circuit)
     assert r["limited_by"] == "short-circuit"
     assert r["max_length_m"] == pytest.approx((218.5 / 160 - 0.19) / (2 * 7.41 * 1.2 / 1000), rel=1e-3)
+
+
+def test_a_rings_breakdown_matches_its_answer_and_the_rcd_limit_says_it_cannot_limit():
+    # a ring's drop is a quarter of its whole length's (Appendix 4 practice, capacity.drop_v): 5 % of 230 V =
+    # 11.5 V = 18 mV/A/m (Table 4D5 2.5 mm2, from memory) x 26 A x L / 4 -> L = 98.29 m of ring, the same in the
+    # breakdown as in the answer. With a 30 mA RCBO the loop limit is 50 V / 30 mA = 1666.7 ohm (Table 41.5): its
+    # closed form lies far beyond any real run, and the breakdown says so instead of giving a number.
+    ring = Circuit(
+        device=DeviceSpec(rating_a=32, standard="BS EN 61009", type="B", breaking_capacity_ka=6, rcd=Rcd(30)),
+        conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.5, 50, ring=True),
+        role="final",
+        load="socket-outlets",
+        design_current_a=26,
+    )
+    r = max_length(STORE, ring, CableRun("flat-twin-earth-70c", "C"), Demand(length_m=50, design_current_a=26))
+    by_check = {row["check"]: row for row in r["breakdown"]}
+    assert r["limited_by"] == "voltage-drop" and r["max_length_m"] == pytest.approx(
+        11.5 * 1000 * 4 / (18 * 26), abs=0.01
+    )
+    assert by_check["voltage-drop"]["max_length_m"] == pytest.approx(r["max_length_m"], abs=0.01)
+    assert by_check["max-zs"]["max_length_m"] is None and "cannot limit" in by_check["max-zs"]["note"]
+    assert "max-zs" not in r["closed_form_m"] and r["note"] is None
+    assert any("competent person" in c for c in r["cautions"])
+
+
+def test_no_length_passes_says_which_check_and_what_would():
+    # a 1.0 mm2 cpc under a B32: class 3 lets through up to 18 000 A2s (BS EN 60898-1 Annex ZA, from memory), which
+    # needs sqrt(18 000) / 115 = 1.167 mm2 (543.1.3): no length shows the cpc, the shortest included
+    thin = Circuit(
+        device=DeviceSpec(rating_a=32, standard="BS EN 60898", type="B", breaking_capacity_ka=6),
+        conductors=Conductors("copper", "thermoplastic-70", 2.5, 1.0, 20),
+        load="fixed-equipment",
+    )
+    r = max_length(STORE, thin)
+    assert r["max_length_m"] is None and r["limited_by"] == "protective-conductor"
+    assert "larger cpc" in r["note"] and r["cautions"]

@@ -178,3 +178,24 @@ def test_a_breaking_capacity_shortfall_is_the_devices_not_the_cables():
     )
     assert in_unit.selected["line_csa_mm2"] == plain.selected["line_csa_mm2"]
     assert in_unit.selected["check"].check("breaking-capacity").verdict == "pass"
+
+
+def test_a_lighting_circuit_on_1_5_1_0_passes_with_the_makers_let_through_curve():
+    # B6 on 1.5/1.0 mm2: the standard's class 3 limit (15 000 A2s up to 3 kA, BS EN 60898-1 Annex ZA, from memory)
+    # exceeds the 1.0 mm2 cpc's k^2 S^2 = 115^2 x 1^2 = 13 225 A2s (Table 54.3), so without the maker's data the cpc
+    # cannot be shown and sizing goes to 2.5/1.5 mm2. An invented maker's curve (demo data) lets through at most
+    # 4 500 A2s up to 3 kA: S <= sqrt(4 500) / 115 = 0.583 mm2 at any fault it covers, so 1.5/1.0 mm2 passes and is
+    # what sizing proposes.
+    shop = dataclasses.replace(STORE, prospective_fault_current_ka=3.0, premises="other")
+    run = CableRun("flat-twin-earth-70c", "C", concealed_in_wall="no")
+    curve = ((200.0, 900.0), (1000.0, 2000.0), (3000.0, 4500.0), (6000.0, 7500.0))
+    demand = Demand(length_m=20, design_current_a=4, load="fixed-equipment", equipment="lighting", location="general",
+                    use="lighting")  # fmt: skip
+    plain = size_circuit(shop, demand, run, DeviceSpec(1, "BS EN 60898", "B", breaking_capacity_ka=6))
+    assert (plain.selected["line_csa_mm2"], plain.tried[0].ruled_out_by) == (2.5, "protective-conductor")
+    maker = DeviceSpec(1, "BS EN 60898", "B", breaking_capacity_ka=6, let_through_curve=curve)
+    sized = size_circuit(shop, demand, run, maker)
+    assert (sized.selected["line_csa_mm2"], sized.selected["cpc_csa_mm2"]) == (1.5, 1.0) and sized.tried == []
+    cpc = sized.selected["check"].check("protective-conductor")
+    assert cpc.verdict == "pass" and cpc.limit <= math.sqrt(4500) / 115
+    assert sized.selected["check"].protective_conductor["energy_basis"] == "let-through"

@@ -40,6 +40,11 @@ NOTES = {
 CAUTION_MEMORY = (
     "Breaking capacity taken from a standard minimum that is from memory: confirm it from the maker's data."
 )
+CAUTION_LINES = (
+    "A single-pole device on a three-phase board is judged at the larger of the line-neutral and line-earth faults "
+    "(no three-phase fault passes through it); the board's three-phase fault exceeds its rated capacity, which a "
+    "fault between the lines of two single-phase circuits could reach: consider a device rated for it."
+)
 
 
 def _defaults(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
@@ -86,5 +91,8 @@ def breaking_capacity(cols: CircuitColumns, loop: FaultLoop, trip: DeviceRespons
         limit,
         basis,
         note,
-        cautions=[(from_default & ~conditional, CAUTION_MEMORY)],
+        cautions=[
+            (from_default & ~conditional, CAUTION_MEMORY),
+            ((cols.phases == 1) & (cols.supply_phases == 3) & (loop.three_phase_a / 1000.0 > limit), CAUTION_LINES),
+        ],
     )

@@ -26,7 +26,7 @@ NOTES = {
     "let-through-data": "Energy from the standard's largest let-through for the device (see energy_data).",
     "stand-in": (
         "The cpc fails only on a stand-in for the device's energy (the standard's limit or I^2 x 0.1 s): the maker's "
-        "let-through I^2 t (device.let_through_a2s) may show compliance."
+        "let-through I^2 t (device.let_through_curve, or device_defaults for every such device) may show compliance."
     ),
     "selection-unprotected": (
         "Table 54.7 presumes the line conductor is protected against fault current (short-circuit check), which is "
@@ -40,7 +40,7 @@ NOTES = {
 }
 CAUTION_ENERGY = (
     "Below 0.1 s the cpc check uses I^2 x 0.1 s, a conservative stand-in for the device's let-through energy "
-    "(give let_through_a2s to use the maker's value)."
+    "(give let_through_curve or let_through_a2s to use the maker's data)."
 )
 
 

@@ -36,7 +36,7 @@ NOTES = {
     "near-energy": "At the largest fault current the device lets through more than k^2 S^2.",
     "stand-in": (
         "The energy compared is the standard's limit for the device or the conservative I^2 x 0.1 s, not the device's "
-        "own: the maker's let-through I^2 t (device.let_through_a2s) may show compliance."
+        "own: the maker's let-through I^2 t (device.let_through_curve, or device_defaults) may show compliance."
     ),
     "near-unknown": (
         "The largest fault current is not known (TT): the let-through at the origin cannot be checked; state the "

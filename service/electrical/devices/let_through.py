@@ -82,6 +82,51 @@ def gg_pre_arcing_a2s(rating_a: float) -> float | None:
     return float(below[-1]["pre_arcing_min_a2s"]) if below else None
 
 
+def check_curve(curve: tuple[tuple[float, float], ...]) -> None:
+    """A maker's let-through curve: at least two points, currents rising, energies above zero and not falling."""
+    if len(curve) < 2:
+        raise InvalidInput("let_through_curve", "give at least two points")
+    currents, energies = zip(*curve, strict=True)
+    if any(b <= a for a, b in zip(currents, currents[1:], strict=False)):
+        raise InvalidInput("let_through_curve", "the prospective currents must rise from point to point")
+    if min(energies) <= 0 or any(b < a for a, b in zip(energies, energies[1:], strict=False)):
+        raise InvalidInput(
+            "let_through_curve", "the energies must be above zero and must not fall as the current rises"
+        )
+
+
+def curve_a2s(curve: tuple[tuple[float, float], ...], current_a: Any) -> np.ndarray:
+    """The maker's let-through I2t (A2s) at each prospective current, read on log-log axes between the points.
+
+    Below the first point's current: the first point's energy (never extrapolated below it, the safe side, as the
+    energy rises with the current); above the last point's current: NaN (never extrapolated: the curve says
+    nothing there).
+    """
+    current = as_float(current_a)
+    log_i, log_e = np.log(np.array(curve, dtype=float)).T
+    with np.errstate(divide="ignore", invalid="ignore"):
+        energy = np.exp(np.interp(np.log(current), log_i, log_e))
+    for point_a, point_a2s in curve:  # at a point, its own figure (no round trip through logarithms)
+        energy = np.where(current == point_a, point_a2s, energy)
+    energy = np.where(current < curve[0][0], curve[0][1], energy)
+    return np.where(current > curve[-1][0], np.nan, energy)
+
+
+def curve_limit_a(curve: tuple[tuple[float, float], ...], energy_a2s: float) -> float:
+    """The largest prospective current (A) within the curve at which its energy stays at or below ``energy_a2s``:
+    the crossing read on log-log axes, the last point's current where the curve never reaches it, 0 where even its
+    first point is above it."""
+    if curve[0][1] > energy_a2s:
+        return 0.0
+    for (i0, e0), (i1, e1) in zip(curve, curve[1:], strict=False):
+        if e1 > energy_a2s:
+            if e1 == e0:
+                return i0
+            share = (np.log(energy_a2s) - np.log(e0)) / (np.log(e1) - np.log(e0))
+            return float(np.exp(np.log(i0) + share * (np.log(i1) - np.log(i0))))
+    return float(curve[-1][0])
+
+
 def provenance() -> list[dict[str, Any]]:
     from ..datafiles import provenance as of
 

@@ -50,3 +50,32 @@ def test_families_answer_for_their_devices():
     assert energy[0] == 27_000
     energy, basis = of(resolve(DeviceSpec(rating_a=30, standard="BS 3036")), [1000.0])
     assert np.isnan(energy[0]) and basis is None  # no data: the maker's figure, or the stand-in
+
+
+CURVE = ((200.0, 900.0), (1000.0, 2000.0), (3000.0, 4500.0))  # an invented maker's curve (demo data)
+
+
+def test_a_makers_curve_is_read_on_log_log_axes_and_never_extrapolated():
+    # between points, straight on log-log axes (DESIGN.md, as a designer reads the printed graph): at 2 000 A,
+    # ln E = ln 2000 + (ln 2000 - ln 1000) / (ln 3000 - ln 1000) x (ln 4500 - ln 2000)
+    expected = np.exp(np.log(2000) + np.log(2) / np.log(3) * np.log(4500 / 2000))
+    got = let_through.curve_a2s(CURVE, [100, 200, 2000, 3000, 3001])
+    assert got[0] == 900 and got[1] == 900  # below the first point: its energy, never less
+    assert got[2] == pytest.approx(expected) and got[3] == pytest.approx(4500) and np.isnan(got[4])
+
+
+def test_a_curves_limit_against_an_energy():
+    # crossing 3 000 A2s between 1 000 A (2 000 A2s) and 3 000 A (4 500 A2s) on log-log axes
+    crossing = np.exp(np.log(1000) + np.log(3000 / 2000) / np.log(4500 / 2000) * np.log(3))
+    assert let_through.curve_limit_a(CURVE, 3000) == pytest.approx(crossing)
+    assert let_through.curve_limit_a(CURVE, 10_000) == 3000  # the curve's last point, never beyond
+    assert let_through.curve_limit_a(CURVE, 500) == 0.0
+
+
+def test_a_curve_must_rise():
+    with pytest.raises(InvalidInput):
+        let_through.check_curve(((1000.0, 2000.0), (500.0, 3000.0)))
+    with pytest.raises(InvalidInput):
+        let_through.check_curve(((1000.0, 2000.0), (2000.0, 1000.0)))
+    with pytest.raises(InvalidInput):
+        let_through.check_curve(((1000.0, 2000.0),))
