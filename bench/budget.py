@@ -36,7 +36,6 @@ def _batch_once(raw: bytes, answer: dict) -> dict[str, float]:
     from service.api.lean import CHUNK
     from service.api.schemas import BatchRequestSchema
     from service.api.strictjson import strict_loads
-    from service.electrical.arrays import paused_gc
     from service.electrical.circuit import check_columns
     from service.electrical.columns import columns_of, prepare
     from service.electrical.table import Interned, columns_of_checked
@@ -46,23 +45,22 @@ def _batch_once(raw: bytes, answer: dict) -> dict[str, float]:
     data = strict_loads(raw)
     t["read"] = time.perf_counter() - start
     start = time.perf_counter()
-    body = BatchRequestSchema().load(data)  # paused collector, as the view's schema does
+    body = BatchRequestSchema().load(data)
     t["load"] = time.perf_counter() - start
     items, supply = body["circuits"], body["supply"]
     texts, devices = Interned(), Interned()
-    with paused_gc():
-        for first in range(0, len(items), CHUNK):
-            chunk = items[first : first + CHUNK]
-            start = time.perf_counter()
-            good, _ = prepare([supply] * len(chunk), chunk)
-            cols = columns_of([supply] * len(good), [chunk[i] for i in good])
-            t["columns"] += time.perf_counter() - start
-            start = time.perf_counter()
-            checked = check_columns(cols)
-            t["checks"] += time.perf_counter() - start
-            start = time.perf_counter()
-            columns_of_checked(checked, good, texts, devices)
-            t["table"] += time.perf_counter() - start
+    for first in range(0, len(items), CHUNK):
+        chunk = items[first : first + CHUNK]
+        start = time.perf_counter()
+        good, _ = prepare([supply] * len(chunk), chunk)
+        cols = columns_of([supply] * len(good), [chunk[i] for i in good])
+        t["columns"] += time.perf_counter() - start
+        start = time.perf_counter()
+        checked = check_columns(cols)
+        t["checks"] += time.perf_counter() - start
+        start = time.perf_counter()
+        columns_of_checked(checked, good, texts, devices)
+        t["table"] += time.perf_counter() - start
     start = time.perf_counter()
     json_bytes(answer)
     t["write"] = time.perf_counter() - start
@@ -210,12 +208,13 @@ def single_budget(row: Row, parts: dict[str, float], bare_cpu_ms: float, ceiling
 
 def measured() -> dict:
     """The batch's budget rows and the core's runs, in this process set up as a worker is when it starts (the app,
-    then matplotlib: deploy/gunicorn.conf.py's post_worker_init). The collector's full passes scan every object a
-    process holds, so a process that has done other work first (the rest of the bench) reads slower."""
+    then matplotlib, then the runtime policy: deploy/gunicorn.conf.py's post_worker_init)."""
+    from service import runtime
     from service.picture import warm
 
     rows: list[tuple[str, ...]] = []
     warm()
+    runtime.apply()
     batch_budget(lambda *cells: rows.append(cells))
     return {"rows": rows, "single": single_parts()}
 

@@ -39,10 +39,13 @@ def on_starting(server):
 
 
 def post_worker_init(worker):
-    # matplotlib is imported once per worker before it takes traffic, so the first picture is quick
+    # matplotlib is imported once per worker before it takes traffic, so the first picture is quick; then the
+    # runtime policy is set once (service/runtime.py): what start-up made is frozen out of the collector's sight
+    from service import runtime
     from service.picture import warm
 
     warm()
+    runtime.apply()
 
 
 def child_exit(server, worker):

@@ -24,7 +24,6 @@ from werkzeug.routing import BaseConverter
 from .api import (
     cable_views,
     circuit_views,
-    collector,
     device_views,
     docs,
     errors,
@@ -205,7 +204,6 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     app.extensions["faultpath_coalescer"] = Coalescer(settings.coalesce_ms / 1000.0)
     _install_guards(app, settings)
     _install_rate_limit(app, settings)
-    collector.install(app)
     metrics.install(app)
     app.register_error_handler(errors.CoreInputError, errors.handle_http_exception)
     app.register_error_handler(Exception, _unexpected)

@@ -24,11 +24,11 @@ from collections.abc import Iterable
 from pathlib import Path
 from typing import Any, TextIO
 
+from . import runtime
 from .api.errors import json_bytes
 from .api.strictjson import strict_loads
 from .cli_read import Row, ScheduleError, iter_csv, iter_json, iter_ndjson, top_level_kind
 from .cli_status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
-from .electrical.arrays import paused_gc
 from .electrical.circuit import check_circuits
 from .electrical.columns import CircuitFailure
 from .electrical.results import GENERAL_CAUTIONS
@@ -64,8 +64,7 @@ def run_chunks(rows: Iterable[Row], progress: Progress):
         chunk = list(itertools.islice(rows, CHUNK))
         if not chunk:
             return
-        with paused_gc():
-            records = _chunk(chunk)
+        records = _chunk(chunk)
         done += len(records)
         progress.update(done)
         yield records
@@ -141,6 +140,7 @@ def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> Non
 
 
 def main(args: argparse.Namespace) -> int:
+    runtime.apply()  # set once, as a worker sets it (service/runtime.py)
     path = Path(args.file)
     kind = args.input_format or {".csv": "csv", ".ndjson": "ndjson"}.get(path.suffix.lower(), "json")
     try:

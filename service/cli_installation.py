@@ -16,7 +16,6 @@ from marshmallow import ValidationError
 from .api.errors import core_errors, flatten, json_bytes
 from .api.installation_schemas import InstallationRequestSchema, installation_of, problem_messages, records
 from .cli_status import EXIT_FAIL, EXIT_UNREADABLE, exit_status
-from .electrical.arrays import paused_gc
 from .electrical.errors import ElectricalError
 from .electrical.installation import check_installation
 from .electrical.verdicts import Verdict
@@ -44,8 +43,7 @@ def run(body: dict, path: Path, args, progress) -> int:
     count = sum(len(board.circuits) for board in inst.boards)
     bar = progress(count)
     try:
-        with paused_gc():
-            result = check_installation(inst, loaded.get("checks"), progress=bar.update)
+        result = check_installation(inst, loaded.get("checks"), progress=bar.update)
     except ElectricalError as err:
         return _refused(path, core_errors(err))
     answer = json_bytes(records(inst, result, problems)) + b"\n"

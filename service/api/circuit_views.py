@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import flask
 
-from ..electrical.arrays import paused_gc
 from ..electrical.circuit import check_circuits
 from ..electrical.columns import CircuitFailure
 from ..electrical.devices.catalogue import resolve
@@ -102,10 +101,9 @@ def check_batch(query, body):
         flask.abort(413, description=f"a batch holds at most {limit} circuits")
     if flask.request.accept_mimetypes.best_match(["application/json", NDJSON]) == NDJSON:
         return flask.Response(flask.stream_with_context(_ndjson(body, items)), mimetype=NDJSON)
-    with paused_gc():
-        if query["form"] == "lean":
-            return json_response(lean_answer(body["supply"], items, body.get("checks"), body["edition"]))
-        return _full_answer(body, items)
+    if query["form"] == "lean":
+        return json_response(lean_answer(body["supply"], items, body.get("checks"), body["edition"]))
+    return _full_answer(body, items)
 
 
 def _full_answer(body, items) -> flask.Response:

@@ -13,7 +13,6 @@ from marshmallow import Schema, ValidationError, fields, post_load, validate, va
 
 from ..electrical import capacity, disconnection, protective, requirements
 from ..electrical import conductors as cond
-from ..electrical.arrays import paused_gc
 from ..electrical.checks import CHECKS
 from ..electrical.columns import PHASES
 from ..electrical.devices import catalogue, residual
@@ -66,13 +65,12 @@ class FastSchema(Schema):
     check; batch items and schedule rows go through :class:`PerItemList` and the CLI."""
 
     def load(self, data, *, many=None, partial=None, unknown=None):
-        with paused_gc():  # a batch's thousands of items would wake the collector again and again
-            if not many and not partial and unknown is None:
-                try:
-                    return fast_load(self, data)
-                except Refused:
-                    pass
-            return super().load(data, many=many, partial=partial, unknown=unknown)
+        if not many and not partial and unknown is None:
+            try:
+                return fast_load(self, data)
+            except Refused:
+                pass
+        return super().load(data, many=many, partial=partial, unknown=unknown)
 
 
 class CurvePointSchema(Schema):

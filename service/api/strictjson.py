@@ -14,8 +14,6 @@ from typing import Any
 from webargs import core
 from webargs.flaskparser import FlaskParser, abort
 
-from ..electrical.arrays import paused_gc
-
 MAX_INTEGER_DIGITS = 18
 
 
@@ -62,10 +60,9 @@ def strict_loads(data: bytes | str) -> Any:
     except UnicodeDecodeError as exc:
         raise _reject(f"the body is not UTF-8 ({exc.reason})") from None
     try:
-        with paused_gc():  # a large body's thousands of objects would wake the collector again and again
-            return json.loads(
-                text, parse_constant=_constant, parse_int=_integer, parse_float=_float, object_pairs_hook=_pairs
-            )
+        return json.loads(
+            text, parse_constant=_constant, parse_int=_integer, parse_float=_float, object_pairs_hook=_pairs
+        )
     except json.JSONDecodeError as exc:
         if isinstance(exc, _Refused):  # raised by the hooks above: already in our words
             raise _reject(exc.msg, text[:80]) from None

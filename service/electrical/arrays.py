@@ -3,10 +3,8 @@
 from __future__ import annotations
 
 import functools
-import gc
 import math
-from collections.abc import Callable, Hashable, Iterator, Mapping
-from contextlib import contextmanager
+from collections.abc import Callable, Hashable, Mapping
 from typing import Any, TypeVar
 
 import numpy as np
@@ -104,20 +102,3 @@ def groups(keys: Any) -> Mapping[Hashable, np.ndarray]:
     for i, key in enumerate(keys):
         found.setdefault(key, []).append(i)
     return {key: np.asarray(idx, dtype=np.intp) for key, idx in found.items()}
-
-
-@contextmanager
-def paused_gc() -> Iterator[None]:
-    """Hold Python's cyclic garbage collector while a large batch builds its results.
-
-    A batch allocates hundreds of thousands of small objects that live until the answer is written;
-    the collector would scan them again and again. The core makes no reference cycles, and whatever
-    garbage there is waits for the collector to be switched back on here.
-    """
-    was_enabled = gc.isenabled()
-    gc.disable()
-    try:
-        yield
-    finally:
-        if was_enabled:
-            gc.enable()

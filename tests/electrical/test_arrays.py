@@ -1,10 +1,9 @@
 """Column helpers: scalars in and out, one lookup per distinct key, groups."""
 
-import gc
 
 import numpy as np
 
-from service.electrical.arrays import finite_or_none, groups, map_column, paused_gc, scalar_io
+from service.electrical.arrays import finite_or_none, groups, map_column, scalar_io
 
 
 @scalar_io
@@ -30,11 +29,8 @@ def test_groups_keep_the_order_of_first_appearance():
     assert list(found) == ["b", "a", None] and found["b"].tolist() == [0, 2]
 
 
-def test_finite_or_none_and_the_paused_collector():
+def test_finite_or_none():
     assert finite_or_none(np.inf) is None and finite_or_none(np.float64(2.5)) == 2.5
-    with paused_gc():
-        assert not gc.isenabled()
-    assert gc.isenabled()
 
 
 def test_short_column_helpers_answer_as_numpy_does():
