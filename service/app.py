@@ -37,11 +37,18 @@ from .api import (
     web,
 )
 from .api.coalesce import Coalescer
+from .api.key_guard import KeyFailures
 from .electrical import precision
 from .settings import Settings
 
 API_VERSION = "1.0.0"
-PUBLIC_PATHS = ("/healthz", "/readyz", "/metrics", "/docs", "/openapi.json", "/example/")
+# what answers without a key (FAULTPATH_OPEN_PATHS names the groups left open)
+OPEN_GROUPS = {
+    "probes": ("/healthz", "/readyz"),
+    "metrics": ("/metrics",),
+    "docs": ("/docs", "/openapi.json", "/example/"),
+}
+PUBLIC_PATHS = tuple(p for group in OPEN_GROUPS.values() for p in group)
 REQUEST_ID = re.compile(r"^[A-Za-z0-9._:-]{1,128}$")
 BODY_METHODS = ("POST", "PUT", "PATCH")
 ERROR_STATUSES = {"POST": (400, 401, 413, 415, 422, 429, 500), "GET": (401, 429, 500)}
@@ -111,12 +118,23 @@ def spec_dict(api: Api) -> dict[str, Any]:
     """The OpenAPI document, with the problem+json answers every operation can give."""
     spec = copy.deepcopy(api.spec.to_dict())  # apispec hands out its own path objects: never edit them
     spec.get("components", {}).get("schemas", {}).pop("PaginationMetadata", None)  # no operation pages
+    spec.setdefault("components", {})["securitySchemes"] = {
+        "ApiKey": {
+            "type": "apiKey",
+            "in": "header",
+            "name": "X-API-Key",
+            "description": "required for /v1 whenever the service listens beyond loopback (FAULTPATH_REQUIRE_KEYS); "
+            "the probes, /metrics and the docs answer without it unless FAULTPATH_OPEN_PATHS closes them",
+        }
+    }
     problem = {"content": {errors.PROBLEM_TYPE: {"schema": {"$ref": "#/components/schemas/Problem"}}}}
     for path, operations in spec["paths"].items():
         for method, operation in operations.items():
             if method not in ("get", "post"):
                 continue
             operation["operationId"] = OPERATION_IDS[(method, path)]
+            # /v1 takes the key, or nothing where the deployment requires none (loopback, FAULTPATH_REQUIRE_KEYS=off)
+            operation["security"] = [{"ApiKey": []}, {}] if path.startswith("/v1/") else []
             responses = operation.setdefault("responses", {})
             for status in ERROR_STATUSES[method.upper()]:
                 if path in ("/healthz", "/readyz", "/metrics") and status in (401, 429):
@@ -247,10 +265,46 @@ def _unexpected(exc: Exception):
     return errors.internal_error(exc)
 
 
+def open_paths(settings: Settings) -> tuple[str, ...]:
+    """The paths that answer without a key, by the groups the settings leave open."""
+    unknown = set(settings.open_paths) - set(OPEN_GROUPS)
+    if unknown:
+        raise RuntimeError(f"FAULTPATH_OPEN_PATHS names {sorted(unknown)}: the groups are {sorted(OPEN_GROUPS)}")
+    return tuple(p for name in settings.open_paths for p in OPEN_GROUPS[name])
+
+
+def _key_refused(keys: tuple[bytes, ...], failures: KeyFailures) -> flask.Response | None:
+    """A 401 for a missing or wrong key (counted for its client), a 429 for a client past its wrong keys."""
+    client = flask.request.remote_addr or "unknown"
+    wait = failures.wait_s(client)
+    if wait:
+        return errors.problem_response(
+            429,
+            "Too many wrong API keys from this client: wait before trying again.",
+            [],
+            {"Retry-After": str(int(wait + 0.999))},
+        )
+    given = flask.request.headers.get("X-API-Key", "").encode()
+    ok = False
+    for key in keys:  # compare with every key, in constant time each
+        ok |= hmac.compare_digest(given, key)
+    if not ok:
+        failures.failed(client)
+        return errors.problem_response(
+            401,
+            "A valid API key is required in the X-API-Key header.",
+            [],
+            {"WWW-Authenticate": 'ApiKey header="X-API-Key"'},
+        )
+    return None
+
+
 def _install_guards(app: flask.Flask, settings: Settings) -> None:
     keys = tuple(k.encode() for k in settings.api_keys)
     required = settings.keys_required
     origins = set(settings.cors_origins)
+    public = open_paths(settings)
+    failures = KeyFailures(settings.key_failures)
 
     @app.before_request
     def _guard():
@@ -262,18 +316,10 @@ def _install_guards(app: flask.Flask, settings: Settings) -> None:
                 response.headers["Allow"] = ", ".join(sorted(flask.request.url_rule.methods - {"HEAD"}))
             return response
         path = flask.request.path
-        if required and not path.startswith(PUBLIC_PATHS):
-            given = flask.request.headers.get("X-API-Key", "").encode()
-            ok = False
-            for key in keys:  # compare with every key, in constant time each
-                ok |= hmac.compare_digest(given, key)
-            if not ok:
-                return errors.problem_response(
-                    401,
-                    "A valid API key is required in the X-API-Key header.",
-                    [],
-                    {"WWW-Authenticate": 'ApiKey header="X-API-Key"'},
-                )
+        if required and not path.startswith(public):
+            refused = _key_refused(keys, failures)
+            if refused is not None:
+                return refused
         if flask.request.method in BODY_METHODS and flask.request.url_rule is not None:
             if flask.request.mimetype != "application/json":
                 return errors.problem_response(

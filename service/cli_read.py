@@ -16,6 +16,7 @@ from marshmallow import Schema, ValidationError
 
 from .api.errors import core_errors, flatten, pointer_of
 from .api.fastload import Refused, fast_load
+from .api.item_lists import echoed
 from .api.requirement_schemas import device_defaults_field
 from .api.schemas import CircuitSchema, SupplySchema, edition_field, premises_field, with_edition
 from .api.strictjson import strict_loads
@@ -208,7 +209,8 @@ def _validated(
     supply_loaded: tuple | None = None,
     head: dict | None = None,
 ) -> Row:
-    ident = circuit_raw.get("id") if isinstance(circuit_raw, dict) and isinstance(circuit_raw.get("id"), str) else None
+    raw_id = circuit_raw.get("id") if isinstance(circuit_raw, dict) else None
+    ident = echoed(raw_id if isinstance(raw_id, str) else None)
     supply, supply_problems, given = supply_loaded or _supply(supply_raw, supply_pointer, head or {})
     circuit, circuit_problems = _load(CIRCUIT_SCHEMA, circuit_raw, circuit_pointer)
     problems = (supply_problems or []) + (circuit_problems or [])

@@ -33,6 +33,12 @@ SETTINGS = {
     ),
     "FAULTPATH_PROXIES": ("0", "how many proxies (load balancer, ingress) stand in front and set X-Forwarded-For"),
     "FAULTPATH_LOG_LEVEL": ("info", "log level"),
+    "FAULTPATH_OPEN_PATHS": (
+        "probes,metrics,docs",
+        "what answers without a key where keys are required: probes (/healthz, /readyz), metrics (/metrics), docs "
+        "(/docs, /openapi.json, the example form); remove metrics or docs to close them",
+    ),
+    "FAULTPATH_KEY_FAILURES": ("10/minute", "wrong keys a client may send before its requests wait (429)"),
     "PROMETHEUS_MULTIPROC_DIR": ("", "folder shared by gunicorn workers for metrics; set by `serve`"),
 }
 
@@ -67,6 +73,8 @@ class Settings:
     rate_limit_storage: str = "memory://"
     proxies: int = 0
     coalesce_ms: float = 2.0
+    open_paths: tuple[str, ...] = ("probes", "metrics", "docs")
+    key_failures: str = "10/minute"
 
     @classmethod
     def from_env(cls) -> Settings:
@@ -82,6 +90,8 @@ class Settings:
             rate_limit_storage=env("FAULTPATH_RATE_LIMIT_STORAGE"),
             proxies=int(env("FAULTPATH_PROXIES")),
             coalesce_ms=float(env("FAULTPATH_COALESCE_MS")),
+            open_paths=_split(env("FAULTPATH_OPEN_PATHS")),
+            key_failures=env("FAULTPATH_KEY_FAILURES"),
         )
 
     @property

@@ -19,7 +19,7 @@ from typing import Any
 from marshmallow import Schema, ValidationError, fields, validate
 from marshmallow.decorators import POST_LOAD, VALIDATES_SCHEMA
 
-from .fields import Flag, Number, Text, WholeNumber
+from .fields import Flag, Number, Text, WholeNumber, safe_text
 
 _MISSING = object()
 
@@ -144,8 +144,10 @@ def _flag(field: fields.Field, limits: _Limits):
 
 
 def _text(field: fields.Field, limits: _Limits):
+    guarded = isinstance(field, Text)  # ids and names: no control or bidirectional-override character
+
     def check(raw):
-        if type(raw) is not str or not limits.in_length(raw):
+        if type(raw) is not str or not limits.in_length(raw) or (guarded and not safe_text(raw)):
             raise Refused
         return limits.chosen(raw)
 

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import math
+import re
 
 from marshmallow import fields, validate
 
@@ -47,12 +48,38 @@ class Flag(fields.Boolean):
         return value
 
 
+# control characters (C0, DEL, C1) and the bidirectional overrides and isolates: never part of an id or a name, and
+# never to reach a report raw (a right-to-left override makes "lights.exe" read as "exe.sthgil")
+UNSAFE = re.compile("[\x00-\x1f\x7f-\x9f\u200e\u200f\u202a-\u202e\u2066-\u2069]")
+
+
+def safe_text(value: str) -> bool:
+    """Text with no control or bidirectional-override character and no lone surrogate."""
+    if UNSAFE.search(value):
+        return False
+    try:
+        value.encode("utf-8")
+    except UnicodeEncodeError:
+        return False
+    return True
+
+
 class Text(fields.String):
-    """A JSON string with a length limit."""
+    """A JSON string with a length limit, and no control, bidirectional-override or lone surrogate character."""
+
+    default_error_messages = {
+        "unsafe": "contains a control or bidirectional-override character, or a lone surrogate: not text to show"
+    }
 
     def __init__(self, *, max_length: int, **kwargs):
         kwargs.setdefault("validate", validate.Length(max=max_length))
         super().__init__(**kwargs)
+
+    def _deserialize(self, value, attr, data, **kwargs):
+        text = super()._deserialize(value, attr, data, **kwargs)
+        if not safe_text(text):
+            raise self.make_error("unsafe")
+        return text
 
 
 def choice(values, **kwargs) -> fields.String:

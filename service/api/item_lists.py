@@ -6,6 +6,16 @@ from __future__ import annotations
 from marshmallow import ValidationError, fields
 
 from .fastload import Refused, fast_load
+from .fields import safe_text
+
+ECHO_CHARS = 200  # an invalid item's id is echoed cut to this many characters (the longest valid id)
+
+
+def echoed(ident: str | None) -> str | None:
+    """An id as an answer may echo it: cut to ECHO_CHARS, and None where it is not text to show."""
+    if ident is None or not safe_text(ident):
+        return None
+    return ident if len(ident) <= ECHO_CHARS else ident[: ECHO_CHARS - 1] + "…"
 
 
 class ItemProblem:
@@ -15,7 +25,8 @@ class ItemProblem:
         self.index = index
         self.messages = messages
         self.raw = raw
-        self.id = raw.get("id") if isinstance(raw, dict) and isinstance(raw.get("id"), str) else None
+        ident = raw.get("id") if isinstance(raw, dict) and isinstance(raw.get("id"), str) else None
+        self.id = echoed(ident)
 
 
 class PerItemList(fields.List):

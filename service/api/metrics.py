@@ -40,6 +40,14 @@ def count_verdicts(verdicts) -> None:
             VERDICT_COUNT.labels(str(verdict)).inc(n)
 
 
+KNOWN_METHODS = frozenset({"GET", "HEAD", "POST", "PUT", "PATCH", "DELETE", "OPTIONS"})
+
+
+def method_label(method: str) -> str:
+    """The method as a label: a known one, else "other" (so random method names add no series)."""
+    return method if method in KNOWN_METHODS else "other"
+
+
 def install(app: flask.Flask) -> None:
     @app.before_request
     def _start_timer():
@@ -51,7 +59,7 @@ def install(app: flask.Flask) -> None:
         started = flask.g.get("faultpath_started")
         if started is not None:
             LATENCY.labels(endpoint).observe(time.perf_counter() - started)
-        REQUESTS.labels(flask.request.method, endpoint, str(response.status_code)).inc()
+        REQUESTS.labels(method_label(flask.request.method), endpoint, str(response.status_code)).inc()
         return response
 
 

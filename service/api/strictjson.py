@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import json
 import math
+import re
 from typing import Any
 
 from webargs import core
@@ -53,6 +54,40 @@ def _pairs(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
     return out
 
 
+SURROGATE_ESCAPE = re.compile(r"\\u[dD][89a-fA-F]")  # a \uD800-\uDFFF escape: checked for its partner
+
+
+def _lone_surrogate(node: Any, path: tuple = ()) -> tuple | None:
+    """The path of the first key or string holding a lone surrogate (not text: no writer can answer with it)."""
+    if isinstance(node, str):
+        try:
+            node.encode("utf-8")
+        except UnicodeEncodeError:
+            return path
+        return None
+    if isinstance(node, dict):
+        for key, value in node.items():
+            found = _lone_surrogate(key, path + (key,)) if isinstance(key, str) else None
+            found = found if found is not None else _lone_surrogate(value, path + (key,))
+            if found is not None:
+                return found
+    elif isinstance(node, list):
+        for k, value in enumerate(node):
+            found = _lone_surrogate(value, path + (k,))
+            if found is not None:
+                return found
+    return None
+
+
+class LoneSurrogate(_Refused):
+    """A string with a lone surrogate, at ``path`` (a 400 that names the field)."""
+
+    def __init__(self, path: tuple):
+        super().__init__("a lone surrogate (\\uD800-\\uDFFF without its pair) is not text", " ", 0)
+        safe = lambda key: key.encode("utf-8", "backslashreplace").decode() if isinstance(key, str) else key  # noqa: E731
+        self.path = tuple(safe(key) for key in path)
+
+
 def strict_loads(data: bytes | str) -> Any:
     """Parse ``data`` as strict JSON (UTF-8); raise JSONDecodeError on anything doubtful."""
     try:
@@ -60,7 +95,7 @@ def strict_loads(data: bytes | str) -> Any:
     except UnicodeDecodeError as exc:
         raise _reject(f"the body is not UTF-8 ({exc.reason})") from None
     try:
-        return json.loads(
+        value = json.loads(
             text, parse_constant=_constant, parse_int=_integer, parse_float=_float, object_pairs_hook=_pairs
         )
     except json.JSONDecodeError as exc:
@@ -71,6 +106,11 @@ def strict_loads(data: bytes | str) -> Any:
         raise _reject("the body is nested too deeply") from None
     except ValueError as exc:  # e.g. Python's own limit on integer digits
         raise _reject(str(exc)) from None
+    if "\\u" in text and SURROGATE_ESCAPE.search(text):  # only then look for a partnerless one
+        found = _lone_surrogate(value)
+        if found is not None:
+            raise LoneSurrogate(found)
+    return value
 
 
 class StrictParser(FlaskParser):
@@ -83,4 +123,9 @@ class StrictParser(FlaskParser):
 
     def _handle_invalid_json_error(self, error, req, *args, **kwargs):
         message = getattr(error, "msg", str(error))
+        if isinstance(error, LoneSurrogate):  # name the field
+            nested: Any = [message]
+            for key in reversed(error.path):
+                nested = {str(key): nested}
+            abort(400, messages={"json": nested})
         abort(400, messages={"json": {"": [f"the body is not strict JSON: {message}"]}})

@@ -1,6 +1,5 @@
 """Column helpers: scalars in and out, one lookup per distinct key, groups."""
 
-
 import numpy as np
 
 from service.electrical.arrays import finite_or_none, groups, map_column, scalar_io
