@@ -24,6 +24,7 @@ from werkzeug.routing import BaseConverter
 from .api import (
     cable_views,
     circuit_views,
+    deadline,
     device_views,
     docs,
     errors,
@@ -37,6 +38,7 @@ from .api import (
     web,
 )
 from .api.coalesce import Coalescer
+from .api.installation_schemas import MAX_BOARDS
 from .api.key_guard import KeyFailures
 from .electrical import precision
 from .settings import Settings
@@ -51,7 +53,7 @@ OPEN_GROUPS = {
 PUBLIC_PATHS = tuple(p for group in OPEN_GROUPS.values() for p in group)
 REQUEST_ID = re.compile(r"^[A-Za-z0-9._:-]{1,128}$")
 BODY_METHODS = ("POST", "PUT", "PATCH")
-ERROR_STATUSES = {"POST": (400, 401, 413, 415, 422, 429, 500), "GET": (401, 429, 500)}
+ERROR_STATUSES = {"POST": (400, 401, 413, 415, 422, 429, 500, 503), "GET": (401, 429, 500)}
 
 
 class NumberConverter(BaseConverter):
@@ -220,6 +222,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     app.register_blueprint(web.blp)
     app.extensions["faultpath_api"] = api
     app.extensions["faultpath_coalescer"] = Coalescer(settings.coalesce_ms / 1000.0)
+    deadline.install(app, settings.timeout_s)
     _install_guards(app, settings)
     _install_rate_limit(app, settings)
     metrics.install(app)
@@ -273,6 +276,29 @@ def open_paths(settings: Settings) -> tuple[str, ...]:
     return tuple(p for name in settings.open_paths for p in OPEN_GROUPS[name])
 
 
+# the operations whose bodies hold many circuits: counted in the raw body before it is parsed
+COUNTED_PATHS = ("/v1/circuits/check-batch", "/v1/installations/", "/v1/test-results/verify")
+DEVICE_KEY = re.compile(rb'"device"\s*:')
+BOARD_KEY = re.compile(rb'"fed_from"\s*:')
+
+
+def _count_refused(settings: Settings) -> flask.Response | None:
+    """A 413 for a body that holds more circuits (one device each) or boards than the limits, found by counting their
+    keys in the raw bytes before any parsing: the parse, the load and their memory are never paid for it."""
+    request = flask.request
+    if request.method != "POST" or not request.path.startswith(COUNTED_PATHS):
+        return None
+    data = request.get_data(cache=True)
+    circuits = len(DEVICE_KEY.findall(data))
+    if circuits > settings.batch_limit + MAX_BOARDS:  # a board's own device is counted too
+        detail = f"the body holds about {circuits} circuits: at most {settings.batch_limit} in one request"
+        return errors.problem_response(413, detail, [{"pointer": "", "message": detail}])
+    if request.path.startswith("/v1/installations/") and len(BOARD_KEY.findall(data)) > MAX_BOARDS:
+        detail = f"an installation holds at most {MAX_BOARDS} boards"
+        return errors.problem_response(413, detail, [{"pointer": "/boards", "message": detail}])
+    return None
+
+
 def _key_refused(keys: tuple[bytes, ...], failures: KeyFailures) -> flask.Response | None:
     """A 401 for a missing or wrong key (counted for its client), a 429 for a client past its wrong keys."""
     client = flask.request.remote_addr or "unknown"
@@ -320,6 +346,9 @@ def _install_guards(app: flask.Flask, settings: Settings) -> None:
             refused = _key_refused(keys, failures)
             if refused is not None:
                 return refused
+        too_many = _count_refused(settings)
+        if too_many is not None:
+            return too_many
         if flask.request.method in BODY_METHODS and flask.request.url_rule is not None:
             if flask.request.mimetype != "application/json":
                 return errors.problem_response(

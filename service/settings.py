@@ -16,7 +16,7 @@ SETTINGS = {
         "2",
         "concurrent single checks in one worker wait this long to be computed together; 0: never wait",
     ),
-    "FAULTPATH_TIMEOUT_S": ("60", "seconds a worker may spend on one request"),
+    "FAULTPATH_TIMEOUT_S": ("60", "seconds one request may take: past it, a 503 (enforced between a request's parts)"),
     "FAULTPATH_MAX_REQUESTS": ("20000", "a worker is replaced after this many requests (with jitter); 0: never"),
     "FAULTPATH_MAX_BODY_BYTES": ("16777216", "largest request body (16 MiB); larger gets 413"),
     "FAULTPATH_BATCH_LIMIT": ("10000", "most circuits in one check-batch request"),
@@ -74,6 +74,7 @@ class Settings:
     proxies: int = 0
     coalesce_ms: float = 2.0
     open_paths: tuple[str, ...] = ("probes", "metrics", "docs")
+    timeout_s: float = 60.0
     key_failures: str = "10/minute"
 
     @classmethod
@@ -92,6 +93,7 @@ class Settings:
             coalesce_ms=float(env("FAULTPATH_COALESCE_MS")),
             open_paths=_split(env("FAULTPATH_OPEN_PATHS")),
             key_failures=env("FAULTPATH_KEY_FAILURES"),
+            timeout_s=float(env("FAULTPATH_TIMEOUT_S")),
         )
 
     @property

@@ -10,7 +10,7 @@ from ..electrical.devices.catalogue import resolve
 from ..electrical.verdicts import COUNTED
 from ..electrical.verdicts import summary as verdicts_summary
 from ..picture import characteristic_svg
-from . import metrics
+from . import deadline, metrics
 from .base import Blueprint
 from .errors import CoreInputError, json_bytes, json_response
 from .helpers import failed_item, invalid_item, svg_response
@@ -113,6 +113,7 @@ def _full_answer(body, items) -> flask.Response:
     counts = Counts()
     parts = [b'{"results":[']
     for start in range(0, len(items), CHUNK):
+        deadline.check()
         chunk = json_bytes(_checked(body, items[start : start + CHUNK], start, counts))
         parts.append((b"," if start else b"") + chunk[1:-1])  # the chunk's items, without the list's brackets
     parts.append(b'],"summary":' + json_bytes(counts.summary(len(items))))

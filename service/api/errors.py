@@ -220,6 +220,8 @@ def handle_http_exception(error: HTTPException) -> flask.Response:
     headers = {k: v for k, v in error.get_headers() if k.lower() != "content-type"}
     headers.update((data.get("headers") or {}) if isinstance(data, Mapping) else {})
     status = error.code or 500
+    if status == 503:  # the request's deadline (api/deadline.py), or the server shedding load: said, not an error id
+        return problem_response(503, error.description, [], {"Retry-After": "5", **headers})
     if status >= 500:
         return internal_error(getattr(error, "original_exception", None) or error)
     detail = (

@@ -7,7 +7,7 @@ import flask
 from ..electrical.errors import ElectricalError
 from ..electrical.installation import InstallationResult, check_installation
 from ..electrical.model import Installation
-from . import metrics
+from . import deadline, metrics
 from .base import Blueprint
 from .errors import CoreInputError, json_response
 from .installation_schemas import (
@@ -35,7 +35,7 @@ def checked(body: dict) -> tuple[Installation, InstallationResult, dict]:
     if count > limit:
         flask.abort(413, description=f"an installation holds at most {limit} circuits")
     try:
-        result = check_installation(inst, body.get("checks"))
+        result = check_installation(inst, body.get("checks"), progress=deadline.check)
     except ElectricalError as err:
         raise CoreInputError.of(err) from None
     return inst, result, problems
@@ -81,7 +81,8 @@ def report(body):
     from ..report import report_html
 
     inst, result, problems = checked(body)
-    response = flask.Response(report_html(inst, result, problem_messages(problems)), mimetype=HTML)
+    html = report_html(inst, result, problem_messages(problems), tick=deadline.check)
+    response = flask.Response(html, mimetype=HTML)
     response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'; img-src data:"
     response.headers["Cache-Control"] = "no-store"
     return response

@@ -13,7 +13,7 @@ from ..electrical.checks import CHECKS, UNITS
 from ..electrical.columns import CircuitFailure
 from ..electrical.results import GENERAL_CAUTIONS
 from ..electrical.table import Interned, add_problem, check_table, column_names, empty_columns, extend
-from . import metrics
+from . import deadline, metrics
 from .errors import ProblemSchema
 from .helpers import failed_item, invalid_item
 from .item_lists import ItemProblem
@@ -75,6 +75,7 @@ def lean_answer(supply: Any, items: Sequence[Any], scope: Sequence[str] | None, 
     table, texts, devices = empty_columns(names), Interned(), Interned()
     problems: list[dict[str, Any]] = []
     for start in range(0, len(items), CHUNK):
+        deadline.check()
         chunk = items[start : start + CHUNK]
         places = [start + i for i, item in enumerate(chunk) if not isinstance(item, ItemProblem)]
         part = check_table(supply, [items[i] for i in places], texts, devices, scope) if places else None

@@ -4,7 +4,7 @@ coordination pictures, the cautions. One HTML file with its print styles and pic
 from __future__ import annotations
 
 import datetime as dt
-from collections.abc import Mapping, Sequence
+from collections.abc import Callable, Mapping, Sequence
 from pathlib import Path
 from typing import Any
 
@@ -79,29 +79,48 @@ def _row(item: Any, circuit: Any, problems: Sequence[str]) -> dict[str, Any]:
     return {"id": getattr(item, "id", None), "problem": message or "not checked"}
 
 
-def _pictures(board: BoardResult, circuits: Sequence[Any], upstream: Any) -> list[dict[str, Any]]:
-    """One coordination picture per distinct pair of devices on the board, with the board's fault levels."""
-    if upstream is None:
-        return []
-    pairs: dict[tuple, dict[str, Any]] = {}
-    for item, circuit in zip(board.circuits, circuits, strict=True):
-        if not isinstance(item, CircuitResult) or item.selectivity is None:
-            continue
-        key = (circuit.device.curve_key, item.selectivity["verdict"], item.selectivity["up_to_a"])
-        pairs.setdefault(key, {"device": circuit.device, "selectivity": item.selectivity, "ids": []})["ids"].append(
-            item.id or "(no id)"
-        )
-    levels = {
-        "largest fault at the board": None if board.max_fault_current_ka is None else board.max_fault_current_ka * 1000,
-        "smallest earth fault at the board": board.min_earth_fault_current_a,
-    }
-    out = []
-    for pair in pairs.values():
+MAX_PICTURES = 24  # distinct device pairs drawn in one report; the rest are named, not drawn (the time budget)
+
+
+class Pictures:
+    """The report's coordination pictures: each distinct pair of devices drawn once for the whole report (the curves
+    are the same wherever the pair recurs; each board's fault levels are in its table), at most ``MAX_PICTURES``."""
+
+    def __init__(self, tick: Callable[[], None]):
+        self.drawn: dict[tuple, str] = {}
+        self.omitted = 0
+        self.tick = tick
+
+    def of(self, board: BoardResult, circuits: Sequence[Any], upstream: Any) -> list[dict[str, Any]]:
+        """The board's pairs: a picture where this report first meets the pair, a reference where it met it before."""
+        if upstream is None:
+            return []
+        pairs: dict[tuple, dict[str, Any]] = {}
+        for item, circuit in zip(board.circuits, circuits, strict=True):
+            if not isinstance(item, CircuitResult) or item.selectivity is None:
+                continue
+            key = (
+                circuit.device.curve_key,
+                upstream.curve_key,
+                item.selectivity["verdict"],
+                item.selectivity["up_to_a"],
+            )
+            pair = pairs.setdefault(key, {"device": circuit.device, "selectivity": item.selectivity, "ids": []})
+            pair["ids"].append(item.id or "(no id)")
+        return [self._picture(key, pair, upstream) for key, pair in pairs.items()]
+
+    def _picture(self, key: tuple, pair: dict[str, Any], upstream: Any) -> dict[str, Any]:
+        if key in self.drawn:
+            return {**pair, "svg": None, "seen": self.drawn[key]}
+        if len(self.drawn) >= MAX_PICTURES:
+            self.omitted += 1
+            return {**pair, "svg": None, "seen": None}
+        self.tick()
         down, up = resolve(pair["device"]), resolve(upstream)
         title = f"{down.label} under {up.label}: {pair['selectivity']['verdict']}"
-        svg = coordination_svg(down, up, levels, pair["selectivity"]["up_to_a"], title).decode()
-        out.append({"svg": Markup(svg[svg.index("<svg") :]), **pair})
-    return out
+        svg = coordination_svg(down, up, {}, pair["selectivity"]["up_to_a"], title).decode()
+        self.drawn[key] = title
+        return {**pair, "svg": Markup(svg[svg.index("<svg") :]), "seen": None}
 
 
 def report_html(
@@ -109,9 +128,12 @@ def report_html(
     result: InstallationResult,
     problems: Mapping[tuple[int, int], Sequence[str]] | None = None,
     generated: dt.datetime | None = None,
+    tick: Callable[[], None] = lambda: None,
 ) -> str:
-    """The report as one HTML document; ``problems`` holds the messages of circuits the caller could not read."""
+    """The report as one HTML document; ``problems`` holds the messages of circuits the caller could not read;
+    ``tick`` is called before each board and each picture (the caller's deadline may stop the work there)."""
     positions = {board.id: b for b, board in enumerate(inst.boards)}
+    pictures = Pictures(tick)
     sections = []
     for board in result.boards:
         b = positions[board.id]
@@ -120,12 +142,19 @@ def report_html(
             _row(item, circuit, (problems or {}).get((b, c), ()))
             for c, (item, circuit) in enumerate(zip(board.circuits, circuits, strict=True))
         ]
+        tick()
         upstream = _upstream_of(inst, result, board)
-        pictures = [] if board.not_checked else _pictures(board, circuits, upstream)
-        sections.append({"board": board, "rows": rows, "pictures": pictures})
+        drawn = [] if board.not_checked else pictures.of(board, circuits, upstream)
+        sections.append({"board": board, "rows": rows, "pictures": drawn})
     when = (generated or dt.datetime.now(dt.UTC)).strftime("%Y-%m-%d %H:%M UTC")
     return ENV.get_template("report.html").render(
-        inst=inst, result=result, sections=sections, generated=when, words=CHECK_WORDS
+        inst=inst,
+        result=result,
+        sections=sections,
+        generated=when,
+        words=CHECK_WORDS,
+        omitted=pictures.omitted,
+        max_pictures=MAX_PICTURES,
     )
 
 

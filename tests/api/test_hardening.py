@@ -81,3 +81,23 @@ def test_the_contract_declares_the_key():
     assert spec["components"]["securitySchemes"]["ApiKey"]["name"] == "X-API-Key"
     assert spec["paths"]["/v1/circuits/check"]["post"]["security"] == [{"ApiKey": []}, {}]
     assert spec["paths"]["/healthz"]["get"]["security"] == []
+
+
+def test_a_body_with_too_many_circuits_is_a_413_before_it_is_parsed():
+    app = create_app({"SETTINGS": Settings(batch_limit=50, max_body_bytes=8 * 1024 * 1024), "TESTING": True})
+    item = {"role": "final", "load": "fixed-equipment", "device": {"standard": "BS EN 60898", "type": "B",
+            "rating_a": 16}, "r1_plus_r2_ohm": 0.1}  # fmt: skip
+    body = {"supply": {"earthing": "TN-S", "u0_v": 230, "ze_ohm": 0.3}, "circuits": [item] * 1000}
+    r = app.test_client().post("/v1/circuits/check-batch", json=body)
+    assert r.status_code == 413 and "1000 circuits" in r.get_json()["detail"]
+
+
+def test_the_configured_timeout_holds_for_every_long_request():
+    app = create_app({"SETTINGS": Settings(timeout_s=0.0), "TESTING": True})
+    client = app.test_client()
+    batch = json.loads((EXAMPLES / "circuits-check-batch.json").read_text())
+    installation = json.loads((EXAMPLES / "installations-check.json").read_text())
+    for path, body in (("/v1/circuits/check-batch", batch), ("/v1/installations/check", installation),
+                       ("/v1/installations/report", installation)):  # fmt: skip
+        r = client.post(path, json=body)
+        assert r.status_code == 503 and r.mimetype == "application/problem+json", (path, r.status_code)
