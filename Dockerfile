@@ -21,5 +21,5 @@ COPY deploy/gunicorn.conf.py ./deploy/gunicorn.conf.py
 USER 10001:10001
 EXPOSE 8000
 HEALTHCHECK --interval=30s --timeout=3s --start-period=10s --retries=3 \
-  CMD ["python", "-c", "import urllib.request,sys; sys.exit(0 if urllib.request.urlopen('http://127.0.0.1:8000/healthz', timeout=2).status == 200 else 1)"]
+  CMD ["python", "-c", "import os,sys,urllib.request; port = os.environ.get('FAULTPATH_PORT', '8000'); sys.exit(0 if urllib.request.urlopen(f'http://127.0.0.1:{port}/healthz', timeout=2).status == 200 else 1)"]
 CMD ["python", "-m", "gunicorn", "-c", "/app/deploy/gunicorn.conf.py"]

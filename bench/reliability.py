@@ -8,7 +8,9 @@
 3. load and soak: 64 connections on circuits/check and on a 1 000-circuit batch, with worker memory growth
    (judged on the steady state: a further half soak at the same load must not grow it by 5 %);
 4. faults: a worker killed with SIGKILL during load; two instances behind nginx, one stopped during load;
-5. lost items: batches with bad items in them, under load, every index accounted for.
+5. lost items: batches with bad items in them, under load, every index accounted for;
+6. hostile clients (bench/hostile_clients.py): 80 slow headers and 50 slow bodies through deploy/nginx.conf and
+   against the server alone, 150 pictures while an upload is held open, the reports of 150- and 500-board chains.
 
 Needs wrk and nginx (Debian packages); says so and skips what it cannot run without them.
 """
@@ -31,6 +33,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
+from bench import hostile_clients  # noqa: E402
 from bench.harness import PY, Nginx, Server, wrk_detail  # noqa: E402
 from bench.payload import batch  # noqa: E402
 from tests.api.hostile_cases import body_of, cases, judge  # noqa: E402
@@ -284,6 +287,7 @@ def main() -> int:
     soak(seconds)
     kill_a_worker(15)
     stop_an_instance(15)
+    hostile_clients.run(say)
     run_schemathesis(examples)
     print("\nReport")
     width = max(len(name) for name, _ in REPORT)

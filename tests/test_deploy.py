@@ -37,7 +37,7 @@ def test_dockerfile_final_stage_is_slim_non_root_with_a_healthcheck():
 
 def test_kubernetes_manifests_validate_strictly():
     files = sorted(str(p) for p in (ROOT / "deploy" / "kubernetes").glob("*.yaml"))
-    assert len(files) == 3
+    assert len(files) == 4
     result = subprocess.run(
         [tool("kubernetes-validate"), "--strict", *files], capture_output=True, text=True, timeout=300
     )
@@ -64,3 +64,20 @@ def test_compose_file_parses():
 
     compose = yaml.safe_load((ROOT / "deploy" / "compose.yaml").read_text())
     assert compose["services"]["faultpath"]["read_only"] is True
+
+
+def test_compose_publishes_only_the_buffering_proxy_on_loopback_with_memory_limits():
+    import yaml
+
+    services = yaml.safe_load((ROOT / "deploy" / "compose.yaml").read_text())["services"]
+    assert "ports" not in services["faultpath"] and services["faultpath"]["mem_limit"]
+    assert services["proxy"]["ports"] == ["${FAULTPATH_PUBLISH:-127.0.0.1}:8000:8080"]
+    conf = (ROOT / "deploy" / "nginx.conf").read_text()
+    for directive in ("proxy_request_buffering on", "client_header_timeout", "client_body_timeout", "limit_conn"):
+        assert directive in conf
+    ingress = yaml.safe_load((ROOT / "deploy" / "kubernetes" / "ingress.yaml").read_text())
+    assert ingress["metadata"]["annotations"]["nginx.ingress.kubernetes.io/proxy-request-buffering"] == "on"
+
+
+def test_the_image_health_check_reads_the_port_setting():
+    assert "FAULTPATH_PORT" in (ROOT / "Dockerfile").read_text().split("HEALTHCHECK")[1]
