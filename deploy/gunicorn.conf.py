@@ -14,6 +14,9 @@ threads = int(env("FAULTPATH_THREADS"))
 # threads let concurrent single checks be computed together; a worker leaves connections beyond its threads to a sibling
 worker_class = "service.serving.BalancedThreadWorker" if threads > 1 else "sync"
 timeout = int(env("FAULTPATH_TIMEOUT_S"))
+# the connections one worker holds at once (gunicorn's own bound; the request's own deadline is api/deadline.py): what
+# the server alone can bound; how long a client takes to send its request it cannot (publish behind deploy/nginx.conf)
+worker_connections = 128
 graceful_timeout = 30
 keepalive = 5
 max_requests = int(env("FAULTPATH_MAX_REQUESTS"))
