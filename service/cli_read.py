@@ -12,13 +12,13 @@ from collections.abc import Iterator
 from typing import Any, BinaryIO, TextIO
 
 import ijson
-from marshmallow import Schema, ValidationError
+from marshmallow import ValidationError
 
 from .api.errors import core_errors, flatten, pointer_of
 from .api.fastload import Refused, fast_load
 from .api.item_lists import echoed
-from .api.requirement_schemas import device_defaults_field
-from .api.schemas import CircuitSchema, SupplySchema, edition_field, premises_field, with_edition
+from .api.requirement_schemas import JobSchema, with_edition
+from .api.schemas import CircuitSchema, SupplySchema
 from .api.strictjson import strict_loads
 from .electrical.columns import CircuitFailure
 from .electrical.devices import defaults as device_defaults
@@ -76,19 +76,10 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
 
 SUPPLY_SCHEMA = SupplySchema()
 CIRCUIT_SCHEMA = CircuitSchema()
-HEAD_KEYS = ("edition", "premises", "device_defaults")
+HEAD_KEYS = tuple(JobSchema._declared_fields)  # edition, premises, device_defaults
 
 
-class HeadSchema(Schema):
-    """What a schedule says once for all its circuits, beside the supply: the edition, the premises and the maker's
-    data for its devices."""
-
-    edition = edition_field()
-    premises = premises_field()
-    device_defaults = device_defaults_field()
-
-
-HEAD_SCHEMA = HeadSchema()
+HEAD_SCHEMA = JobSchema()  # what a schedule says once: the edition, the premises, the maker's data
 
 
 class ScheduleError(ValueError):

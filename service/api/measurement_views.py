@@ -13,9 +13,9 @@ from .errors import json_response
 from .fields import Flag, Number, choice
 from .helpers import failed_item, invalid_item
 from .item_lists import ItemProblem, PerItemList
-from .requirement_schemas import device_defaults_field, with_device_defaults
+from .requirement_schemas import JobSchema
 from .result_schemas import edition_answer, nullable_number
-from .schemas import CircuitSchema, FastSchema, SupplySchema, edition_field, premises_field, with_edition
+from .schemas import CircuitSchema, FastSchema, SupplySchema
 
 blp = Blueprint(
     "test_results",
@@ -59,16 +59,9 @@ class VerifyItemSchema(Schema):
 fastload.register(VerifyItemSchema)
 
 
-class VerifyRequestSchema(FastSchema):
+class VerifyRequestSchema(FastSchema, JobSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuits = PerItemList(fields.Nested(VerifyItemSchema), required=True)
-    edition = edition_field()
-    premises = premises_field()
-    device_defaults = device_defaults_field()
-
-    @post_load
-    def onto_supply(self, data, **kwargs):
-        return with_device_defaults(with_edition(data))
 
 
 class JudgementSchema(Schema):

@@ -141,3 +141,17 @@ def with_device_defaults(data: dict) -> dict:
         if board.get("device") is not None:
             board["device"] = device_defaults.with_defaults(board["device"], given)
     return data
+
+
+class JobSchema(Schema):
+    """What a request says once for the whole job, beside its supply: the edition, the premises, the maker's data.
+    A base of every request that carries a supply; its edition and premises go onto the supply (the core reads them
+    there) and its devices are completed from the defaults."""
+
+    edition = edition_field()
+    premises = premises_field()
+    device_defaults = device_defaults_field()
+
+    @post_load
+    def onto_supply(self, data, **kwargs):
+        return with_device_defaults(with_edition(data) if "supply" in data else data)

@@ -23,16 +23,7 @@ from .cable_schemas import InstallationSchema
 from .fastload import Refused, fast_load
 from .fields import Flag, Number, Text, WholeNumber, choice
 from .item_lists import PerItemList
-from .requirement_schemas import (
-    CircuitFactsSchema,
-    curve_of,
-    device_defaults_field,
-    edition_field,
-    let_through_curve_field,
-    premises_field,
-    with_device_defaults,
-    with_edition,
-)
+from .requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
 
 DEVICE_STANDARDS = catalogue.standards()
 RATED_CURRENT = "the supply's rated current (the cut-out fuse or service rating): the origin's demand (311.1)"
@@ -341,17 +332,11 @@ def checks_field() -> fields.List:
     )
 
 
-class ScopedSchema(FastSchema):
-    """A request that may name the checks its overall verdict covers, the edition and the premises."""
+class ScopedSchema(FastSchema, JobSchema):
+    """A request that may name the checks its overall verdict covers (and, as every job, its edition, premises and
+    the maker's data)."""
 
     checks = checks_field()
-    edition = edition_field()
-    premises = premises_field()
-    device_defaults = device_defaults_field()
-
-    @post_load
-    def onto_supply(self, data, **kwargs):
-        return with_device_defaults(with_edition(data) if "supply" in data else data)
 
     @validates_schema
     def checks_once(self, data, **kwargs):

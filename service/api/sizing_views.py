@@ -13,13 +13,7 @@ from ..electrical.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand
 from .base import Blueprint
 from .errors import CoreInputError, json_response
 from .fields import Flag, Number, Text, WholeNumber, choice
-from .requirement_schemas import (
-    CircuitFactsSchema,
-    curve_of,
-    device_defaults_field,
-    let_through_curve_field,
-    with_device_defaults,
-)
+from .requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
 from .result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
 from .schemas import (
     DEVICE_STANDARDS,
@@ -29,11 +23,8 @@ from .schemas import (
     RcdSchema,
     SupplySchema,
     check_phases,
-    edition_field,
     energy_class_field,
     phases_field,
-    premises_field,
-    with_edition,
 )
 
 blp = Blueprint(
@@ -60,11 +51,8 @@ class SizeDeviceSchema(Schema):
         return DeviceSpec(rating_a=1.0, **data)
 
 
-class SizeRequestSchema(CircuitFactsSchema):
+class SizeRequestSchema(CircuitFactsSchema, JobSchema):
     supply = fields.Nested(SupplySchema, required=True)
-    edition = edition_field()
-    premises = premises_field()
-    device_defaults = device_defaults_field()
     id = Text(max_length=200)
     role = choice(disconnection.ROLES, load_default="final")
     load = choice(disconnection.LOADS, metadata={"description": "final circuits: what it supplies"})
@@ -103,10 +91,6 @@ class SizeRequestSchema(CircuitFactsSchema):
             raise ValidationError("give either design_current_a or power_kw", "design_current_a")
         if data.get("role") == "final" and "load" not in data:
             raise ValidationError("a final circuit needs its load: socket-outlets or fixed-equipment", "load")
-
-    @post_load
-    def onto_supply(self, data, **kwargs):
-        return with_device_defaults(with_edition(data))
 
 
 class CapacitySchema(Schema):
@@ -266,7 +250,7 @@ def size(body):
     return json_response(out)
 
 
-class MaxLengthRequestSchema(Schema):
+class MaxLengthRequestSchema(JobSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuit = fields.Nested(
         CircuitSchema,
@@ -280,13 +264,6 @@ class MaxLengthRequestSchema(Schema):
     use = choice(cap.USES, load_default="other")
     supply_kind = choice(cap.SUPPLY_KINDS, load_default="public")
     voltage_drop_limit_percent = Number(minimum=0.5, maximum=20)
-    edition = edition_field()
-    premises = premises_field()
-    device_defaults = device_defaults_field()
-
-    @post_load
-    def onto_supply(self, data, **kwargs):
-        return with_device_defaults(with_edition(data))
 
     @validates_schema
     def has_conductors(self, data, **kwargs):
