@@ -59,7 +59,7 @@ def _required(cols: CircuitColumns) -> dict[str, np.ndarray]:
 
 
 def _unknown(cols: CircuitColumns) -> list[tuple[np.ndarray, str]]:
-    """Where a rule cannot be judged for want of a fact, with the note naming it (first missing fact first)."""
+    """Where a rule cannot be judged for want of a fact, each with the words naming it (a note names them all)."""
     n = cols.needs
     final = n.role == "final"
     covered = stated(n.earthed_metallic_covering, True)
