@@ -15,7 +15,6 @@ then :func:`~service.electrical.results.assemble` turns those arrays into one re
 from __future__ import annotations
 
 from collections.abc import Sequence
-from dataclasses import dataclass
 
 import numpy as np
 
@@ -23,23 +22,12 @@ from . import verdicts
 from .checks import STEPS, CheckColumns
 from .columns import CircuitColumns, CircuitFailure, columns_of, prepare
 from .errors import InvalidInput
-from .faults import FaultLoop, fault_loop
+from .faults import fault_loop
 from .model import Circuit, Supply
-from .response import DeviceResponse, device_response
-from .results import CircuitResult, assemble
+from .response import device_response
+from .results import Checked, CircuitResult, assemble
 
 CAUTIONS = {"r1r2-given": "R1+R2 taken as given: it must be the value at the conductors' operating temperature."}
-
-
-@dataclass
-class Checked:
-    """The pipeline's arrays for N circuits: the loop, the devices' response and every check."""
-
-    cols: CircuitColumns
-    loop: FaultLoop
-    trip: DeviceResponse
-    checks: list[CheckColumns]
-    cautions: list[tuple[np.ndarray, str]]
 
 
 def check_columns(cols: CircuitColumns) -> Checked:

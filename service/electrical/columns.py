@@ -17,7 +17,7 @@ from typing import Any
 
 import numpy as np
 
-from . import capacity, disconnection, faults, requirements
+from . import capacity, disconnection, requirements, voltage_factors
 from . import conductors as cond
 from .arrays import groups
 from .devices import let_through, residual
@@ -309,7 +309,7 @@ def _rules_problem(supply: Supply, role: str, load: str | None, rating_a: float)
         disconnection.max_disconnection_time_s(
             supply.earthing, supply.u0_v, role, load, rating_a, supply.current_kind, False, supply.reduced_low_voltage
         )
-        faults.check_c_max(faults.c_max_default() if supply.c_max is None else supply.c_max)
+        voltage_factors.check_c_max(voltage_factors.c_max_default() if supply.c_max is None else supply.c_max)
     except ElectricalError as err:
         return err.within("supply" if err.path[0] in SUPPLY_PARAMETERS else "circuit")
     return None

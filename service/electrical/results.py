@@ -18,13 +18,26 @@ from .verdicts import Verdict
 
 if TYPE_CHECKING:
     from .checks import CheckColumns
-    from .circuit import Checked
+    from .columns import CircuitColumns
+    from .faults import FaultLoop
+    from .response import DeviceResponse
 
 GENERAL_CAUTIONS = (
     "This result supports a competent person; it does not replace one. A competent person must verify the design.",
     "The current edition of BS 7671 / IEC 60364, local codes and licensed practice prevail over this result.",
     "Site measurements (Ze, Zs, R1+R2, RCD operation) must confirm the design before the circuit is put into service.",
 )
+
+
+@dataclass
+class Checked:
+    """The pipeline's arrays for N circuits: the loop, the devices' response and every check."""
+
+    cols: CircuitColumns
+    loop: FaultLoop
+    trip: DeviceResponse
+    checks: list[CheckColumns]
+    cautions: list[tuple[np.ndarray, str]]
 
 
 @dataclass

@@ -378,7 +378,8 @@ def _size(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec) ->
         },
         selected=selected,
         tried=tried,
-        cautions=sizing_cautions(selected, inst, lenient, outcomes) + arrangement_cautions(demand),
+        cautions=sizing_cautions(selected, inst, lenient, outcomes)
+        + arrangement_cautions(demand.parallel_cables, demand.cpc),
         circuit=chosen,
         requirements=[] if shown is None else [c for c in shown.checks if c.check in REQUIREMENT_CHECKS],
     )

@@ -3,14 +3,11 @@
 from __future__ import annotations
 
 from collections.abc import Sequence
-from typing import TYPE_CHECKING, Any
+from typing import Any
 
 from .columns import CircuitFailure
 from .model import CableRun
 from .verdicts import Verdict
-
-if TYPE_CHECKING:
-    from .sizing import Demand
 
 
 def never_shown(outcomes: list, names: Sequence[str]) -> frozenset[str]:
@@ -23,14 +20,15 @@ def never_shown(outcomes: list, names: Sequence[str]) -> frozenset[str]:
     )
 
 
-def arrangement_cautions(demand: Demand) -> list[str]:
+def arrangement_cautions(parallel_cables: int, cpc: str) -> list[str]:
+    """What sizing says of cables in parallel and of armour as the cpc."""
     out = []
-    if demand.parallel_cables > 1:
+    if parallel_cables > 1:
         out.append(
-            f"{demand.parallel_cables} cables in parallel are taken to share the load equally (523.7): the same "
+            f"{parallel_cables} cables in parallel are taken to share the load equally (523.7): the same "
             "type, size, length and route, connected together at both ends."
         )
-    if demand.cpc == "armour":
+    if cpc == "armour":
         out.append(
             "The armour as the cpc: its resistance is worked from the armour's cross-section (makers' tables, see "
             "the data file's confidence); the glands must be made to carry the fault current."

@@ -1,7 +1,6 @@
 """What a sizing answer says beside its sizes (common practice: a check no size can show is said, not ruled on)."""
 
 from service.electrical.results import Check
-from service.electrical.sizing import Demand
 from service.electrical.sizing_notes import arrangement_cautions, never_shown
 
 
@@ -19,5 +18,5 @@ def test_a_check_not_verified_for_every_size_is_lenient():
 
 
 def test_parallel_cables_and_armour_are_said():
-    said = arrangement_cautions(Demand(length_m=10, parallel_cables=2, cpc="armour"))
+    said = arrangement_cautions(2, "armour")
     assert len(said) == 2 and "523.7" in said[0]
