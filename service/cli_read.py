@@ -7,7 +7,9 @@ the same messages), so a schedule of any length is checked a chunk at a time in 
 from __future__ import annotations
 
 import csv
+import io
 import json
+import mmap
 from collections.abc import Iterator
 from typing import Any, BinaryIO, TextIO
 
@@ -273,7 +275,7 @@ def iter_json(stream: BinaryIO) -> Iterator[Row]:
     if supply is None:
         raise ScheduleError(SCHEDULE_SHAPE)
     head = {}
-    for key in HEAD_KEYS:  # each a scan in C (yajl2_c) where the key is not at the file's head
+    for key in _named(stream, HEAD_KEYS):  # a scan each, and only for a key the file names at all
         stream.seek(0)
         value = _incremental(lambda key=key: next(ijson.items(stream, key, use_float=True), _END))
         if value is not _END:
@@ -281,6 +283,16 @@ def iter_json(stream: BinaryIO) -> Iterator[Row]:
     stream.seek(0)
     items = ijson.items(stream, "circuits.item", use_float=True, map_type=_NoRepeats)
     return iter_items(supply, _plain(items), head)
+
+
+def _named(stream: BinaryIO, keys: tuple[str, ...]) -> list[str]:
+    """The keys whose quoted names appear anywhere in the file: a byte search (memchr speed) that spares a full
+    parse for each key a schedule does not name (three scans of a 100 000-circuit file took 1.9 s)."""
+    try:
+        with mmap.mmap(stream.fileno(), 0, access=mmap.ACCESS_READ) as data:
+            return [key for key in keys if data.find(f'"{key}"'.encode()) != -1]
+    except (OSError, ValueError, io.UnsupportedOperation):  # not a mapped file (a pipe, an empty file): look for each
+        return list(keys)
 
 
 def _plain(items: Iterator[Any]) -> Iterator[Any]:

@@ -60,7 +60,8 @@ def test_the_csv_answer_carries_each_circuits_cautions_and_the_rules_it_fails(tm
     (row,) = csv.DictReader(io.StringIO(out.read_text()))
     assert row["verdict"] == "fail" and "additional-protection" in row["failed_checks"]
     assert "additional-protection: fail: required, and no RCD is fitted" in row["cautions"]
-    assert "AFDD" not in row["cautions"] or "recommended" in row["cautions"]
+    # in premises "other" an AFDD is only recommended for socket-outlets (421.1.7): a caution, never a fail
+    assert "arc fault detection device (BS EN 62606) is recommended" in row["cautions"]
 
 
 def test_all_pass_exits_0_and_not_verified_exits_4(tmp_path):
@@ -123,3 +124,16 @@ def test_ndjson_and_strictness_of_a_json_read_incrementally(tmp_path):
     nan = tmp_path / "nan.json"
     nan.write_text(json.dumps(batch).replace('"length_m": 18', '"length_m": NaN', 1))
     assert run(str(nan)).returncode == 2
+
+
+def test_a_json_schedule_names_its_edition_and_premises_anywhere_at_its_top(tmp_path):
+    # BS 7671:2018+A2:2022 asked for after the circuits: the answer follows A2 (tests/data/requirements-rules.md)
+    body = json.loads((ROOT / "schemas" / "examples" / "circuits-check-batch.json").read_text())
+    body.pop("edition")
+    body["edition"] = "BS 7671:2018+A2:2022"
+    source = tmp_path / "schedule.json"
+    source.write_text(json.dumps(body))
+    answer = json.loads(run(str(source)).stdout)
+    bases = [c["basis"] for r in answer["results"] if "result" in r for c in r["result"]["checks"]]
+    assert any(b.startswith("BS 7671:2018+A2:2022") for b in bases)
+    assert not any(b.startswith("BS 7671:2018+A4:2026") for b in bases)

@@ -5,6 +5,7 @@ from __future__ import annotations
 from marshmallow import Schema, fields, post_load, validate
 
 from ..electrical.columns import CircuitFailure
+from ..electrical.devices import defaults as device_defaults
 from ..electrical.verdicts import VERDICTS
 from ..electrical.verification import CIRCUIT_VOLTAGES, Measured, verify
 from . import fastload
@@ -62,6 +63,12 @@ fastload.register(VerifyItemSchema)
 class VerifyRequestSchema(FastSchema, JobSchema):
     supply = fields.Nested(SupplySchema, required=True)
     circuits = PerItemList(fields.Nested(VerifyItemSchema), required=True)
+
+    def complete_devices(self, data: dict, given: list) -> None:
+        """Each item's circuit (an item that did not validate stays as it is)."""
+        for item in data["circuits"]:
+            if isinstance(item, dict):
+                item["circuit"] = device_defaults.with_defaults_of(item["circuit"], given)
 
 
 class JudgementSchema(Schema):

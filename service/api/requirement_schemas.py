@@ -115,34 +115,6 @@ def device_defaults_field() -> fields.List:
     )  # fmt: skip
 
 
-def with_device_defaults(data: dict) -> dict:
-    """The request's devices completed from its ``device_defaults`` (a single circuit, a batch's circuits, an
-    installation's boards and their circuits); the core checks that each standard and type is given once."""
-    given = data.get("device_defaults")
-    if not given:
-        return data
-    try:
-        device_defaults.check_defaults(given)
-    except ElectricalError as err:
-        raise ValidationError(err.message, "device_defaults") from None
-    if "circuit" in data:
-        data["circuit"] = device_defaults.apply([data["circuit"]], given)[0]
-    if "device" in data:  # circuits/size: the device family to choose from
-        data["device"] = device_defaults.with_defaults(data["device"], given)
-    if "circuits" in data and isinstance(data["circuits"], list):
-        items = data["circuits"]
-        if items and all(isinstance(i, dict) and "circuit" in i for i in items):  # test-results/verify
-            for item, circuit in zip(items, device_defaults.apply([i["circuit"] for i in items], given), strict=True):
-                item["circuit"] = circuit
-        else:
-            data["circuits"] = device_defaults.apply(items, given)
-    for board in data.get("boards", []):
-        board["circuits"] = device_defaults.apply(board["circuits"], given)
-        if board.get("device") is not None:
-            board["device"] = device_defaults.with_defaults(board["device"], given)
-    return data
-
-
 class JobSchema(Schema):
     """What a request says once for the whole job, beside its supply: the edition, the premises, the maker's data.
     A base of every request that carries a supply; its edition and premises go onto the supply (the core reads them
@@ -154,4 +126,27 @@ class JobSchema(Schema):
 
     @post_load
     def onto_supply(self, data, **kwargs):
-        return with_device_defaults(with_edition(data) if "supply" in data else data)
+        data = with_edition(data) if "supply" in data else data
+        given = data.get("device_defaults")
+        if given:
+            try:
+                device_defaults.check_defaults(given)
+            except ElectricalError as err:
+                raise ValidationError(err.message, "device_defaults") from None
+            self.complete_devices(data, given)
+        return data
+
+    def complete_devices(self, data: dict, given: list) -> None:
+        """The request's devices completed from its ``device_defaults``: a single circuit, a batch's circuits, an
+        installation's boards and their circuits, the device family sizing chooses from. A request that holds its
+        circuits otherwise (test-results/verify) says how by overriding this."""
+        if "circuit" in data:
+            data["circuit"] = device_defaults.with_defaults_of(data["circuit"], given)
+        if "device" in data:
+            data["device"] = device_defaults.with_defaults(data["device"], given)
+        if isinstance(data.get("circuits"), list):
+            data["circuits"] = device_defaults.apply(data["circuits"], given)
+        for board in data.get("boards", []):
+            board["circuits"] = device_defaults.apply(board["circuits"], given)
+            if board.get("device") is not None:
+                board["device"] = device_defaults.with_defaults(board["device"], given)

@@ -216,7 +216,9 @@ class BoardFaults:
     @property
     def phase_fault_a(self) -> float:
         """The larger of the line-neutral and line-earth (not in TT) currents: what a single-pole device sees."""
-        known = [x for x in (self.max_line_neutral_a, math.nan if self.tt else self.max_earth_fault_a) if x == x]
+        known = [
+            x for x in (self.max_line_neutral_a, math.nan if self.tt else self.max_earth_fault_a) if not math.isnan(x)
+        ]
         return max(known) if known else math.nan
 
     def _current(self, factor: float, impedance: float) -> float:

@@ -55,10 +55,16 @@ def rule(edition: str, name: str) -> dict[str, Any]:
     """The row of rule ``name`` under ``edition``, with ``basis``: the edition, the clause and where it comes
     from (``carried forward ...`` until confirmed against the edition)."""
     check_edition(edition)
-    entry = _table()["editions"][edition]
-    row = dict(entry["rules"][name])
-    row["basis"] = f"{edition} {row['clause']} ({entry['carried_forward']})"
+    row = dict(_table()["editions"][edition]["rules"][name])
+    row["basis"] = basis(edition, [name])
     return row
+
+
+def basis(edition: str, names: Sequence[str]) -> str:
+    """'BS 7671:2018+A4:2026 411.3.3, 701.411.3.3 (carried forward ...)': the clauses of rules ``names``, each once."""
+    rules = _table()["editions"][edition]["rules"]
+    clauses = ", ".join(dict.fromkeys(rules[name]["clause"] for name in names))
+    return f"{edition} {clauses} ({_table()['editions'][edition]['carried_forward']})"
 
 
 def clause(edition: str, name: str) -> str:

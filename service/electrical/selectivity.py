@@ -212,11 +212,16 @@ def verdicts_of(limit_a: np.ndarray, fault_a: np.ndarray) -> tuple[np.ndarray, n
     return word, up_to
 
 
+def rcd_ratio() -> float:
+    """How many times the downstream RCD's IΔn the upstream one's must be, beside its time delay (common practice)."""
+    return float(device_table("residual")["selectivity_ratio"])
+
+
 def rcd_pair(down: Rcd | None, up: Rcd | None) -> tuple[Selective | None, str | None]:
     """Selectivity of two RCDs in series: the upstream type S with IΔn at least three times the downstream's."""
     if down is None or up is None:
         return None, None
-    ratio = device_table("residual")["selectivity_ratio"]
+    ratio = rcd_ratio()
     if up.delay == "S" and up.residual_current_ma >= ratio * down.residual_current_ma:
         return (
             Selective.TOTAL,

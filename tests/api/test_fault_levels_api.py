@@ -30,7 +30,9 @@ def test_device_defaults_give_every_rcbo_of_the_joinery_the_makers_data(client):
     assert_problem(client.post("/v1/installations/check", json=repeated), 422, "/device_defaults")
     falling = copy.deepcopy(body)
     falling["device_defaults"][0]["let_through_curve"] = list(reversed(CURVE))
-    assert client.post("/v1/installations/check", json=falling).status_code == 200  # the core refuses it per circuit
+    answer = client.post("/v1/installations/check", json=falling).get_json()  # the core refuses it per circuit
+    refused = [c for b in answer["boards"] for c in b["circuits"] if c["id"] in ("bench sockets", "desk sockets")]
+    assert all(c["problem"]["errors"][0]["pointer"].endswith("/device/let_through_curve") for c in refused)
     single = json.loads((EXAMPLES / "circuits-check.json").read_text())
     single["circuit"]["device"]["let_through_curve"] = list(reversed(CURVE))
     assert_problem(client.post("/v1/circuits/check", json=single), 422, "/circuit/device/let_through_curve")

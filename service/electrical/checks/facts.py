@@ -38,9 +38,7 @@ def bases(editions: np.ndarray, masks: Sequence[np.ndarray], rules: Sequence[str
         text = spelled.get(key)
         if text is None:
             names = [rule for rule, on in zip(rules, key[1], strict=True) if on] or [default]
-            clauses = ", ".join(dict.fromkeys(requirements.rule(edition, name)["clause"] for name in names))
-            where = requirements.rule(edition, names[0])["basis"].split("(", 1)[1]
-            text = spelled[key] = f"{edition} {clauses} ({where}"
+            text = spelled[key] = requirements.basis(edition, names)
         out.append(text)
     return np.array(out, dtype=object)
 

@@ -14,11 +14,16 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
-from .. import requirements
+import numpy as np
+
+from .. import precision, requirements, selectivity
+from ..arrays import finite_or_none
 from ..devices.catalogue import resolve
 from ..model import Circuit, DeviceSpec, Installation, SurgeProtection, Unread
 from ..results import Check
+from ..selectivity import Selective
 from ..verdicts import Verdict
+from .base import margin_percent
 
 BOARD_CHECKS = ("demand", "rcd-selectivity")
 INSTALLATION_CHECKS = ("surge-protection",)
@@ -26,10 +31,13 @@ SURGE_REQUIRED = ("human-life", "safety-services", "commercial")
 
 
 def _check(name: str, verdict: Verdict, value, limit, unit: str, edition: str, rule: str, note: str) -> Check:
-    margin = None
-    if value is not None and limit:
-        margin = round((limit - value) / limit * 100.0, 1)
-    return Check(name, verdict, value, limit, unit, margin, requirements.rule(edition, rule)["basis"], note)
+    """One :class:`Check`, its margin as every check's (:func:`~service.electrical.checks.base.margin_percent`, to the
+    precision margins carry)."""
+    margin = margin_percent(np.nan if value is None else value, np.nan if limit is None else limit)
+    rounded = precision.rounded(margin, precision.RULES["margin_percent"])
+    return Check(
+        name, verdict, value, limit, unit, finite_or_none(rounded[()]), requirements.rule(edition, rule)["basis"], note
+    )
 
 
 def demand_check(
@@ -62,32 +70,24 @@ def demand_check(
 def rcd_selectivity_check(
     upstream: DeviceSpec | None, circuits: Sequence[Circuit | Unread], edition: str
 ) -> Check | None:
-    """RCDs in series (536.4.1.4): None where the board is not fed through an RCD or none of its circuits has one."""
+    """RCDs in series (536.4.1.4), each pair by :func:`service.electrical.selectivity.rcd_pair`; None where the board
+    is not fed through an RCD or none of its circuits has one."""
     if upstream is None or upstream.rcd is None:
         return None
     below = [c for c in circuits if not isinstance(c, Unread) and c.device.rcd is not None]
     if not below:
         return None
-    ratio = requirements.number("rcd_selectivity_ratio")
-    up = upstream.rcd
-    largest = max(c.device.rcd.residual_current_ma for c in below)
-    needed = ratio * largest
-    delayed = up.delay == "S"
-    bad = [
-        c.id or "a circuit"
-        for c in below
-        if not delayed or up.residual_current_ma < ratio * c.device.rcd.residual_current_ma
-    ]
+    pairs = [(c, *selectivity.rcd_pair(c.device.rcd, upstream.rcd)) for c in below]
+    bad = [c.id or "a circuit" for c, word, _ in pairs if word != Selective.TOTAL]
+    # the value is what the upstream IΔn must reach (the ratio times the largest IΔn below), the limit what it is
+    needed = selectivity.rcd_ratio() * max(c.device.rcd.residual_current_ma for c in below)
+    value, limit = needed, upstream.rcd.residual_current_ma
     if not bad:
-        note = "the upstream RCD is time-delayed (S) with at least three times the IΔn of each RCD below"
-        return _check(
-            "rcd-selectivity", Verdict.PASS, up.residual_current_ma, needed, "mA", edition, "rcd-selectivity", note
-        )
-    why = "is not time-delayed (S)" if not delayed else f"has less than {ratio:g} times their IΔn"
-    note = f"the upstream RCD {why}: a fault on {', '.join(bad)} may trip it too"
-    return _check(
-        "rcd-selectivity", Verdict.FAIL, up.residual_current_ma, needed, "mA", edition, "rcd-selectivity", note
+        return _check("rcd-selectivity", Verdict.PASS, value, limit, "mA", edition, "rcd-selectivity", pairs[0][2])
+    note = (
+        f"{pairs[0][2] if len(bad) == len(pairs) else 'some pairs fail'}: a fault on {', '.join(bad)} may trip it too"
     )
+    return _check("rcd-selectivity", Verdict.FAIL, value, limit, "mA", edition, "rcd-selectivity", note)
 
 
 def surge_protection_check(surge: SurgeProtection | None, edition: str) -> Check:

@@ -42,7 +42,9 @@ def test_rcds_in_series():
     below = [rcd_circuit(30), Unread("x")]
     assert rcd_selectivity_check(s_100, below, A4).verdict == "pass"
     bad = rcd_selectivity_check(general_100, below, A4)
-    assert bad.verdict == "fail" and "not time-delayed" in bad.note and "sockets" in bad.note
+    assert bad.verdict == "fail" and "time-delayed (type S)" in bad.note and "sockets" in bad.note
+    # the value is what the upstream IΔn must reach (3 x 30 mA), the limit the upstream's own 100 mA
+    assert (bad.value, bad.limit) == (90, 100)
     assert rcd_selectivity_check(s_60, below, A4).verdict == "fail"  # 60 < 3 x 30 mA
     assert rcd_selectivity_check(FUSE_63, below, A4) is None  # no RCD above: nothing in series
     assert rcd_selectivity_check(s_100, [Unread("x")], A4) is None
