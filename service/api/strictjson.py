@@ -107,7 +107,10 @@ def strict_loads(data: bytes | str) -> Any:
     except ValueError as exc:  # e.g. Python's own limit on integer digits
         raise _reject(str(exc)) from None
     if "\\u" in text and SURROGATE_ESCAPE.search(text):  # only then look for a partnerless one
-        found = _lone_surrogate(value)
+        try:
+            found = _lone_surrogate(value)
+        except RecursionError:
+            raise _reject("the body is nested too deeply") from None
         if found is not None:
             raise LoneSurrogate(found)
     return value

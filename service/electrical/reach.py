@@ -131,7 +131,6 @@ def max_length(
 # what would let a run pass where no length does, by the check that fails at the shortest length (common practice)
 FIXES = {
     "capacity": "the cable cannot carry the device's rating: a larger cable, or a smaller device",
-    "breaking-capacity": "the fault level exceeds the device's capacity: a device of higher breaking capacity",
     "protective-conductor": "a larger cpc, or the maker's let-through data (device.let_through_curve)",
     "short-circuit": "a larger line conductor, a device that clears sooner, or the maker's let-through data",
     "disconnection-time": "a lower Ze, an RCD, or a device that trips at a lower current",
