@@ -36,9 +36,9 @@ def _batch_once(raw: bytes, answer: dict) -> dict[str, float]:
     from service.api.lean import CHUNK
     from service.api.schemas import BatchRequestSchema
     from service.api.strictjson import strict_loads
-    from service.electrical.circuit import check_columns
-    from service.electrical.columns import columns_of, prepare
-    from service.electrical.table import Interned, columns_of_checked
+    from service.electrical.circuit_arrays import columns_of, prepare
+    from service.electrical.pipeline import check_columns
+    from service.electrical.results.lean_table import Interned, columns_of_checked
 
     t: dict[str, float] = dict.fromkeys(STAGES, 0.0)
     start = time.perf_counter()
@@ -167,7 +167,7 @@ def single_parts() -> dict[str, float]:
     """CPU ms of the core for runs of 1, 4 and 8 circuits (the bench's single check request, in process)."""
     from service.api.schemas import CheckRequestSchema
     from service.app import create_app
-    from service.electrical.circuit import check_circuits
+    from service.electrical.pipeline import check_circuits
     from service.settings import Settings
 
     app = create_app({"SETTINGS": Settings()})

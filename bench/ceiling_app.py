@@ -11,7 +11,7 @@ from pathlib import Path
 from service.api import coalesce
 from service.api.schemas import CheckRequestSchema
 from service.app import create_app
-from service.electrical.circuit import check_circuits
+from service.electrical.pipeline import check_circuits
 
 app = create_app()
 EXAMPLE = Path(__file__).resolve().parents[1] / "schemas" / "examples" / "circuits-check.json"

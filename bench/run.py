@@ -53,7 +53,7 @@ def row(name: str, value: str, baseline: str = "", ratio: str = "", target: str 
 
 def bench_engine() -> None:
     from service.api.schemas import CircuitSchema, SupplySchema
-    from service.electrical.circuit import check_circuit, check_circuits
+    from service.electrical.pipeline import check_circuit, check_circuits
 
     supply = SupplySchema().load(SUPPLY)
     items = [CircuitSchema().load(c) for c in circuits(2000)]

@@ -23,8 +23,8 @@ def serve(_args) -> int:
 
 def openapi(args) -> int:
     """Write the OpenAPI document generated from the code (to FILE, or standard output)."""
-    from .app import create_app, spec_dict
-    from .settings import Settings
+    from service.app import create_app, spec_dict
+    from service.settings import Settings
 
     app = create_app({"SETTINGS": Settings()})
     with app.app_context():
@@ -45,7 +45,7 @@ def main(argv: list[str] | None = None) -> int:
     p = sub.add_parser("openapi", help="write the OpenAPI contract generated from the code")
     p.add_argument("file", nargs="?", help="where to write it (default: standard output)")
     p.set_defaults(func=openapi)
-    from .cli import add_parser
+    from service.cli import add_parser
 
     add_parser(sub)
     args = parser.parse_args(argv)

@@ -21,7 +21,7 @@ from flask_smorest.utils import prepare_response
 from werkzeug.exceptions import HTTPException
 from werkzeug.routing import BaseConverter
 
-from .api import (
+from service.api import (
     cable_views,
     circuit_views,
     deadline,
@@ -37,11 +37,11 @@ from .api import (
     sizing_views,
     web,
 )
-from .api.coalesce import Coalescer
-from .api.installation_schemas import MAX_BOARDS
-from .api.key_guard import KeyFailures
-from .electrical import precision
-from .settings import Settings
+from service.api.coalesce import Coalescer
+from service.api.installation_schemas import MAX_BOARDS
+from service.api.key_guard import KeyFailures
+from service.electrical.results import precision
+from service.settings import Settings
 
 API_VERSION = "1.0.0"
 # what answers without a key (FAULTPATH_OPEN_PATHS names the groups left open)

@@ -24,15 +24,15 @@ from collections.abc import Iterable
 from pathlib import Path
 from typing import Any, TextIO
 
-from . import runtime
-from .api.errors import json_bytes
-from .api.strictjson import strict_loads
-from .cli_read import Row, ScheduleError, iter_csv, iter_json, iter_ndjson, top_level_kind
-from .cli_status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
-from .electrical.circuit import check_circuits
-from .electrical.columns import CircuitFailure
-from .electrical.results import GENERAL_CAUTIONS
-from .electrical.verdicts import COUNTED, Verdict
+from service import runtime
+from service.api.errors import json_bytes
+from service.api.strictjson import strict_loads
+from service.cli_read import Row, ScheduleError, iter_csv, iter_json, iter_ndjson, top_level_kind
+from service.cli_status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.pipeline import check_circuits
+from service.electrical.results.circuit_result import GENERAL_CAUTIONS
+from service.electrical.results.verdicts import COUNTED, Verdict
 
 RESULT_COLUMNS = (
     "index",
@@ -203,7 +203,7 @@ def _checked(rows: Iterable[Row], args: argparse.Namespace, total: int | None) -
 def _installation(body: dict, path: Path, args: argparse.Namespace) -> int:
     if args.format == "csv" or (args.output or "").lower().endswith(".csv"):
         raise ScheduleError("an installation's answer is JSON (and --report writes the HTML report)")
-    from . import cli_installation  # the installation's schemas and report: imported only for one
+    from service import cli_installation  # the installation's schemas and report: imported only for one
 
     return cli_installation.run(body, path, args, lambda total: Progress(total, sys.stderr))
 

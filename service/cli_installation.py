@@ -13,12 +13,12 @@ from typing import Any
 
 from marshmallow import ValidationError
 
-from .api.errors import core_errors, flatten, json_bytes
-from .api.installation_schemas import InstallationRequestSchema, installation_of, problem_messages, records
-from .cli_status import EXIT_FAIL, EXIT_UNREADABLE, exit_status
-from .electrical.errors import ElectricalError
-from .electrical.installation import check_installation
-from .electrical.verdicts import Verdict
+from service.api.errors import core_errors, flatten, json_bytes
+from service.api.installation_schemas import InstallationRequestSchema, installation_of, problem_messages, records
+from service.cli_status import EXIT_FAIL, EXIT_UNREADABLE, exit_status
+from service.electrical.errors import ElectricalError
+from service.electrical.network.installation import check_installation
+from service.electrical.results.verdicts import Verdict
 
 SCHEMA = InstallationRequestSchema()
 
@@ -53,7 +53,7 @@ def run(body: dict, path: Path, args, progress) -> int:
         sys.stdout.buffer.write(answer)
         sys.stdout.flush()
     if args.report:
-        from .report import report_html
+        from service.report import report_html
 
         Path(args.report).write_text(report_html(inst, result, problem_messages(problems)), encoding="utf-8")
     counts = {k: v for k, v in result.summary.items()}

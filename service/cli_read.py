@@ -16,14 +16,14 @@ from typing import Any, BinaryIO, TextIO
 import ijson
 from marshmallow import ValidationError
 
-from .api.errors import core_errors, flatten, pointer_of
-from .api.fastload import Refused, fast_load
-from .api.item_lists import echoed
-from .api.requirement_schemas import JobSchema, with_edition
-from .api.schemas import CircuitSchema, SupplySchema
-from .api.strictjson import strict_loads
-from .electrical.columns import CircuitFailure
-from .electrical.devices import defaults as device_defaults
+from service.api.errors import core_errors, flatten, pointer_of
+from service.api.fastload import Refused, fast_load
+from service.api.item_lists import echoed
+from service.api.requirement_schemas import JobSchema, with_edition
+from service.api.schemas import CircuitSchema, SupplySchema
+from service.api.strictjson import strict_loads
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.devices import defaults as device_defaults
 
 # column -> (where it goes, field, kind); documented in the README
 CSV_COLUMNS: dict[str, tuple[str, str, str]] = {

@@ -5,7 +5,7 @@ from __future__ import annotations
 import time
 from typing import TextIO
 
-from .electrical.verdicts import Verdict
+from service.electrical.results.verdicts import Verdict
 
 CHUNK = 2000  # the bar shows from this many circuits
 

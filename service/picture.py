@@ -13,7 +13,7 @@ import math
 import threading
 from typing import Any
 
-from .electrical.devices.base import Device
+from service.electrical.devices.base import Device
 
 STYLE = {
     "curve": "#1f5f5b",

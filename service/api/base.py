@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import flask_smorest
 
-from .strictjson import StrictParser
+from service.api.strictjson import StrictParser
 
 
 class Blueprint(flask_smorest.Blueprint):

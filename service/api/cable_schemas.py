@@ -4,9 +4,10 @@ from __future__ import annotations
 
 from marshmallow import Schema, post_load
 
-from ..electrical import capacity, requirements
-from ..electrical.model import CableRun, built
-from .fields import Flag, Number, WholeNumber, choice
+from service.api.fields import Flag, Number, WholeNumber, choice
+from service.electrical.cables import capacity
+from service.electrical.inputs import CableRun, built
+from service.electrical.rules import requirements
 
 ALL_METHODS = sorted({m for cable in capacity.CABLES for m in capacity.methods(cable)})
 

@@ -4,10 +4,10 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields, validate
 
-from ..electrical import capacity
-from .base import Blueprint
-from .device_views import ProvenanceSchema
-from .errors import json_response
+from service.api.base import Blueprint
+from service.api.device_views import ProvenanceSchema
+from service.api.errors import json_response
+from service.electrical.cables import capacity
 
 blp = Blueprint("cables", __name__, url_prefix="/v1/cables", description="The cable families the tables hold")
 

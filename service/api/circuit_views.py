@@ -4,20 +4,20 @@ from __future__ import annotations
 
 import flask
 
-from ..electrical.circuit import check_circuits
-from ..electrical.columns import CircuitFailure
-from ..electrical.devices.catalogue import resolve
-from ..electrical.verdicts import COUNTED
-from ..electrical.verdicts import summary as verdicts_summary
-from ..picture import characteristic_svg
-from . import deadline, metrics
-from .base import Blueprint
-from .errors import CoreInputError, json_bytes, json_response
-from .helpers import failed_item, invalid_item, svg_response
-from .item_lists import ItemProblem
-from .lean import FormSchema, LeanBatchSchema, lean_answer
-from .result_schemas import CheckAnswerSchema
-from .schemas import BatchRequestSchema, CheckRequestSchema
+from service.api import deadline, metrics
+from service.api.base import Blueprint
+from service.api.errors import CoreInputError, json_bytes, json_response
+from service.api.helpers import failed_item, invalid_item, svg_response
+from service.api.item_lists import ItemProblem
+from service.api.lean import FormSchema, LeanBatchSchema, lean_answer
+from service.api.result_schemas import CheckAnswerSchema
+from service.api.schemas import BatchRequestSchema, CheckRequestSchema
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.devices.catalogue import resolve
+from service.electrical.pipeline import check_circuits
+from service.electrical.results.verdicts import COUNTED
+from service.electrical.results.verdicts import summary as verdicts_summary
+from service.picture import characteristic_svg
 
 blp = Blueprint(
     "circuits",

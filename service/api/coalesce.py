@@ -15,9 +15,9 @@ from collections.abc import Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
-from ..electrical.circuit import check_circuits
-from ..electrical.model import Circuit, Supply
-from .metrics import count_single_run
+from service.api.metrics import count_single_run
+from service.electrical.inputs import Circuit, Supply
+from service.electrical.pipeline import check_circuits
 
 MAX_BATCH = 64
 

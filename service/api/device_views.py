@@ -5,11 +5,11 @@ from __future__ import annotations
 import flask
 from marshmallow import Schema, fields
 
-from ..electrical.devices.catalogue import catalogue, device_by_id
-from ..electrical.errors import ElectricalError
-from ..picture import characteristic_svg
-from .base import Blueprint
-from .helpers import SVG, svg_response
+from service.api.base import Blueprint
+from service.api.helpers import SVG, svg_response
+from service.electrical.devices.catalogue import catalogue, device_by_id
+from service.electrical.errors import ElectricalError
+from service.picture import characteristic_svg
 
 blp = Blueprint(
     "devices", __name__, url_prefix="/v1/devices", description="The built-in protective devices and their curves"

@@ -18,8 +18,8 @@ import orjson
 from marshmallow import Schema, fields
 from werkzeug.exceptions import HTTPException
 
-from ..electrical.columns import CircuitFailure
-from ..electrical.errors import ElectricalError
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.errors import ElectricalError
 
 PROBLEM_TYPE = "application/problem+json"
 log = logging.getLogger("faultpath")

@@ -5,11 +5,11 @@ from __future__ import annotations
 import flask
 from marshmallow import Schema, fields
 
-from ..electrical.circuit import check_circuit
-from ..electrical.devices.catalogue import catalogue
-from ..electrical.model import Circuit, Conductors, DeviceSpec, Supply
-from . import metrics
-from .base import Blueprint
+from service.api import metrics
+from service.api.base import Blueprint
+from service.electrical.devices.catalogue import catalogue
+from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Supply
+from service.electrical.pipeline import check_circuit
 
 blp = Blueprint("health", __name__, description="Liveness, readiness and metrics")
 

@@ -8,8 +8,8 @@ from typing import Any
 
 import flask
 
-from ..electrical.columns import CircuitFailure
-from .errors import core_errors, flatten, problem_body
+from service.api.errors import core_errors, flatten, problem_body
+from service.electrical.circuit_arrays import CircuitFailure
 
 SVG = "image/svg+xml"
 

@@ -6,19 +6,25 @@ from typing import Any
 
 from marshmallow import Schema, fields, post_load, validate
 
-from ..electrical import requirements
-from ..electrical.checks.installation_rules import BOARD_CHECKS, INSTALLATION_CHECKS
-from ..electrical.columns import CircuitFailure
-from ..electrical.installation import InstallationResult
-from ..electrical.model import Board, Installation, SurgeProtection, Unread, built
-from ..electrical.verdicts import VERDICTS
-from . import fastload
-from .errors import flatten
-from .fields import Flag, Number, Text, choice
-from .helpers import failed_item, invalid_item
-from .item_lists import ItemProblem, PerItemList
-from .result_schemas import BatchItemSchema, BatchSummarySchema, CheckResultSchema, edition_answer, nullable_number
-from .schemas import CircuitSchema, DeviceSchema, ScopedSchema, SupplySchema
+from service.api import fastload
+from service.api.errors import flatten
+from service.api.fields import Flag, Number, Text, choice
+from service.api.helpers import failed_item, invalid_item
+from service.api.item_lists import ItemProblem, PerItemList
+from service.api.result_schemas import (
+    BatchItemSchema,
+    BatchSummarySchema,
+    CheckResultSchema,
+    edition_answer,
+    nullable_number,
+)
+from service.api.schemas import CircuitSchema, DeviceSchema, ScopedSchema, SupplySchema
+from service.electrical.checks.installation_rules import BOARD_CHECKS, INSTALLATION_CHECKS
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.inputs import Board, Installation, SurgeProtection, Unread, built
+from service.electrical.network.installation import InstallationResult
+from service.electrical.results.verdicts import VERDICTS
+from service.electrical.rules import requirements
 
 MAX_BOARDS = 500
 

@@ -4,19 +4,19 @@ from __future__ import annotations
 
 import flask
 
-from ..electrical.errors import ElectricalError
-from ..electrical.installation import InstallationResult, check_installation
-from ..electrical.model import Installation
-from . import deadline, metrics
-from .base import Blueprint
-from .errors import CoreInputError, json_response
-from .installation_schemas import (
+from service.api import deadline, metrics
+from service.api.base import Blueprint
+from service.api.errors import CoreInputError, json_response
+from service.api.installation_schemas import (
     InstallationRequestSchema,
     InstallationResultSchema,
     installation_of,
     problem_messages,
     records,
 )
+from service.electrical.errors import ElectricalError
+from service.electrical.inputs import Installation
+from service.electrical.network.installation import InstallationResult, check_installation
 
 blp = Blueprint(
     "installations",
@@ -78,7 +78,7 @@ def report(body):
     per board its values carried down from the origin, a schedule of its circuits with their figures and
     verdicts, a coordination picture for each pair of devices, and the cautions.
     """
-    from ..report import report_html
+    from service.report import report_html
 
     inst, result, problems = checked(body)
     html = report_html(inst, result, problem_messages(problems), tick=deadline.check)

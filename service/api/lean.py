@@ -1,4 +1,4 @@
-"""The lean answer of a batch: the core's table (service.electrical.table) with its texts and devices once."""
+"""The lean answer of a batch: the core's table (results.lean_table) with its texts and devices said once."""
 
 from __future__ import annotations
 
@@ -8,16 +8,24 @@ from typing import Any
 
 from marshmallow import Schema, fields, validate
 
-from ..electrical import requirements, verdicts
-from ..electrical.checks import CHECKS, UNITS
-from ..electrical.columns import CircuitFailure
-from ..electrical.results import GENERAL_CAUTIONS
-from ..electrical.table import Interned, add_problem, check_table, column_names, empty_columns, extend
-from . import deadline, metrics
-from .errors import ProblemSchema
-from .helpers import failed_item, invalid_item
-from .item_lists import ItemProblem
-from .result_schemas import BatchSummarySchema, DeviceSummarySchema, edition_answer
+from service.api import deadline, metrics
+from service.api.errors import ProblemSchema
+from service.api.helpers import failed_item, invalid_item
+from service.api.item_lists import ItemProblem
+from service.api.result_schemas import BatchSummarySchema, DeviceSummarySchema, edition_answer
+from service.electrical.checks import CHECKS, UNITS
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.results import verdicts
+from service.electrical.results.circuit_result import GENERAL_CAUTIONS
+from service.electrical.results.lean_table import (
+    Interned,
+    add_problem,
+    check_table,
+    column_names,
+    empty_columns,
+    extend,
+)
+from service.electrical.rules import requirements
 
 CHUNK = 2000
 FORMS = ("lean", "full")

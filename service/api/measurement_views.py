@@ -4,19 +4,19 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields, post_load, validate
 
-from ..electrical.columns import CircuitFailure
-from ..electrical.devices import defaults as device_defaults
-from ..electrical.verdicts import VERDICTS
-from ..electrical.verification import CIRCUIT_VOLTAGES, Measured, verify
-from . import fastload
-from .base import Blueprint
-from .errors import json_response
-from .fields import Flag, Number, choice
-from .helpers import failed_item, invalid_item
-from .item_lists import ItemProblem, PerItemList
-from .requirement_schemas import JobSchema
-from .result_schemas import edition_answer, nullable_number
-from .schemas import CircuitSchema, FastSchema, SupplySchema
+from service.api import fastload
+from service.api.base import Blueprint
+from service.api.errors import json_response
+from service.api.fields import Flag, Number, choice
+from service.api.helpers import failed_item, invalid_item
+from service.api.item_lists import ItemProblem, PerItemList
+from service.api.requirement_schemas import JobSchema
+from service.api.result_schemas import edition_answer, nullable_number
+from service.api.schemas import CircuitSchema, FastSchema, SupplySchema
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.devices import defaults as device_defaults
+from service.electrical.results.verdicts import VERDICTS
+from service.electrical.verification import CIRCUIT_VOLTAGES, Measured, verify
 
 blp = Blueprint(
     "test_results",

@@ -9,7 +9,7 @@ import time
 import flask
 from prometheus_client import CONTENT_TYPE_LATEST, CollectorRegistry, Counter, Histogram, generate_latest, multiprocess
 
-from ..electrical.verdicts import VERDICTS
+from service.electrical.results.verdicts import VERDICTS
 
 REQUESTS = Counter("faultpath_requests_total", "HTTP requests answered", ["method", "endpoint", "status"])
 LATENCY = Histogram(

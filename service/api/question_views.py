@@ -9,19 +9,20 @@ import dataclasses
 
 from marshmallow import Schema, ValidationError, fields, validate, validates_schema
 
-from ..electrical import conductors as cond
-from ..electrical import precision, protective
-from ..electrical.devices.characteristic import BOUNDS
-from ..electrical.errors import ElectricalError
-from ..electrical.faults import fault_current as fault_current_of
-from ..electrical.limits import max_zs_for
-from ..electrical.response import operating_time
-from ..electrical.verdicts import VERDICTS
-from .base import Blueprint
-from .errors import CoreInputError
-from .fields import Number, choice
-from .result_schemas import DeviceSummarySchema, nullable_number
-from .schemas import ConductorsSchema, DeviceSchema, SupplySchema
+from service.api.base import Blueprint
+from service.api.errors import CoreInputError
+from service.api.fields import Number, choice
+from service.api.result_schemas import DeviceSummarySchema, nullable_number
+from service.api.schemas import ConductorsSchema, DeviceSchema, SupplySchema
+from service.electrical.cables import conductors as cond
+from service.electrical.cables import protective
+from service.electrical.devices.characteristic import BOUNDS
+from service.electrical.devices.limits import max_zs_for
+from service.electrical.devices.response import operating_time
+from service.electrical.errors import ElectricalError
+from service.electrical.network.faults import fault_current as fault_current_of
+from service.electrical.results import precision
+from service.electrical.results.verdicts import VERDICTS
 
 fault_blp = Blueprint("fault_current", __name__, url_prefix="/v1/fault-current", description="Earth fault current")
 disconnection_blp = Blueprint(

@@ -6,12 +6,12 @@ import dataclasses
 
 from marshmallow import Schema, ValidationError, fields, post_load, validate
 
-from ..electrical import requirements
-from ..electrical.devices import defaults as device_defaults
-from ..electrical.devices.catalogue import standards, types
-from ..electrical.errors import ElectricalError
-from ..electrical.model import DeviceDefaults, EvCharge, built
-from .fields import Flag, Number, WholeNumber, choice
+from service.api.fields import Flag, Number, WholeNumber, choice
+from service.electrical.devices import defaults as device_defaults
+from service.electrical.devices.catalogue import standards, types
+from service.electrical.errors import ElectricalError
+from service.electrical.inputs import DeviceDefaults, EvCharge, built
+from service.electrical.rules import requirements
 
 
 class EvSchema(Schema):

@@ -5,12 +5,13 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields, validate
 
-from ..electrical import protective, requirements
-from ..electrical.checks import CHECKS
-from ..electrical.devices.characteristic import BOUNDS
-from ..electrical.selectivity import SELECTIVE
-from ..electrical.verdicts import VERDICTS, Verdict
-from .errors import ProblemSchema
+from service.api.errors import ProblemSchema
+from service.electrical.cables import protective
+from service.electrical.checks import CHECKS
+from service.electrical.devices.characteristic import BOUNDS
+from service.electrical.devices.selectivity import SELECTIVE
+from service.electrical.results.verdicts import VERDICTS, Verdict
+from service.electrical.rules import requirements
 
 
 def nullable_number(description: str = "", **kwargs) -> fields.Float:

@@ -11,19 +11,20 @@ import dataclasses
 
 from marshmallow import Schema, ValidationError, fields, post_load, validate, validates_schema
 
-from ..electrical import capacity, disconnection, protective, requirements
-from ..electrical import conductors as cond
-from ..electrical.checks import CHECKS
-from ..electrical.columns import PHASES
-from ..electrical.devices import catalogue, residual
-from ..electrical.devices.let_through import ENERGY_CLASSES
-from ..electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply, built
-from . import fastload
-from .cable_schemas import InstallationSchema
-from .fastload import Refused, fast_load
-from .fields import Flag, Number, Text, WholeNumber, choice
-from .item_lists import PerItemList
-from .requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
+from service.api import fastload
+from service.api.cable_schemas import InstallationSchema
+from service.api.fastload import Refused, fast_load
+from service.api.fields import Flag, Number, Text, WholeNumber, choice
+from service.api.item_lists import PerItemList
+from service.api.requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
+from service.electrical.cables import capacity, protective
+from service.electrical.cables import conductors as cond
+from service.electrical.checks import CHECKS
+from service.electrical.circuit_arrays import PHASES
+from service.electrical.devices import catalogue, residual
+from service.electrical.devices.let_through import ENERGY_CLASSES
+from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply, built
+from service.electrical.rules import disconnection, requirements
 
 DEVICE_STANDARDS = catalogue.standards()
 RATED_CURRENT = "the supply's rated current (the cut-out fuse or service rating): the origin's demand (311.1)"

@@ -4,18 +4,12 @@ from __future__ import annotations
 
 from marshmallow import Schema, ValidationError, fields, post_load, validate, validates_schema
 
-from ..electrical import capacity as cap
-from ..electrical import disconnection
-from ..electrical.errors import ElectricalError
-from ..electrical.model import DeviceSpec
-from ..electrical.reach import max_length, size_with_reach
-from ..electrical.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand
-from .base import Blueprint
-from .errors import CoreInputError, json_response
-from .fields import Flag, Number, Text, WholeNumber, choice
-from .requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
-from .result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
-from .schemas import (
+from service.api.base import Blueprint
+from service.api.errors import CoreInputError, json_response
+from service.api.fields import Flag, Number, Text, WholeNumber, choice
+from service.api.requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
+from service.api.result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
+from service.api.schemas import (
     DEVICE_STANDARDS,
     DEVICE_TYPES,
     CircuitSchema,
@@ -26,6 +20,12 @@ from .schemas import (
     energy_class_field,
     phases_field,
 )
+from service.electrical.cables import capacity as cap
+from service.electrical.cables.reach import max_length, size_with_reach
+from service.electrical.cables.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand
+from service.electrical.errors import ElectricalError
+from service.electrical.inputs import DeviceSpec
+from service.electrical.rules import disconnection
 
 blp = Blueprint(
     "sizing",

@@ -20,17 +20,17 @@ import dataclasses
 from dataclasses import dataclass, field
 from typing import Any
 
-from . import precision
-from .circuit import check_circuits
-from .columns import CircuitFailure
-from .conductors import operating_temperature_c, temperature_multiplier
-from .datafiles import core_table, device_table
-from .devices import residual
-from .errors import InvalidInput
-from .limits import measured_limit_ohm
-from .model import Circuit, Supply
-from .results import CircuitResult
-from .verdicts import Verdict, overall
+from service.electrical.cables.conductors import operating_temperature_c, temperature_multiplier
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.datafiles import core_table, device_table
+from service.electrical.devices import residual
+from service.electrical.devices.limits import measured_limit_ohm
+from service.electrical.errors import InvalidInput
+from service.electrical.inputs import Circuit, Supply
+from service.electrical.pipeline import check_circuits
+from service.electrical.results import precision
+from service.electrical.results.circuit_result import CircuitResult
+from service.electrical.results.verdicts import Verdict, overall
 
 PASS, FAIL, NOT_VERIFIED = Verdict.PASS, Verdict.FAIL, Verdict.NOT_VERIFIED
 

@@ -11,13 +11,13 @@ from typing import Any
 from jinja2 import Environment, FileSystemLoader, select_autoescape
 from markupsafe import Markup
 
-from ..electrical.columns import CircuitFailure
-from ..electrical.devices.catalogue import resolve
-from ..electrical.installation import BoardResult, InstallationResult
-from ..electrical.model import Circuit, Installation, Unread
-from ..electrical.results import GENERAL_CAUTIONS, CircuitResult
-from ..electrical.verdicts import Verdict
-from ..picture import coordination_svg
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.devices.catalogue import resolve
+from service.electrical.inputs import Circuit, Installation, Unread
+from service.electrical.network.installation import BoardResult, InstallationResult
+from service.electrical.results.circuit_result import GENERAL_CAUTIONS, CircuitResult
+from service.electrical.results.verdicts import Verdict
+from service.picture import coordination_svg
 
 HERE = Path(__file__).parent
 ENV = Environment(loader=FileSystemLoader(HERE), autoescape=select_autoescape(["html"]), trim_blocks=True)

@@ -7,7 +7,7 @@ import pytest
 
 from service.api.coalesce import Coalescer
 from service.api.schemas import CheckRequestSchema
-from service.electrical.circuit import check_circuit
+from service.electrical.pipeline import check_circuit
 from tests.paths import EXAMPLES
 
 BODY = CheckRequestSchema().load(json.loads((EXAMPLES / "circuits-check.json").read_text()))

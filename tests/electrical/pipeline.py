@@ -1,8 +1,8 @@
 """Running the check pipeline on a few circuits, for the tests of its steps."""
 
-from service.electrical.circuit import Checked, check_columns
-from service.electrical.columns import columns_of, prepare
-from service.electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.circuit_arrays import columns_of, prepare
+from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.pipeline import Checked, check_columns
 
 # Invented demo scenario: Larkspur Bakery (TN-C-S, 230 V, Ze 0.28 ohm, 2.1 kA stated) and its TT garden kiosk
 BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)

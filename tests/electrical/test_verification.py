@@ -7,8 +7,8 @@ import dataclasses
 
 import pytest
 
-from service.electrical.columns import CircuitFailure
-from service.electrical.model import Circuit, Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.circuit_arrays import CircuitFailure
+from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply
 from service.electrical.verification import Measured, verify
 
 BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)

@@ -7,20 +7,20 @@ of its own here, with its clause texts beside it) and one entry in :data:`STEPS`
 
 from __future__ import annotations
 
-from .additional_protection import additional_protection
-from .arc_fault import arc_fault_detection
-from .base import CheckColumns, Step
-from .breaking_capacity import breaking_capacity
-from .disconnection_time import disconnection_time
-from .ev_earthing import ev_earthing
-from .max_zs import max_zs
-from .overload import overload
-from .protective_conductor import protective_conductor
-from .rcd import rcd
-from .rcd_type import rcd_type
-from .selectivity import selectivity_check
-from .short_circuit import short_circuit
-from .voltage_drop import voltage_drop
+from service.electrical.checks.additional_protection import additional_protection
+from service.electrical.checks.arc_fault import arc_fault_detection
+from service.electrical.checks.base import CheckColumns, Step
+from service.electrical.checks.breaking_capacity import breaking_capacity
+from service.electrical.checks.disconnection_time import disconnection_time
+from service.electrical.checks.ev_earthing import ev_earthing
+from service.electrical.checks.max_zs import max_zs
+from service.electrical.checks.overload import overload
+from service.electrical.checks.protective_conductor import protective_conductor
+from service.electrical.checks.rcd import rcd
+from service.electrical.checks.rcd_type import rcd_type
+from service.electrical.checks.selectivity import selectivity_check
+from service.electrical.checks.short_circuit import short_circuit
+from service.electrical.checks.voltage_drop import voltage_drop
 
 # the order results list them; a step may read the checks before it (the cpc's Table 54.7 alternative
 # stands only where the short-circuit check shows the line conductor protected)

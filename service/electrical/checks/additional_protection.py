@@ -12,13 +12,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import requirements, verdicts
-from ..columns import CircuitColumns
-from ..devices import residual
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
-from .facts import among, bases, joined, spread, stated, unknown
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.checks.facts import among, bases, joined, spread, stated, unknown
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.devices import residual
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
+from service.electrical.rules import requirements
 
 NOTES = {
     "no-rcd": "required, and no RCD is fitted",

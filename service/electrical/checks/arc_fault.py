@@ -8,13 +8,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import requirements, verdicts
-from ..arrays import select
-from ..columns import CircuitColumns
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
-from .facts import among, bases, spread, stated, unknown
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.checks.facts import among, bases, spread, stated, unknown
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.column_tools import select
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
+from service.electrical.rules import requirements
 
 NOTES = {
     "premises": "not stated: give premises (an AFDD is required in some premises, 421.1.7)",

@@ -8,12 +8,12 @@ from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
-from ..arrays import select
+from service.electrical.column_tools import select
 
 if TYPE_CHECKING:
-    from ..columns import CircuitColumns
-    from ..faults import FaultLoop
-    from ..response import DeviceResponse
+    from service.electrical.circuit_arrays import CircuitColumns
+    from service.electrical.devices.response import DeviceResponse
+    from service.electrical.network.faults import FaultLoop
 
 
 def margin_percent(value: Any, limit: Any) -> np.ndarray:
@@ -31,7 +31,7 @@ def pick(conditions: Sequence[np.ndarray], texts: Sequence[str | None], default:
 
 @dataclass
 class CheckColumns:
-    """One check over N circuits: verdict codes (see :mod:`service.electrical.verdicts`), value and limit
+    """One check over N circuits: verdict codes (see :mod:`service.electrical.results.verdicts`), value and limit
     in ``unit``, margin, the clause each verdict rests on, a note, and where the check applies.
 
     ``detail`` optionally names a sub-object of the circuit result and its columns (the protective

@@ -10,12 +10,12 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import verdicts
-from ..arrays import nan_to, select
-from ..columns import CircuitColumns
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.column_tools import nan_to, select
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 BASES = {
     "rated": "BS 7671:2018 434.5.1, rated breaking capacity >= prospective fault current",

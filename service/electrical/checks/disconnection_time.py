@@ -7,12 +7,12 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import verdicts
-from ..columns import CircuitColumns
-from ..devices.characteristic import BEYOND_DATA, ESTIMATED
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.devices.characteristic import BEYOND_DATA, ESTIMATED
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 NOTES = {
     "estimated": "Time read from an estimated part of the curve (see the device notes).",

@@ -1,5 +1,5 @@
 """What the checks of the rules beyond the calculations share: reading stated facts, and the clause texts of
-the rules that apply to each circuit under its edition (:mod:`service.electrical.requirements`)."""
+the rules that apply to each circuit under its edition (:mod:`service.electrical.rules.requirements`)."""
 
 from __future__ import annotations
 
@@ -7,8 +7,8 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from .. import requirements
-from .base import CheckColumns
+from service.electrical.checks.base import CheckColumns
+from service.electrical.rules import requirements
 
 
 def stated(values: np.ndarray, value: object) -> np.ndarray:

@@ -1,5 +1,6 @@
 """The checks of a board and of a whole installation (not of one circuit): each a function returning one
-:class:`~service.electrical.results.Check`, its clause from data/requirements.json under the edition asked.
+:class:`~service.electrical.results.circuit_result.Check`, its clause from data/requirements.json under the edition
+asked.
 
 - ``demand`` (311.1): a board's demand after diversity within the rating of the device feeding it; at the origin,
   within the supply's rated current (and the main device's rating, where given).
@@ -16,14 +17,16 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from .. import precision, requirements, selectivity
-from ..arrays import finite_or_none
-from ..devices.catalogue import resolve
-from ..model import Circuit, DeviceSpec, Installation, SurgeProtection, Unread
-from ..results import Check
-from ..selectivity import Selective
-from ..verdicts import Verdict
-from .base import margin_percent
+from service.electrical.checks.base import margin_percent
+from service.electrical.column_tools import finite_or_none
+from service.electrical.devices import selectivity
+from service.electrical.devices.catalogue import resolve
+from service.electrical.devices.selectivity import Selective
+from service.electrical.inputs import Circuit, DeviceSpec, Installation, SurgeProtection, Unread
+from service.electrical.results import precision
+from service.electrical.results.circuit_result import Check
+from service.electrical.results.verdicts import Verdict
+from service.electrical.rules import requirements
 
 BOARD_CHECKS = ("demand", "rcd-selectivity")
 INSTALLATION_CHECKS = ("surge-protection",)
@@ -70,8 +73,8 @@ def demand_check(
 def rcd_selectivity_check(
     upstream: DeviceSpec | None, circuits: Sequence[Circuit | Unread], edition: str
 ) -> Check | None:
-    """RCDs in series (536.4.1.4), each pair by :func:`service.electrical.selectivity.rcd_pair`; None where the board
-    is not fed through an RCD or none of its circuits has one."""
+    """RCDs in series (536.4.1.4), each pair by :func:`service.electrical.devices.selectivity.rcd_pair`; None where
+    the board is not fed through an RCD or none of its circuits has one."""
     if upstream is None or upstream.rcd is None:
         return None
     below = [c for c in circuits if not isinstance(c, Unread) and c.device.rcd is not None]

@@ -8,14 +8,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import verdicts
-from ..arrays import select
-from ..columns import CircuitColumns
-from ..devices.characteristic import ESTIMATED
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
-from .rcd import BASES as RCD_BASES
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.checks.rcd import BASES as RCD_BASES
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.column_tools import select
+from service.electrical.devices.characteristic import ESTIMATED
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 BASES = {
     "tn": "BS 7671:2018 411.4.4, Zs <= U0 x Cmin / Ia",

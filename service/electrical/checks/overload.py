@@ -10,14 +10,15 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import capacity, verdicts
-from ..arrays import select
-from ..columns import CircuitColumns
-from ..datafiles import core_table
-from ..errors import ElectricalError
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
+from service.electrical.cables import capacity
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.column_tools import select
+from service.electrical.datafiles import core_table
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.errors import ElectricalError
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 BASES = {
     "general": "BS 7671:2018 433.1.1, Ib <= In <= Iz",

@@ -8,12 +8,13 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import protective, verdicts
-from ..arrays import nan_to, one_of, select
-from ..columns import CircuitColumns
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
+from service.electrical.cables import protective
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.column_tools import nan_to, one_of, select
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 BASES = {
     "adiabatic": "BS 7671:2018 543.1.3, S >= sqrt(I^2 t) / k",

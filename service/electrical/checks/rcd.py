@@ -8,12 +8,12 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import verdicts
-from ..columns import CircuitColumns
-from ..devices import residual
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from .base import CheckColumns, Earlier, check_step, pick
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.devices import residual
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 BASES = {"tn": "BS 7671:2018 411.4.5, Zs x IΔn <= 50 V", "tt": "BS 7671:2018 411.5.3, RA x IΔn <= 50 V"}
 NOTES = {

@@ -6,20 +6,21 @@ circuit's verdict only where selectivity is required (the circuit's or its board
 a fault here must not take out the board above). ``total`` passes; ``partial`` (the largest fault at the
 device can exceed the limit) and ``none`` fail; ``not-verified`` where standard data cannot show it. The
 largest fault at the device is the prospective fault current at its board (434.1: line-neutral, line-earth
-or three-phase, the largest). The rules are in :mod:`service.electrical.selectivity`.
+or three-phase, the largest). The rules are in :mod:`service.electrical.devices.selectivity`.
 """
 
 from __future__ import annotations
 
 import numpy as np
 
-from .. import selectivity, verdicts
-from ..arrays import select
-from ..columns import CircuitColumns
-from ..faults import FaultLoop
-from ..response import DeviceResponse
-from ..selectivity import Selective
-from .base import CheckColumns, Earlier, check_step
+from service.electrical.checks.base import CheckColumns, Earlier, check_step
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.column_tools import select
+from service.electrical.devices import selectivity
+from service.electrical.devices.response import DeviceResponse
+from service.electrical.devices.selectivity import Selective
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 NO_UPSTREAM = "the device feeding the board is not known: give it (an installation's board device, or its feed)"
 BASIS = "BS 7671:2018 536.4: a fault on this circuit clears without operating the device that feeds its board"

@@ -11,13 +11,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from .. import protective, verdicts
-from ..arrays import one_of, select
-from ..columns import CircuitColumns
-from ..devices.characteristic import AT_MOST, BEYOND_DATA, bound_names
-from ..faults import FaultLoop
-from ..response import DeviceResponse, FaultEnergy
-from .base import CheckColumns, Earlier, check_step, pick
+from service.electrical.cables import protective
+from service.electrical.checks.base import CheckColumns, Earlier, check_step, pick
+from service.electrical.circuit_arrays import CircuitColumns
+from service.electrical.column_tools import one_of, select
+from service.electrical.devices.characteristic import AT_MOST, BEYOND_DATA, bound_names
+from service.electrical.devices.response import DeviceResponse, FaultEnergy
+from service.electrical.network.faults import FaultLoop
+from service.electrical.results import verdicts
 
 BASIS = "BS 7671:2018 434.5.2, t <= k^2 S^2 / I^2 at the largest and the smallest short-circuit current"
 MAX_TIME_S = protective.ADIABATIC_MAX_S

@@ -15,11 +15,11 @@ from typing import Any
 
 import numpy as np
 
-from ..datafiles import device_table, provenance
-from ..errors import InvalidInput, UnknownDevice
-from ..model import DeviceSpec
-from .base import Device
-from .characteristic import Characteristic
+from service.electrical.datafiles import device_table, provenance
+from service.electrical.devices.base import Device
+from service.electrical.devices.characteristic import Characteristic
+from service.electrical.errors import InvalidInput, UnknownDevice
+from service.electrical.inputs import DeviceSpec
 
 
 def _table() -> dict:

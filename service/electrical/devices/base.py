@@ -7,11 +7,11 @@ from typing import TYPE_CHECKING, Any, Protocol
 
 import numpy as np
 
-from ..arrays import as_float, scalar_io
-from .characteristic import Characteristic
+from service.electrical.column_tools import as_float, scalar_io
+from service.electrical.devices.characteristic import Characteristic
 
 if TYPE_CHECKING:
-    from ..model import DeviceSpec
+    from service.electrical.inputs import DeviceSpec
 
 BELOW_DATA = "below-data"
 

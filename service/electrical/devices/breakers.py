@@ -13,12 +13,12 @@ from typing import Any
 
 import numpy as np
 
-from ..datafiles import device_table, provenance
-from ..errors import UnknownDevice
-from ..model import DeviceSpec
-from . import let_through
-from .base import Device
-from .characteristic import Characteristic
+from service.electrical.datafiles import device_table, provenance
+from service.electrical.devices import let_through
+from service.electrical.devices.base import Device
+from service.electrical.devices.characteristic import Characteristic
+from service.electrical.errors import UnknownDevice
+from service.electrical.inputs import DeviceSpec
 
 
 def _table() -> dict:

@@ -11,11 +11,11 @@ from typing import Any
 
 import numpy as np
 
-from ..errors import UnknownDevice
-from ..model import DeviceSpec
-from . import adjustable, breakers, fuses
-from .base import Device, Family
-from .user_curve import user_device
+from service.electrical.devices import adjustable, breakers, fuses
+from service.electrical.devices.base import Device, Family
+from service.electrical.devices.user_curve import user_device
+from service.electrical.errors import UnknownDevice
+from service.electrical.inputs import DeviceSpec
 
 FAMILIES: tuple[Family, ...] = (breakers.FAMILY, fuses.FAMILY, adjustable.FAMILY)
 

@@ -19,8 +19,8 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import as_float, scalar_io, select
-from ..errors import InvalidInput
+from service.electrical.column_tools import as_float, scalar_io, select
+from service.electrical.errors import InvalidInput
 
 
 class Bound(StrEnum):

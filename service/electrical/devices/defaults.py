@@ -11,8 +11,8 @@ import dataclasses
 from collections.abc import Sequence
 from typing import Any
 
-from ..errors import InvalidInput
-from ..model import DeviceDefaults, DeviceSpec
+from service.electrical.errors import InvalidInput
+from service.electrical.inputs import DeviceDefaults, DeviceSpec
 
 FIELDS = ("breaking_capacity_ka", "energy_limiting_class", "let_through_curve")
 

@@ -12,9 +12,9 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import as_float
-from ..datafiles import device_table
-from ..errors import InvalidInput
+from service.electrical.column_tools import as_float
+from service.electrical.datafiles import device_table
+from service.electrical.errors import InvalidInput
 
 ENERGY_CLASSES = (1, 2, 3)
 
@@ -128,6 +128,6 @@ def curve_limit_a(curve: tuple[tuple[float, float], ...], energy_a2s: float) -> 
 
 
 def provenance() -> list[dict[str, Any]]:
-    from ..datafiles import provenance as of
+    from service.electrical.datafiles import provenance as of
 
     return [of(_classes()), of(device_table("gg_i2t"))]

@@ -11,10 +11,10 @@ from typing import Any
 
 import numpy as np
 
-from ..arrays import as_float, scalar_io
-from ..datafiles import device_table
-from ..errors import UnknownDevice
-from .characteristic import Characteristic
+from service.electrical.column_tools import as_float, scalar_io
+from service.electrical.datafiles import device_table
+from service.electrical.devices.characteristic import Characteristic
+from service.electrical.errors import UnknownDevice
 
 
 def _table() -> dict:

@@ -4,9 +4,9 @@ from __future__ import annotations
 
 from functools import lru_cache
 
-from ..errors import InvalidInput, UnknownDevice
-from .base import Device
-from .characteristic import Characteristic
+from service.electrical.devices.base import Device
+from service.electrical.devices.characteristic import Characteristic
+from service.electrical.errors import InvalidInput, UnknownDevice
 
 
 @lru_cache(maxsize=1024)

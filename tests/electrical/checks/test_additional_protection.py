@@ -7,8 +7,8 @@ Sources: BS 7671:2018+A2:2022 411.3.3 (socket-outlets up to 32 A), 411.3.4 (lumi
 
 import dataclasses
 
-from service.electrical.model import CableRun, DeviceSpec, EvCharge, Rcd
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import CableRun, DeviceSpec, EvCharge, Rcd
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import B32, BAKERY, TWIN_2_5, circuit, run, step
 
 SHOP = dataclasses.replace(BAKERY, premises="other")

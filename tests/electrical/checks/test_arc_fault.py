@@ -4,8 +4,8 @@ built student accommodation and care homes; recommended elsewhere), as in tests/
 
 import dataclasses
 
-from service.electrical.model import DeviceSpec
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import DeviceSpec
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import B32, BAKERY, TWIN_2_5, circuit, run, step
 
 HMO = dataclasses.replace(BAKERY, premises="multiple-occupation")

@@ -2,9 +2,9 @@
 
 import numpy as np
 
-from service.electrical import verdicts
 from service.electrical.checks import CHECKS, STEPS
 from service.electrical.checks.base import CheckColumns, margin_percent, pick
+from service.electrical.results import verdicts
 
 
 def test_margin_is_the_share_of_the_limit_to_spare():

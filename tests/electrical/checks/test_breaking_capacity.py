@@ -2,8 +2,8 @@
 
 import numpy as np
 
-from service.electrical.model import DeviceSpec, Supply
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import DeviceSpec, Supply
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import BAKERY, circuit, run, step
 
 

@@ -3,8 +3,8 @@
 import pytest
 
 from service.electrical.devices.characteristic import Bound
-from service.electrical.model import Conductors
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import Conductors
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import BAKERY, KIOSK, RCBO_B16, TWIN_2_5, circuit, run, step
 
 
@@ -27,7 +27,7 @@ def test_the_rcd_disconnects_where_the_breaker_cannot():
 
 def test_at_most_data_cannot_show_a_shorter_time():
     # TT at 400 V: Table 41.1 asks 0.07 s; a breaker's data show 'at most 0.1 s': not-verified with its note
-    from service.electrical.model import Supply
+    from service.electrical.inputs import Supply
 
     c = step(run(Supply("TT", 400, 0.5, 3), circuit()), "disconnection-time")
     assert VERDICTS[c.verdict[0]] == "not-verified" and "at most" in c.note[0]

@@ -4,8 +4,8 @@ on a broken PEN; from memory), as in tests/data/requirements-rules.md."""
 
 import dataclasses
 
-from service.electrical.model import EvCharge
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import EvCharge
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import B32, BAKERY, KIOSK, circuit, run, step
 
 PME = dataclasses.replace(BAKERY, premises="dwelling")

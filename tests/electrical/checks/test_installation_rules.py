@@ -5,7 +5,7 @@ memory), 443.4 (surge protection; from memory), as in tests/data/requirements-ru
 import math
 
 from service.electrical.checks.installation_rules import demand_check, rcd_selectivity_check, surge_protection_check
-from service.electrical.model import Circuit, DeviceSpec, Rcd, SurgeProtection, Unread
+from service.electrical.inputs import Circuit, DeviceSpec, Rcd, SurgeProtection, Unread
 from tests.electrical.pipeline import TWIN_2_5
 
 A4 = "BS 7671:2018+A4:2026"

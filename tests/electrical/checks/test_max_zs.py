@@ -2,8 +2,8 @@
 
 import pytest
 
-from service.electrical.model import Conductors
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import Conductors
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import BAKERY, KIOSK, RCBO_B16, TWIN_2_5, circuit, run, step
 
 

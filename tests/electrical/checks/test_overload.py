@@ -7,8 +7,8 @@ import dataclasses
 
 import pytest
 
-from service.electrical.model import CableRun, Conductors, DeviceSpec
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import CableRun, Conductors, DeviceSpec
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import BAKERY, circuit, run, step
 
 CLIPPED = CableRun("flat-twin-earth-70c", "C")

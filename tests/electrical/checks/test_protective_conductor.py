@@ -4,8 +4,8 @@ import math
 
 import pytest
 
-from service.electrical.model import Conductors, DeviceSpec, Rcd, Supply
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import BAKERY, circuit, run, step
 
 

@@ -5,8 +5,8 @@ tests/data/requirements-rules.md."""
 
 import dataclasses
 
-from service.electrical.model import DeviceSpec, EvCharge, Rcd
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import DeviceSpec, EvCharge, Rcd
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import B32, BAKERY, TWIN_2_5, circuit, run, step
 
 A4 = dataclasses.replace(BAKERY, premises="other")

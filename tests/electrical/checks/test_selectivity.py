@@ -6,9 +6,9 @@ prospective fault current).
 
 import dataclasses
 
-from service.electrical.model import DeviceSpec, Rcd
-from service.electrical.results import assemble
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import DeviceSpec, Rcd
+from service.electrical.results.circuit_result import assemble
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import B32, BAKERY, RCBO_B16, TWIN_2_5, circuit, run, step
 
 C63 = DeviceSpec(rating_a=63, standard="BS EN 60898", type="C", breaking_capacity_ka=10)

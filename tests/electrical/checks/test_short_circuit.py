@@ -11,9 +11,9 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from service.electrical.circuit import check_circuit
-from service.electrical.model import Conductors, DeviceSpec, Rcd, Supply
-from service.electrical.verdicts import VERDICTS
+from service.electrical.inputs import Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.pipeline import check_circuit
+from service.electrical.results.verdicts import VERDICTS
 from tests.electrical.pipeline import circuit, run, step
 
 SHOP = Supply("TN-C-S", 230, 0.28, 2.1, line_neutral_loop_ohm=0.19)

@@ -6,7 +6,7 @@ import pytest
 from service.electrical.devices import adjustable
 from service.electrical.devices.catalogue import device_by_id, resolve
 from service.electrical.errors import InvalidInput
-from service.electrical.model import DeviceSpec
+from service.electrical.inputs import DeviceSpec
 
 FRAME = DeviceSpec(rating_a=250, standard="BS EN 60947-2", ir_a=200, ii_a=2000, isd_a=1200, tsd_s=0.2)
 

@@ -1,7 +1,7 @@
 """What every device offers: its label, summary and regions."""
 
 from service.electrical.devices.catalogue import resolve
-from service.electrical.model import DeviceSpec
+from service.electrical.inputs import DeviceSpec
 
 
 def test_label_summary_and_regions_of_a_breaker():

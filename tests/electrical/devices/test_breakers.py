@@ -5,7 +5,7 @@ import pytest
 
 from service.electrical.devices.catalogue import resolve
 from service.electrical.errors import UnknownDevice
-from service.electrical.model import DeviceSpec
+from service.electrical.inputs import DeviceSpec
 
 
 def test_breaker_envelope_from_bs_en_60898_limits():

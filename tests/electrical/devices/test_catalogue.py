@@ -6,7 +6,7 @@ import pytest
 from service.electrical.devices import catalogue as registry
 from service.electrical.devices.catalogue import catalogue, device_by_id, resolve
 from service.electrical.errors import UnknownDevice
-from service.electrical.model import DeviceSpec
+from service.electrical.inputs import DeviceSpec
 
 
 def all_builtin_devices():

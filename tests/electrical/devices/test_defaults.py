@@ -5,7 +5,7 @@ import pytest
 
 from service.electrical.devices.defaults import apply, check_defaults, with_defaults
 from service.electrical.errors import InvalidInput
-from service.electrical.model import Circuit, DeviceDefaults, DeviceSpec
+from service.electrical.inputs import Circuit, DeviceDefaults, DeviceSpec
 from tests.electrical.pipeline import TWIN_2_5
 
 CURVE = ((200.0, 900.0), (1000.0, 2000.0), (3000.0, 4500.0))

@@ -7,7 +7,7 @@ import pytest
 
 from service.electrical.devices import fuses
 from service.electrical.devices.catalogue import catalogue, device_by_id, resolve
-from service.electrical.model import DeviceSpec
+from service.electrical.inputs import DeviceSpec
 
 
 def test_bs3036_below_0_4_s_is_not_shown():

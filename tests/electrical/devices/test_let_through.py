@@ -6,7 +6,7 @@ import pytest
 from service.electrical.devices import let_through
 from service.electrical.devices.catalogue import resolve
 from service.electrical.errors import InvalidInput
-from service.electrical.model import DeviceSpec
+from service.electrical.inputs import DeviceSpec
 from tests.reference import rows
 
 

@@ -7,7 +7,7 @@ from hypothesis import strategies as st
 
 from service.electrical.devices.catalogue import resolve
 from service.electrical.errors import ElectricalError, InvalidInput, UnknownDevice
-from service.electrical.model import DeviceSpec
+from service.electrical.inputs import DeviceSpec
 
 
 @st.composite

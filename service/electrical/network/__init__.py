@@ -1,0 +1,1 @@
+"""The network: the supply, the tree of boards, each board's loops and fault levels, and the installation's check."""

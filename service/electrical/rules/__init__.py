@@ -1,0 +1,1 @@
+"""The rules read from data: the disconnection times of Table 41.1 and the requirements beyond the calculations."""
