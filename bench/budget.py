@@ -32,10 +32,10 @@ STAGES = ("read", "load", "columns", "checks", "table", "write")
 def _batch_once(raw: bytes, answer: dict) -> dict[str, float]:
     """One lean batch request's stages, run as the view runs them (seconds each); ``answer`` is the request's
     lean answer, for the writing stage."""
-    from service.api.errors import json_bytes
     from service.api.lean import CHUNK
-    from service.api.schemas import BatchRequestSchema
-    from service.api.strictjson import strict_loads
+    from service.contract.circuit_schemas import BatchRequestSchema
+    from service.contract.problems import json_bytes
+    from service.contract.strictjson import strict_loads
     from service.electrical.circuit_arrays import columns_of, prepare
     from service.electrical.pipeline import check_columns
     from service.electrical.results.lean_table import Interned, columns_of_checked
@@ -91,8 +91,8 @@ def _wsgi_call(app, path: str, raw: bytes) -> bytes:
 def batch_budget(row: Row, runs: int = 7) -> None:
     """The stages of a 10 000-circuit lean batch in process, each against the stdlib round trip of its request."""
     from service.api.lean import lean_answer
-    from service.api.schemas import BatchRequestSchema
     from service.app import create_app
+    from service.contract.circuit_schemas import BatchRequestSchema
     from service.settings import Settings
 
     app = create_app({"SETTINGS": Settings()})
@@ -165,8 +165,8 @@ def _cpu_per_call(fn: Callable[[], object], calls: int, runs: int = 7) -> float:
 
 def single_parts() -> dict[str, float]:
     """CPU ms of the core for runs of 1, 4 and 8 circuits (the bench's single check request, in process)."""
-    from service.api.schemas import CheckRequestSchema
     from service.app import create_app
+    from service.contract.circuit_schemas import CheckRequestSchema
     from service.electrical.pipeline import check_circuits
     from service.settings import Settings
 
@@ -209,8 +209,8 @@ def single_budget(row: Row, parts: dict[str, float], bare_cpu_ms: float, ceiling
 def measured() -> dict:
     """The batch's budget rows and the core's runs, in this process set up as a worker is when it starts (the app,
     then matplotlib, then the runtime policy: deploy/gunicorn.conf.py's post_worker_init)."""
-    from service import runtime
     from service.picture import warm
+    from service.serving import runtime
 
     rows: list[tuple[str, ...]] = []
     warm()

@@ -8,10 +8,10 @@ the bench's request. Its rate under load is what no faster core could beat. For 
 import json
 from pathlib import Path
 
-from service.api import coalesce
-from service.api.schemas import CheckRequestSchema
 from service.app import create_app
+from service.contract.circuit_schemas import CheckRequestSchema
 from service.electrical.pipeline import check_circuits
+from service.serving import coalescer as coalesce
 
 app = create_app()
 EXAMPLE = Path(__file__).resolve().parents[1] / "schemas" / "examples" / "circuits-check.json"

@@ -52,7 +52,7 @@ def row(name: str, value: str, baseline: str = "", ratio: str = "", target: str 
 
 
 def bench_engine() -> None:
-    from service.api.schemas import CircuitSchema, SupplySchema
+    from service.contract.circuit_schemas import CircuitSchema, SupplySchema
     from service.electrical.pipeline import check_circuit, check_circuits
 
     supply = SupplySchema().load(SUPPLY)

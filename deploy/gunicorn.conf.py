@@ -12,7 +12,7 @@ if ":" in env("FAULTPATH_BIND") and not env("FAULTPATH_BIND").startswith("["):
 workers = int(env("FAULTPATH_WORKERS") or min(8, 2 * multiprocessing.cpu_count() + 1))
 threads = int(env("FAULTPATH_THREADS"))
 # threads let concurrent single checks be computed together; a worker leaves connections beyond its threads to a sibling
-worker_class = "service.serving.BalancedThreadWorker" if threads > 1 else "sync"
+worker_class = "service.serving.worker.BalancedThreadWorker" if threads > 1 else "sync"
 timeout = int(env("FAULTPATH_TIMEOUT_S"))
 # the connections one worker holds at once (gunicorn's own bound; the request's own deadline is api/deadline.py): what
 # the server alone can bound; how long a client takes to send its request it cannot (publish behind deploy/nginx.conf)
@@ -26,7 +26,7 @@ limit_request_fields = 100
 accesslog = "-"
 errorlog = "-"
 loglevel = env("FAULTPATH_LOG_LEVEL")
-logger_class = "service.serving.JsonLinesLogger"
+logger_class = "service.serving.worker.JsonLinesLogger"
 wsgi_app = "service.wsgi:app"
 proc_name = "faultpath"
 
@@ -44,7 +44,7 @@ def on_starting(server):
 def post_worker_init(worker):
     # matplotlib is imported once per worker before it takes traffic, so the first picture is quick; then the
     # runtime policy is set once (service/runtime.py): what start-up made is frozen out of the collector's sight
-    from service import runtime
+    from service.serving import runtime
     from service.picture import warm
 
     warm()

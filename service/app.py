@@ -33,14 +33,14 @@ from service.api import (
     measurement_views,
     metrics,
     question_views,
-    result_schemas,
     sizing_views,
     web,
 )
-from service.api.coalesce import Coalescer
-from service.api.installation_schemas import MAX_BOARDS
 from service.api.key_guard import KeyFailures
+from service.contract import problems, result_schemas
+from service.contract.installation_schemas import MAX_BOARDS
 from service.electrical.results import precision
+from service.serving.coalescer import Coalescer
 from service.settings import Settings
 
 API_VERSION = "1.0.0"
@@ -71,7 +71,7 @@ class NumberConverter(BaseConverter):
 class Api(flask_smorest.Api):
     """flask-smorest's Api answering every error as problem+json."""
 
-    ERROR_SCHEMA = errors.ProblemSchema
+    ERROR_SCHEMA = problems.ProblemSchema
 
     def handle_http_exception(self, error):
         return errors.handle_http_exception(error)
@@ -81,10 +81,10 @@ class Api(flask_smorest.Api):
             response = {"description": status.phrase}
             if not (100 <= status < 200) and status not in (204, 304):
                 response["schema"] = self.ERROR_SCHEMA
-            prepare_response(response, self.spec, errors.PROBLEM_TYPE)
+            prepare_response(response, self.spec, problems.PROBLEM_TYPE)
             self.spec.components.response(status.name, response, lazy=True)
         response = {"description": "Default error response", "schema": self.ERROR_SCHEMA}
-        prepare_response(response, self.spec, errors.PROBLEM_TYPE)
+        prepare_response(response, self.spec, problems.PROBLEM_TYPE)
         self.spec.components.response("DEFAULT_ERROR", response, lazy=True)
 
     def _openapi_json(self):
@@ -129,7 +129,7 @@ def spec_dict(api: Api) -> dict[str, Any]:
             "the probes, /metrics and the docs answer without it unless FAULTPATH_OPEN_PATHS closes them",
         }
     }
-    problem = {"content": {errors.PROBLEM_TYPE: {"schema": {"$ref": "#/components/schemas/Problem"}}}}
+    problem = {"content": {problems.PROBLEM_TYPE: {"schema": {"$ref": "#/components/schemas/Problem"}}}}
     for path, operations in spec["paths"].items():
         for method, operation in operations.items():
             if method not in ("get", "post"):
@@ -221,7 +221,7 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     app.register_blueprint(docs.blp)
     app.register_blueprint(web.blp)
     app.extensions["faultpath_api"] = api
-    app.extensions["faultpath_coalescer"] = Coalescer(settings.coalesce_ms / 1000.0)
+    app.extensions["faultpath_coalescer"] = Coalescer(settings.coalesce_ms / 1000.0, metrics.count_single_run)
     deadline.install(app, settings.timeout_s)
     _install_guards(app, settings)
     _install_rate_limit(app, settings)

@@ -6,7 +6,7 @@ import re
 
 import pytest
 
-from service.api.installation_schemas import InstallationRequestSchema, installation_of, problem_messages
+from service.contract.installation_schemas import InstallationRequestSchema, installation_of, problem_messages
 from service.electrical.network.installation import check_installation
 from service.report import report_html
 from tests.paths import EXAMPLES

@@ -2,9 +2,31 @@
 
 from __future__ import annotations
 
-import flask_smorest
+from typing import Any
 
-from service.api.strictjson import StrictParser
+import flask_smorest
+from webargs import core
+from webargs.flaskparser import FlaskParser, abort
+
+from service.contract.strictjson import LoneSurrogate, strict_loads
+
+
+class StrictParser(FlaskParser):
+    """webargs' Flask parser reading bodies with :func:`strict_loads`."""
+
+    def _raw_load_json(self, req):
+        if not req.get_data(cache=True):
+            return core.missing
+        return strict_loads(req.get_data(cache=True))
+
+    def _handle_invalid_json_error(self, error, req, *args, **kwargs):
+        message = getattr(error, "msg", str(error))
+        if isinstance(error, LoneSurrogate):  # name the field
+            nested: Any = [message]
+            for key in reversed(error.path):
+                nested = {str(key): nested}
+            abort(400, messages={"json": nested})
+        abort(400, messages={"json": {"": [f"the body is not strict JSON: {message}"]}})
 
 
 class Blueprint(flask_smorest.Blueprint):

@@ -6,12 +6,13 @@ import flask
 
 from service.api import deadline, metrics
 from service.api.base import Blueprint
-from service.api.errors import CoreInputError, json_bytes, json_response
-from service.api.helpers import failed_item, invalid_item, svg_response
-from service.api.item_lists import ItemProblem
+from service.api.errors import CoreInputError, json_response
+from service.api.helpers import svg_response
 from service.api.lean import FormSchema, LeanBatchSchema, lean_answer
-from service.api.result_schemas import CheckAnswerSchema
-from service.api.schemas import BatchRequestSchema, CheckRequestSchema
+from service.contract.circuit_schemas import BatchRequestSchema, CheckRequestSchema
+from service.contract.item_lists import ItemProblem
+from service.contract.problems import failed_item, invalid_item, json_bytes
+from service.contract.result_schemas import CheckAnswerSchema
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.devices.catalogue import resolve
 from service.electrical.pipeline import check_circuits

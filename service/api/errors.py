@@ -1,150 +1,26 @@
-"""Problem details (RFC 9457) for every 4xx and 5xx answer.
+"""Problem answers (RFC 9457) for every 4xx and 5xx: the one place an exception becomes a response.
 
-Each problem carries ``errors: [{pointer, message}]`` where a field is at fault (JSON pointers,
-RFC 6901, into the request body). A 500 logs the traceback under an error id and returns only the id.
+Each problem carries ``errors: [{pointer, message}]`` where a field is at fault (JSON pointers, RFC 6901,
+into the request body; :mod:`service.contract.problems`). A 500 logs the traceback under an error id and
+returns only the id.
 """
 
 from __future__ import annotations
 
 import logging
-import re
 import uuid
-from collections.abc import Mapping, Sequence
+from collections.abc import Mapping
 from http import HTTPStatus
 from typing import Any
 
 import flask
-import orjson
-from marshmallow import Schema, fields
 from werkzeug.exceptions import HTTPException
 
+from service.contract.problems import PROBLEM_TYPE, core_errors, flatten, json_bytes, problem_body
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.errors import ElectricalError
 
-PROBLEM_TYPE = "application/problem+json"
 log = logging.getLogger("faultpath")
-
-
-class FieldErrorSchema(Schema):
-    pointer = fields.String(required=True, metadata={"description": "JSON pointer (RFC 6901) into the request body"})
-    message = fields.String(required=True)
-
-
-class ProblemSchema(Schema):
-    """RFC 9457 problem details with the fields at fault."""
-
-    type = fields.String(required=True)
-    title = fields.String(required=True)
-    status = fields.Integer(required=True)
-    detail = fields.String()
-    errors = fields.List(fields.Nested(FieldErrorSchema), required=True)
-    error_id = fields.String(metadata={"description": "Present on 500: quote it to the operator"})
-
-
-def escape(segment: Any) -> str:
-    return str(segment).replace("~", "~0").replace("/", "~1")
-
-
-def pointer(*segments: Any) -> str:
-    return "".join(f"/{escape(s)}" for s in segments if s != "")
-
-
-def pointer_of(path: Sequence[Any], roots: Mapping[str, str] | None = None, base: str = "") -> str:
-    """The one place a core path becomes a JSON pointer.
-
-    Where ``roots`` maps the path's first segment (``{"supply": "/supply", "circuit": "/circuits/3"}``),
-    the rest of the path goes below that pointer; otherwise the whole path goes below ``base``.
-    """
-    if roots and path and path[0] in roots:
-        return roots[path[0]] + pointer(*path[1:])
-    return base + pointer(*path)
-
-
-def core_errors(
-    err: ElectricalError | CircuitFailure, roots: Mapping[str, str] | None = None, base: str = ""
-) -> list[dict[str, str]]:
-    """A core error (or a circuit's failure) as the ``errors`` list of a 422 problem."""
-    return [{"pointer": pointer_of(err.path, roots, base), "message": err.message}]
-
-
-# The wording of the libraries underneath, in the project's own voice (each message sits beside the pointer of
-# the field it is about, so it says what the field must be).
-VOICE = {
-    "Missing data for required field.": "required: give this field",
-    "Field may not be null.": "may not be null: give a value, or leave the field out where it is optional",
-    "Unknown field.": "not a field of this object: /openapi.json lists its fields",
-    "Not a valid string.": "must be a string",
-    "Not a valid integer.": "must be a whole number",
-    "Not a valid boolean.": "must be true or false",
-    "Not a valid list.": "must be a list",
-    "Not a valid mapping type.": "must be an object",
-    "Invalid input type.": "must be an object",
-    "Not a valid number.": "must be a number",
-    "Not a number.": "must be a number",
-    "Not a finite number.": "must be a finite number",
-    "Invalid value.": "not an allowed value",
-}
-VOICE_PATTERNS = (
-    (
-        re.compile(r"^Must be greater than or equal to (.+) and less than or equal to (.+)\.$"),
-        "must be from {0} to {1}",
-    ),
-    (re.compile(r"^Must be greater than or equal to (.+)\.$"), "must be at least {0}"),
-    (re.compile(r"^Must be less than or equal to (.+)\.$"), "must be at most {0}"),
-    (re.compile(r"^Must be one of: (.+)\.$"), "must be one of: {0}"),
-    (re.compile(r"^Length must be between (.+) and (.+)\.$"), "must hold from {0} to {1} items or characters"),
-    (re.compile(r"^Shorter than minimum length (.+)\.$"), "must hold at least {0} items or characters"),
-    (re.compile(r"^Longer than maximum length (.+)\.$"), "must hold at most {0} items or characters"),
-    (re.compile(r"^Must be equal to (.+)\.$"), "must be {0}"),
-)
-
-
-def voiced(message: str) -> str:
-    """A library's stock sentence in the project's words (the project's own messages pass unchanged)."""
-    if message in VOICE:
-        return VOICE[message]
-    for pattern, wording in VOICE_PATTERNS:
-        found = pattern.match(message)
-        if found:
-            return wording.format(*found.groups())
-    return message
-
-
-def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
-    """marshmallow / webargs nested messages as a flat list of ``{pointer, message}``."""
-    out: list[dict[str, str]] = []
-    if isinstance(messages, Mapping):
-        for key, value in messages.items():
-            if key == "_schema":
-                out.extend(flatten(value, base))
-            else:
-                out.extend(flatten(value, f"{base}/{escape(key)}" if key != "" else base))
-    elif isinstance(messages, (list, tuple)):
-        for item in messages:
-            if isinstance(item, (Mapping, list, tuple)):
-                out.extend(flatten(item, base))
-            else:
-                out.append({"pointer": base, "message": voiced(str(item))})
-    else:
-        out.append({"pointer": base, "message": voiced(str(messages))})
-    return out
-
-
-def problem_body(
-    status: int, detail: str | None = None, errors: list[dict[str, str]] | None = None, **extra: Any
-) -> dict[str, Any]:
-    body: dict[str, Any] = {"type": "about:blank", "title": HTTPStatus(status).phrase, "status": status}
-    if detail:
-        body["detail"] = detail
-    body["errors"] = errors or []
-    body.update(extra)
-    return body
-
-
-def json_bytes(payload: Any) -> bytes:
-    """JSON for plain data and the core's result dataclasses (orjson). The core gives None, never NaN
-    or Infinity, for a figure that does not exist; orjson would write null for them in any case."""
-    return orjson.dumps(payload)
 
 
 def json_response(payload: Any, status: int = 200) -> flask.Response:

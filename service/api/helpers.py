@@ -1,15 +1,10 @@
-"""What the resource modules share: SVG answers, and the records of items that could not be checked."""
+"""What the resource modules share: SVG answers."""
 
 from __future__ import annotations
 
 import hashlib
-from collections.abc import Mapping
-from typing import Any
 
 import flask
-
-from service.api.errors import core_errors, flatten, problem_body
-from service.electrical.circuit_arrays import CircuitFailure
 
 SVG = "image/svg+xml"
 
@@ -22,20 +17,3 @@ def svg_response(body: bytes, cache_seconds: int) -> flask.Response:
     response.headers["Vary"] = "Accept"
     response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'"
     return response
-
-
-def invalid_item(index: int, ident: str | None, messages: Any, base: str, what: str = "circuit") -> dict[str, Any]:
-    """The record of a batch item that did not validate: its place, its id, and every field at fault."""
-    return {
-        "index": index,
-        "id": ident,
-        "problem": problem_body(422, f"This {what} did not validate.", flatten(messages, base)),
-    }
-
-
-def failed_item(
-    index: int, ident: str | None, failure: CircuitFailure, roots: Mapping[str, str], what: str = "circuit"
-) -> dict[str, Any]:
-    """The record of a batch item the rules or the data do not cover, its path as a pointer."""
-    detail = f"The rules or the data do not cover this {what}."
-    return {"index": index, "id": ident, "problem": problem_body(422, detail, core_errors(failure, roots))}

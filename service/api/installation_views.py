@@ -7,7 +7,7 @@ import flask
 from service.api import deadline, metrics
 from service.api.base import Blueprint
 from service.api.errors import CoreInputError, json_response
-from service.api.installation_schemas import (
+from service.contract.installation_schemas import (
     InstallationRequestSchema,
     InstallationResultSchema,
     installation_of,

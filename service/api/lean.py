@@ -9,10 +9,9 @@ from typing import Any
 from marshmallow import Schema, fields, validate
 
 from service.api import deadline, metrics
-from service.api.errors import ProblemSchema
-from service.api.helpers import failed_item, invalid_item
-from service.api.item_lists import ItemProblem
-from service.api.result_schemas import BatchSummarySchema, DeviceSummarySchema, edition_answer
+from service.contract.item_lists import ItemProblem
+from service.contract.problems import ProblemSchema, failed_item, invalid_item
+from service.contract.result_schemas import BatchSummarySchema, DeviceSummarySchema, edition_answer
 from service.electrical.checks import CHECKS, UNITS
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.results import verdicts

@@ -4,15 +4,15 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields, post_load, validate
 
-from service.api import fastload
 from service.api.base import Blueprint
 from service.api.errors import json_response
-from service.api.fields import Flag, Number, choice
-from service.api.helpers import failed_item, invalid_item
-from service.api.item_lists import ItemProblem, PerItemList
-from service.api.requirement_schemas import JobSchema
-from service.api.result_schemas import edition_answer, nullable_number
-from service.api.schemas import CircuitSchema, FastSchema, SupplySchema
+from service.contract import fastload
+from service.contract.circuit_schemas import CircuitSchema, FastSchema, SupplySchema
+from service.contract.fields import Flag, Number, choice
+from service.contract.item_lists import ItemProblem, PerItemList
+from service.contract.problems import failed_item, invalid_item
+from service.contract.requirement_schemas import JobSchema
+from service.contract.result_schemas import edition_answer, nullable_number
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.devices import defaults as device_defaults
 from service.electrical.results.verdicts import VERDICTS

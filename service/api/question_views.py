@@ -11,9 +11,9 @@ from marshmallow import Schema, ValidationError, fields, validate, validates_sch
 
 from service.api.base import Blueprint
 from service.api.errors import CoreInputError
-from service.api.fields import Number, choice
-from service.api.result_schemas import DeviceSummarySchema, nullable_number
-from service.api.schemas import ConductorsSchema, DeviceSchema, SupplySchema
+from service.contract.circuit_schemas import ConductorsSchema, DeviceSchema, SupplySchema
+from service.contract.fields import Number, choice
+from service.contract.result_schemas import DeviceSummarySchema, nullable_number
 from service.electrical.cables import conductors as cond
 from service.electrical.cables import protective
 from service.electrical.devices.characteristic import BOUNDS

@@ -6,10 +6,7 @@ from marshmallow import Schema, ValidationError, fields, post_load, validate, va
 
 from service.api.base import Blueprint
 from service.api.errors import CoreInputError, json_response
-from service.api.fields import Flag, Number, Text, WholeNumber, choice
-from service.api.requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
-from service.api.result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
-from service.api.schemas import (
+from service.contract.circuit_schemas import (
     DEVICE_STANDARDS,
     DEVICE_TYPES,
     CircuitSchema,
@@ -20,6 +17,9 @@ from service.api.schemas import (
     energy_class_field,
     phases_field,
 )
+from service.contract.fields import Flag, Number, Text, WholeNumber, choice
+from service.contract.requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
+from service.contract.result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
 from service.electrical.cables import capacity as cap
 from service.electrical.cables.reach import max_length, size_with_reach
 from service.electrical.cables.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand

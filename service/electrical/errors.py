@@ -4,7 +4,7 @@ The core never raises HTTP errors. Each error carries the *path* of the input at
 names (and list indices) relative to the object the caller passed, e.g. ``("conductors",
 "line_csa_mm2")`` or ``("curve_points", 1)``. A caller that wraps the object in a larger one adds its
 own segments in front with :meth:`ElectricalError.within`, which keeps the subclass. The HTTP face
-turns a path into a JSON pointer in one place (``service.api.errors.pointer_of``).
+turns a path into a JSON pointer in one place (``service.contract.problems.pointer_of``).
 """
 
 from __future__ import annotations

@@ -171,7 +171,7 @@ def test_unknown_path_and_method(client):
 
 
 def test_a_500_returns_only_an_error_id(app, monkeypatch, caplog):
-    from service.api import coalesce
+    from service.serving import coalescer as coalesce
 
     def explode(*args, **kwargs):
         raise RuntimeError("secret internals")

@@ -3,7 +3,7 @@
 import pytest
 
 from tests.api.hostile_cases import body_of, cases, judge
-from tests.api.test_voice import STOCK
+from tests.contract.test_voice import STOCK
 
 CASES = cases()
 

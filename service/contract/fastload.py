@@ -19,7 +19,7 @@ from typing import Any
 from marshmallow import Schema, ValidationError, fields, validate
 from marshmallow.decorators import POST_LOAD, VALIDATES_SCHEMA
 
-from service.api.fields import Flag, Number, Text, WholeNumber, safe_text
+from service.contract.fields import Flag, Number, Text, WholeNumber, safe_text
 
 _MISSING = object()
 

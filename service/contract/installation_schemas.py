@@ -6,19 +6,18 @@ from typing import Any
 
 from marshmallow import Schema, fields, post_load, validate
 
-from service.api import fastload
-from service.api.errors import flatten
-from service.api.fields import Flag, Number, Text, choice
-from service.api.helpers import failed_item, invalid_item
-from service.api.item_lists import ItemProblem, PerItemList
-from service.api.result_schemas import (
+from service.contract import fastload
+from service.contract.circuit_schemas import CircuitSchema, DeviceSchema, ScopedSchema, SupplySchema
+from service.contract.fields import Flag, Number, Text, choice
+from service.contract.item_lists import ItemProblem, PerItemList
+from service.contract.problems import failed_item, flatten, invalid_item
+from service.contract.result_schemas import (
     BatchItemSchema,
     BatchSummarySchema,
     CheckResultSchema,
     edition_answer,
     nullable_number,
 )
-from service.api.schemas import CircuitSchema, DeviceSchema, ScopedSchema, SupplySchema
 from service.electrical.checks.installation_rules import BOARD_CHECKS, INSTALLATION_CHECKS
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.inputs import Board, Installation, SurgeProtection, Unread, built

@@ -1,10 +1,10 @@
 """`python -m service check FILE`: check a whole schedule, or a whole installation, from a JSON or CSV file.
 
 JSON: the body of POST /v1/circuits/check-batch (``{"supply": {...}, "circuits": [...]}``), or of POST
-/v1/installations/check (``{"supply": {...}, "boards": [...]}``, :mod:`service.cli_installation`).
-CSV: one row a circuit, each with its own supply, in the columns of :data:`service.cli_read.CSV_COLUMNS`.
+/v1/installations/check (``{"supply": {...}, "boards": [...]}``, :mod:`service.cli.installation`).
+CSV: one row a circuit, each with its own supply, in the columns of :data:`service.cli.read.CSV_COLUMNS`.
 NDJSON: a first line ``{"supply": {...}}``, then one circuit per line. Every form is read a row at a time
-(:mod:`service.cli_read`) and checked a chunk at a time, so memory stays flat for a file of any length.
+(:mod:`service.cli.read`) and checked a chunk at a time, so memory stays flat for a file of any length.
 Input goes through the same schemas as the HTTP API, so a bad row gets the same messages.
 
 Exit status: 0 only when every circuit passes; 1 when any fails; 3 when some rows could not be checked
@@ -24,11 +24,10 @@ from collections.abc import Iterable
 from pathlib import Path
 from typing import Any, TextIO
 
-from service import runtime
-from service.api.errors import json_bytes
-from service.api.strictjson import strict_loads
-from service.cli_read import Row, ScheduleError, iter_csv, iter_json, iter_ndjson, top_level_kind
-from service.cli_status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
+from service.cli.read import Row, ScheduleError, iter_csv, iter_json, iter_ndjson, top_level_kind
+from service.cli.status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
+from service.contract.problems import json_bytes
+from service.contract.strictjson import strict_loads
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.pipeline import check_circuits
 from service.electrical.results.circuit_result import GENERAL_CAUTIONS
@@ -140,7 +139,6 @@ def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> Non
 
 
 def main(args: argparse.Namespace) -> int:
-    runtime.apply()  # set once, as a worker sets it (service/runtime.py)
     path = Path(args.file)
     kind = args.input_format or {".csv": "csv", ".ndjson": "ndjson"}.get(path.suffix.lower(), "json")
     try:
@@ -203,7 +201,7 @@ def _checked(rows: Iterable[Row], args: argparse.Namespace, total: int | None) -
 def _installation(body: dict, path: Path, args: argparse.Namespace) -> int:
     if args.format == "csv" or (args.output or "").lower().endswith(".csv"):
         raise ScheduleError("an installation's answer is JSON (and --report writes the HTML report)")
-    from service import cli_installation  # the installation's schemas and report: imported only for one
+    from service.cli import installation as cli_installation  # the installation's schemas and report: imported only for one
 
     return cli_installation.run(body, path, args, lambda total: Progress(total, sys.stderr))
 

@@ -5,7 +5,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, fields, validate
 
-from service.api.errors import ProblemSchema
+from service.contract.problems import ProblemSchema
 from service.electrical.cables import protective
 from service.electrical.checks import CHECKS
 from service.electrical.devices.characteristic import BOUNDS

@@ -5,9 +5,9 @@ import threading
 
 import pytest
 
-from service.api.coalesce import Coalescer
-from service.api.schemas import CheckRequestSchema
+from service.contract.circuit_schemas import CheckRequestSchema
 from service.electrical.pipeline import check_circuit
+from service.serving.coalescer import Coalescer
 from tests.paths import EXAMPLES
 
 BODY = CheckRequestSchema().load(json.loads((EXAMPLES / "circuits-check.json").read_text()))
@@ -51,7 +51,7 @@ def test_a_check_alone_is_not_kept_waiting_and_errors_reach_the_caller(monkeypat
     coalescer.check(BODY["supply"], BODY["circuit"], ["max-zs"])
     assert time.perf_counter() - started < 2.0
 
-    from service.api import coalesce
+    from service.serving import coalescer as coalesce
 
     def explode(*args, **kwargs):
         raise RuntimeError("boom")
@@ -75,6 +75,6 @@ def test_each_run_is_counted_with_its_circuits_and_the_cores_cpu_time():
         )
 
     runs, circuits, cpu = counted()
-    Coalescer(window_s=0.0).check(BODY["supply"], BODY["circuit"], None)
+    Coalescer(window_s=0.0, counted=metrics.count_single_run).check(BODY["supply"], BODY["circuit"], None)
     after = counted()
     assert after[0] == runs + 1 and after[1] == circuits + 1 and after[2] > cpu

@@ -6,7 +6,7 @@ import dataclasses
 
 from marshmallow import Schema, ValidationError, fields, post_load, validate
 
-from service.api.fields import Flag, Number, WholeNumber, choice
+from service.contract.fields import Flag, Number, WholeNumber, choice
 from service.electrical.devices import defaults as device_defaults
 from service.electrical.devices.catalogue import standards, types
 from service.electrical.errors import ElectricalError

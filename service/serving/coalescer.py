@@ -11,11 +11,10 @@ from __future__ import annotations
 
 import threading
 import time
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
-from service.api.metrics import count_single_run
 from service.electrical.inputs import Circuit, Supply
 from service.electrical.pipeline import check_circuits
 
@@ -35,8 +34,9 @@ class _Waiting:
 class Coalescer:
     """Single checks of one worker, gathered for ``window_s`` while others are in flight."""
 
-    def __init__(self, window_s: float):
+    def __init__(self, window_s: float, counted: Callable[[int, float], None] | None = None):
         self.window_s = window_s
+        self.counted = counted  # told each run's size and CPU seconds (the app's metrics)
         self.lock = threading.Lock()
         self.pending: list[_Waiting] = []
         self.in_flight = 0
@@ -61,7 +61,7 @@ class Coalescer:
                     taken, self.pending, self.gathering = self.pending, [], False
                 for start in range(0, len(taken), MAX_BATCH):
                     batch = taken[start : start + MAX_BATCH]
-                    _run(batch)
+                    _run(batch, self.counted)
                     self.batches += len(batch) > 1
             item.done.wait()
         finally:
@@ -72,7 +72,7 @@ class Coalescer:
         return item.result
 
 
-def _run(batch: list[_Waiting]) -> None:
+def _run(batch: list[_Waiting], counted: Callable[[int, float], None] | None) -> None:
     """One core run per scope among the batch; every waiting request is told its own answer."""
     by_scope: dict[tuple[str, ...] | None, list[_Waiting]] = {}
     for item in batch:
@@ -86,7 +86,8 @@ def _run(batch: list[_Waiting]) -> None:
                 i.error = err
                 i.done.set()
             continue
-        count_single_run(len(items), time.thread_time() - started)
+        if counted is not None:
+            counted(len(items), time.thread_time() - started)
         for i, result in zip(items, results, strict=True):
             i.result = result
             i.done.set()

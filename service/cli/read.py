@@ -16,12 +16,12 @@ from typing import Any, BinaryIO, TextIO
 import ijson
 from marshmallow import ValidationError
 
-from service.api.errors import core_errors, flatten, pointer_of
-from service.api.fastload import Refused, fast_load
-from service.api.item_lists import echoed
-from service.api.requirement_schemas import JobSchema, with_edition
-from service.api.schemas import CircuitSchema, SupplySchema
-from service.api.strictjson import strict_loads
+from service.contract.circuit_schemas import CircuitSchema, SupplySchema
+from service.contract.fastload import Refused, fast_load
+from service.contract.item_lists import echoed
+from service.contract.problems import core_errors, flatten, pointer_of
+from service.contract.requirement_schemas import JobSchema, with_edition
+from service.contract.strictjson import strict_loads
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.devices import defaults as device_defaults
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from marshmallow import Schema, post_load
 
-from service.api.fields import Flag, Number, WholeNumber, choice
+from service.contract.fields import Flag, Number, WholeNumber, choice
 from service.electrical.cables import capacity
 from service.electrical.inputs import CableRun, built
 from service.electrical.rules import requirements

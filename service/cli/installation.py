@@ -1,7 +1,7 @@
 """`python -m service check installation.json [--report FILE.html]`: a whole installation from a file.
 
 The file is the body of POST /v1/installations/check; the answer is the same JSON, and ``--report`` writes the
-printable HTML report as well. Exit status as for a schedule (:func:`service.cli_status.exit_status`), and 1 where a
+printable HTML report as well. Exit status as for a schedule (:func:`service.cli.status.exit_status`), and 1 where a
 board's own rating fails; a file whose tree or supply is refused exits 2 with the fields named.
 """
 
@@ -13,9 +13,9 @@ from typing import Any
 
 from marshmallow import ValidationError
 
-from service.api.errors import core_errors, flatten, json_bytes
-from service.api.installation_schemas import InstallationRequestSchema, installation_of, problem_messages, records
-from service.cli_status import EXIT_FAIL, EXIT_UNREADABLE, exit_status
+from service.cli.status import EXIT_FAIL, EXIT_UNREADABLE, exit_status
+from service.contract.installation_schemas import InstallationRequestSchema, installation_of, problem_messages, records
+from service.contract.problems import core_errors, flatten, json_bytes
 from service.electrical.errors import ElectricalError
 from service.electrical.network.installation import check_installation
 from service.electrical.results.verdicts import Verdict

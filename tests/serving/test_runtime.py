@@ -10,7 +10,7 @@ import sys
 
 def test_the_policy_freezes_start_up_and_keeps_the_collector_running():
     code = (
-        "import gc, json, service.app, service.runtime as r; service.app.create_app(); r.apply(); "
+        "import gc, json, service.app, service.serving.runtime as r; service.app.create_app(); r.apply(); "
         "print(json.dumps({**r.describe(), 'enabled': gc.isenabled()}))"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True, timeout=120)

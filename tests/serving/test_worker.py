@@ -87,7 +87,7 @@ def test_a_worker_holding_as_many_connections_as_threads_leaves_new_ones_to_its_
     from gunicorn.config import Config
     from gunicorn.workers.gthread import ThreadWorker
 
-    from service import serving
+    from service.serving import worker as serving
 
     clock = [100.0]
     monkeypatch.setattr(serving.time, "monotonic", lambda: clock[0])

@@ -5,8 +5,8 @@ from __future__ import annotations
 
 from marshmallow import ValidationError, fields
 
-from service.api.fastload import Refused, fast_load
-from service.api.fields import safe_text
+from service.contract.fastload import Refused, fast_load
+from service.contract.fields import safe_text
 
 ECHO_CHARS = 200  # an invalid item's id is echoed cut to this many characters (the longest valid id)
 

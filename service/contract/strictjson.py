@@ -12,9 +12,6 @@ import math
 import re
 from typing import Any
 
-from webargs import core
-from webargs.flaskparser import FlaskParser, abort
-
 MAX_INTEGER_DIGITS = 18
 
 
@@ -114,21 +111,3 @@ def strict_loads(data: bytes | str) -> Any:
         if found is not None:
             raise LoneSurrogate(found)
     return value
-
-
-class StrictParser(FlaskParser):
-    """webargs' Flask parser reading bodies with :func:`strict_loads`."""
-
-    def _raw_load_json(self, req):
-        if not req.get_data(cache=True):
-            return core.missing
-        return strict_loads(req.get_data(cache=True))
-
-    def _handle_invalid_json_error(self, error, req, *args, **kwargs):
-        message = getattr(error, "msg", str(error))
-        if isinstance(error, LoneSurrogate):  # name the field
-            nested: Any = [message]
-            for key in reversed(error.path):
-                nested = {str(key): nested}
-            abort(400, messages={"json": nested})
-        abort(400, messages={"json": {"": [f"the body is not strict JSON: {message}"]}})
