@@ -201,7 +201,8 @@ def _checked(rows: Iterable[Row], args: argparse.Namespace, total: int | None) -
 def _installation(body: dict, path: Path, args: argparse.Namespace) -> int:
     if args.format == "csv" or (args.output or "").lower().endswith(".csv"):
         raise ScheduleError("an installation's answer is JSON (and --report writes the HTML report)")
-    from service.cli import installation as cli_installation  # the installation's schemas and report: imported only for one
+    # the installation's schemas and report: imported only for one
+    from service.cli import installation as cli_installation
 
     return cli_installation.run(body, path, args, lambda total: Progress(total, sys.stderr))
 
