@@ -32,13 +32,13 @@ STAGES = ("read", "load", "columns", "checks", "table", "write")
 def _batch_once(raw: bytes, answer: dict) -> dict[str, float]:
     """One lean batch request's stages, run as the view runs them (seconds each); ``answer`` is the request's
     lean answer, for the writing stage."""
-    from service.api.lean import CHUNK
+    from service.contract.batch import CHUNK
     from service.contract.circuit_schemas import BatchRequestSchema
+    from service.contract.lean_table import Interned, columns_of_checked
     from service.contract.problems import json_bytes
     from service.contract.strictjson import strict_loads
     from service.electrical.circuit_arrays import columns_of, prepare
     from service.electrical.pipeline import check_columns
-    from service.electrical.results.lean_table import Interned, columns_of_checked
 
     t: dict[str, float] = dict.fromkeys(STAGES, 0.0)
     start = time.perf_counter()
@@ -90,9 +90,9 @@ def _wsgi_call(app, path: str, raw: bytes) -> bytes:
 
 def batch_budget(row: Row, runs: int = 7) -> None:
     """The stages of a 10 000-circuit lean batch in process, each against the stdlib round trip of its request."""
-    from service.api.lean import lean_answer
     from service.app import create_app
     from service.contract.circuit_schemas import BatchRequestSchema
+    from service.contract.lean import lean_answer
     from service.settings import Settings
 
     app = create_app({"SETTINGS": Settings()})

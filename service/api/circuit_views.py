@@ -8,16 +8,12 @@ from service.api import deadline, metrics
 from service.api.base import Blueprint
 from service.api.errors import CoreInputError, json_response
 from service.api.helpers import svg_response
-from service.api.lean import FormSchema, LeanBatchSchema, lean_answer
+from service.contract import batch
 from service.contract.circuit_schemas import BatchRequestSchema, CheckRequestSchema
-from service.contract.item_lists import ItemProblem
-from service.contract.problems import failed_item, invalid_item, json_bytes
+from service.contract.lean import FormSchema, LeanBatchSchema, lean_answer
 from service.contract.result_schemas import CheckAnswerSchema
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.devices.catalogue import resolve
-from service.electrical.pipeline import check_circuits
-from service.electrical.results.verdicts import COUNTED
-from service.electrical.results.verdicts import summary as verdicts_summary
 from service.picture import characteristic_svg
 
 blp = Blueprint(
@@ -29,7 +25,6 @@ blp = Blueprint(
 
 SINGLE = {"supply": "/supply", "circuit": "/circuit"}
 NDJSON = "application/x-ndjson"
-CHUNK = 2000
 
 
 def _checked_one(body):
@@ -100,71 +95,16 @@ def check_batch(query, body):
     limit = flask.current_app.config["FAULTPATH_BATCH_LIMIT"]
     if len(items) > limit:
         flask.abort(413, description=f"a batch holds at most {limit} circuits")
+    scope, tail = body.get("checks"), {"edition": body["edition"]}
+    counts = batch.Counts(metrics.count_verdicts)
     if flask.request.accept_mimetypes.best_match(["application/json", NDJSON]) == NDJSON:
-        return flask.Response(flask.stream_with_context(_ndjson(body, items)), mimetype=NDJSON)
+        lines = batch.ndjson(batch.request_records(body["supply"], items, scope), counts, tail)
+        return flask.Response(flask.stream_with_context(lines), mimetype=NDJSON)
     if query["form"] == "lean":
-        return json_response(lean_answer(body["supply"], items, body.get("checks"), body["edition"]))
-    return _full_answer(body, items)
-
-
-def _full_answer(body, items) -> flask.Response:
-    """The full form, written a chunk at a time: each chunk's results become JSON and are let go before the
-    next chunk is checked, so a worker never holds every result object of a large batch and its text at once.
-    The answer is the same JSON as ``{"results": [...], "summary": {...}}`` written whole."""
-    counts = Counts()
-    parts = [b'{"results":[']
-    for start in range(0, len(items), CHUNK):
-        deadline.check()
-        chunk = json_bytes(_checked(body, items[start : start + CHUNK], start, counts))
-        parts.append((b"," if start else b"") + chunk[1:-1])  # the chunk's items, without the list's brackets
-    parts.append(b'],"summary":' + json_bytes(counts.summary(len(items))))
-    parts.append(b',"edition":' + json_bytes(body["edition"]) + b"}")
+        answer = lean_answer(body["supply"], items, scope, body["edition"], deadline.check, metrics.count_verdicts)
+        return json_response(answer)
+    # the full form, written a chunk at a time (a worker never holds every result of a large batch at once)
+    parts = list(batch.full_json(batch.request_records(body["supply"], items, scope, deadline.check), counts, tail))
     response = flask.current_app.response_class(parts, mimetype="application/json")
     response.headers["Content-Length"] = str(sum(map(len, parts)))
     return response
-
-
-class Counts:
-    """Verdicts counted as the items come."""
-
-    def __init__(self):
-        self.verdicts = dict.fromkeys(COUNTED, 0)
-
-    def add(self, verdicts):
-        for v in verdicts:
-            self.verdicts[v] += 1
-        metrics.count_verdicts(verdicts)
-
-    def summary(self, n):
-        return verdicts_summary(self.verdicts, n)
-
-
-def _checked(body, items, offset, counts):
-    """One record per item of a chunk, in order: a result, or a problem naming the fields."""
-    valid = [item for item in items if not isinstance(item, ItemProblem)]
-    outcomes = iter(check_circuits(body["supply"], valid, body.get("checks")) if valid else [])
-    out = []
-    verdicts = []
-    for local, item in enumerate(items):
-        index = offset + local
-        if isinstance(item, ItemProblem):
-            out.append(invalid_item(index, item.id, item.messages, f"/circuits/{index}"))
-            continue
-        outcome = next(outcomes)
-        if isinstance(outcome, CircuitFailure):
-            out.append(failed_item(index, item.id, outcome, {"supply": "/supply", "circuit": f"/circuits/{index}"}))
-        else:
-            out.append({"index": index, "id": outcome.id, "result": outcome})
-            verdicts.append(outcome.verdict)
-    counts.add(verdicts)
-    return out
-
-
-def _ndjson(body, items):
-    """One JSON line per item, in order, computed a chunk at a time; the last line is the summary."""
-    counts = Counts()
-    for start in range(0, len(items), CHUNK):
-        yield b"".join(
-            json_bytes(record) + b"\n" for record in _checked(body, items[start : start + CHUNK], start, counts)
-        )
-    yield json_bytes({"summary": counts.summary(len(items)), "edition": body["edition"]}) + b"\n"

@@ -7,6 +7,7 @@ from marshmallow import Schema, fields
 
 from service.api.base import Blueprint
 from service.api.helpers import SVG, svg_response
+from service.contract.result_schemas import DeviceSummarySchema
 from service.electrical.devices.catalogue import catalogue, device_by_id
 from service.electrical.errors import ElectricalError
 from service.picture import characteristic_svg
@@ -58,7 +59,7 @@ class RegionSchema(Schema):
 
 
 class CharacteristicSchema(Schema):
-    device = fields.Nested("DeviceSummarySchema", required=True)
+    device = fields.Nested(DeviceSummarySchema, required=True)
     rating_a = fields.Float(required=True)
     points = fields.List(
         fields.Nested(PointSchema),

@@ -7,6 +7,7 @@ import flask
 from service.api import deadline, metrics
 from service.api.base import Blueprint
 from service.api.errors import CoreInputError, json_response
+from service.contract import batch
 from service.contract.installation_schemas import (
     InstallationRequestSchema,
     InstallationResultSchema,
@@ -35,7 +36,7 @@ def checked(body: dict) -> tuple[Installation, InstallationResult, dict]:
     if count > limit:
         flask.abort(413, description=f"an installation holds at most {limit} circuits")
     try:
-        result = check_installation(inst, body.get("checks"), progress=deadline.check)
+        result = check_installation(inst, body.get("checks"), progress=deadline.check, chunk=batch.CHUNK)
     except ElectricalError as err:
         raise CoreInputError.of(err) from None
     return inst, result, problems

@@ -19,7 +19,13 @@ from service.contract.circuit_schemas import (
 )
 from service.contract.fields import Flag, Number, Text, WholeNumber, choice
 from service.contract.requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
-from service.contract.result_schemas import CheckResultSchema, CircuitResultSchema, edition_answer, nullable_number
+from service.contract.result_schemas import (
+    CheckResultSchema,
+    CircuitResultSchema,
+    FactorSchema,
+    edition_answer,
+    nullable_number,
+)
 from service.electrical.cables import capacity as cap
 from service.electrical.cables.reach import max_length, size_with_reach
 from service.electrical.cables.sizing import CPC_CHOICES, RULED_OUT_ORDER, Demand
@@ -96,7 +102,7 @@ class SizeRequestSchema(CircuitFactsSchema, JobSchema):
 class CapacitySchema(Schema):
     it_a = fields.Float(required=True, metadata={"description": "tabulated capacity"})
     iz_a = fields.Float(required=True, metadata={"description": "It x Ca x Cg x Ci x Cc"})
-    factors = fields.Dict(keys=fields.String(), values=fields.Nested("FactorSchema"), required=True)
+    factors = fields.Dict(keys=fields.String(), values=fields.Nested(FactorSchema), required=True)
     confidence = fields.String(required=True)
 
 

@@ -14,6 +14,7 @@ from typing import Any
 from marshmallow import ValidationError
 
 from service.cli.status import EXIT_FAIL, EXIT_UNREADABLE, exit_status
+from service.contract import batch
 from service.contract.installation_schemas import InstallationRequestSchema, installation_of, problem_messages, records
 from service.contract.problems import core_errors, flatten, json_bytes
 from service.electrical.errors import ElectricalError
@@ -43,7 +44,7 @@ def run(body: dict, path: Path, args, progress) -> int:
     count = sum(len(board.circuits) for board in inst.boards)
     bar = progress(count)
     try:
-        result = check_installation(inst, loaded.get("checks"), progress=bar.update)
+        result = check_installation(inst, loaded.get("checks"), progress=bar.update, chunk=batch.CHUNK)
     except ElectricalError as err:
         return _refused(path, core_errors(err))
     answer = json_bytes(records(inst, result, problems)) + b"\n"

@@ -17,7 +17,6 @@ from __future__ import annotations
 import argparse
 import csv
 import io
-import itertools
 import json
 import sys
 from collections.abc import Iterable
@@ -25,28 +24,23 @@ from pathlib import Path
 from typing import Any, TextIO
 
 from service.cli.read import Row, ScheduleError, iter_csv, iter_json, iter_ndjson, top_level_kind
-from service.cli.status import CHUNK, EXIT_UNREADABLE, Progress, exit_status
-from service.contract.problems import json_bytes
+from service.cli.status import EXIT_UNREADABLE, Progress, exit_status
+from service.contract import batch
 from service.contract.strictjson import strict_loads
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.pipeline import check_circuits
-from service.electrical.results.circuit_result import GENERAL_CAUTIONS
-from service.electrical.results.verdicts import COUNTED, Verdict
+from service.electrical.results.circuit_result import GENERAL_CAUTIONS, CircuitResult
+from service.electrical.results.shapes import csv_figures
+from service.electrical.results.verdicts import Verdict
 
+# the figures of a result the CSV answer carries, as its shape declares them (csv=...), between the row's place
+# and what the CLI says of the checks
+FIGURE_COLUMNS = csv_figures(CircuitResult)
 RESULT_COLUMNS = (
     "index",
     "id",
     "verdict",
-    "r1_plus_r2_ohm",
-    "zs_ohm",
-    "max_zs_ohm",
-    "zs_margin_percent",
-    "earth_fault_current_a",
-    "disconnection_time_s",
-    "disconnection_time_bound",
-    "max_disconnection_time_s",
-    "min_cpc_csa_mm2",
-    "cpc_csa_mm2",
+    *(column for column, _ in FIGURE_COLUMNS),
     "failed_checks",
     "not_verified_checks",
     "cautions",
@@ -55,37 +49,30 @@ RESULT_COLUMNS = (
 
 
 def run_chunks(rows: Iterable[Row], progress: Progress):
-    """The records of the rows, in order, a chunk at a time: rows are read as the chunks need them, so a file
-    of any length is checked in flat memory."""
+    """The records of the rows, in order, a chunk at a time (:func:`service.contract.batch.chunks`): rows are read
+    as the chunks need them, so a file of any length is checked in flat memory."""
     done = 0
-    rows = iter(rows)
-    while True:
-        chunk = list(itertools.islice(rows, CHUNK))
-        if not chunk:
-            return
-        records = _chunk(chunk)
+    for offset, chunk in batch.chunks(rows):
+        records = batch.records(chunk, offset, _run, _unreadable, _failed)
         done += len(records)
         progress.update(done)
         yield records
 
 
-def _chunk(chunk: list[Row]) -> list[dict[str, Any]]:
-    """One record per row of a chunk, in order: a result, or the problem that stopped it."""
-    ready = [row for row in chunk if row.problem is None]
-    outcomes = iter(check_circuits([r.supply for r in ready], [r.circuit for r in ready]) if ready else [])
-    records = []
-    for row in chunk:
-        if row.problem is not None:
-            records.append({"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.problem}})
-            continue
-        outcome = next(outcomes)
-        if isinstance(outcome, CircuitFailure):
-            records.append(
-                {"index": row.index, "id": row.id, "problem": {"status": 422, "errors": row.errors_of(outcome)}}
-            )
-        else:
-            records.append({"index": row.index, "id": row.id, "result": outcome})
-    return records
+def _run(rows: list[Row]) -> list[Any]:
+    return check_circuits([r.supply for r in rows], [r.circuit for r in rows])
+
+
+def _unreadable(index: int, row: Row) -> dict[str, Any] | None:
+    return (
+        None
+        if row.problem is None
+        else {"index": index, "id": row.id, "problem": {"status": 422, "errors": row.problem}}
+    )
+
+
+def _failed(index: int, row: Row, failure: CircuitFailure) -> dict[str, Any]:
+    return {"index": index, "id": row.id, "problem": {"status": 422, "errors": row.errors_of(failure)}}
 
 
 def _own_cautions(result) -> list[str]:
@@ -95,20 +82,17 @@ def _own_cautions(result) -> list[str]:
     return said + [text for text in result.cautions if text not in GENERAL_CAUTIONS]
 
 
-class Tally:
-    def __init__(self):
-        self.counts = {"circuits": 0, **{str(v): 0 for v in COUNTED}, "invalid": 0}
-
-    def add(self, records) -> None:
-        for r in records:
-            self.counts["circuits"] += 1
-            self.counts[r["result"].verdict if "result" in r else "invalid"] += 1
-
-
 def csv_writer(stream: TextIO) -> csv.DictWriter:
     writer = csv.DictWriter(stream, fieldnames=RESULT_COLUMNS, lineterminator="\n")
     writer.writeheader()
     return writer
+
+
+def _figure(result: CircuitResult, path: tuple[str, ...]) -> Any:
+    value: Any = getattr(result, path[0])
+    for key in path[1:]:
+        value = None if value is None else value[key]
+    return value
 
 
 def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> None:
@@ -119,18 +103,9 @@ def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> Non
             row["problem"] = "; ".join(f"{e['pointer']}: {e['message']}" for e in record["problem"]["errors"])
         else:
             r = record["result"]
+            row["verdict"] = r.verdict
+            row.update((column, _figure(r, path)) for column, path in FIGURE_COLUMNS)
             row.update(
-                verdict=r.verdict,
-                r1_plus_r2_ohm=r.r1_plus_r2_ohm,
-                zs_ohm=r.zs_ohm,
-                max_zs_ohm=r.max_zs_ohm,
-                zs_margin_percent=r.zs_margin_percent,
-                earth_fault_current_a=r.earth_fault_current_a,
-                disconnection_time_s=r.disconnection_time_s,
-                disconnection_time_bound=r.disconnection_time_bound,
-                max_disconnection_time_s=r.max_disconnection_time_s,
-                min_cpc_csa_mm2=r.protective_conductor["min_csa_mm2"],
-                cpc_csa_mm2=r.protective_conductor["csa_mm2"],
                 failed_checks=" ".join(c.check for c in r.checks if c.verdict == Verdict.FAIL),
                 not_verified_checks=" ".join(c.check for c in r.checks if c.verdict == Verdict.NOT_VERIFIED),
                 cautions=" | ".join(_own_cautions(r)),
@@ -166,7 +141,7 @@ def _count(path: Path, kind: str) -> int | None:
 def _checked(rows: Iterable[Row], args: argparse.Namespace, total: int | None) -> int:
     """Check the rows a chunk at a time, write the records as they come, and return the exit status."""
     out_format = args.format or ("csv" if args.output and args.output.lower().endswith(".csv") else "json")
-    tally = Tally()
+    counts = batch.Counts()
     sink = open(args.output, "wb") if args.output else sys.stdout.buffer
     try:
         progress = Progress(total, sys.stderr)
@@ -175,27 +150,21 @@ def _checked(rows: Iterable[Row], args: argparse.Namespace, total: int | None) -
             text = io.TextIOWrapper(sink, encoding="utf-8", newline="", write_through=True)
             writer = csv_writer(text)
             for records in chunks:
-                tally.add(records)
+                counts.add(records)
                 write_csv_rows(writer, records)
             text.detach()
         else:
-            sink.write(b'{"results":[')
-            first = True
-            for records in chunks:
-                tally.add(records)
-                if records:
-                    sink.write((b"" if first else b",") + b",".join(json_bytes(r) for r in records))
-                    first = False
-            sink.write(b'],"summary":' + json_bytes(tally.counts) + b"}\n")
+            for part in batch.full_json(chunks, counts, {}, end=b"\n"):
+                sink.write(part)
         progress.close()
     finally:
         if args.output:
             sink.close()
         else:
             sink.flush()
-    counts = tally.counts
-    print(" ".join(f"{k}={v}" for k, v in counts.items()), file=sys.stderr)
-    return exit_status(counts)
+    summary = counts.summary()
+    print(" ".join(f"{k}={v}" for k, v in summary.items()), file=sys.stderr)
+    return exit_status(summary)
 
 
 def _installation(body: dict, path: Path, args: argparse.Namespace) -> int:

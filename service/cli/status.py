@@ -7,7 +7,7 @@ from typing import TextIO
 
 from service.electrical.results.verdicts import Verdict
 
-CHUNK = 2000  # the bar shows from this many circuits
+SHOWN_FROM = 2000  # the bar shows from this many circuits
 
 EXIT_PASS, EXIT_FAIL, EXIT_UNREADABLE, EXIT_INVALID, EXIT_NOT_VERIFIED = 0, 1, 2, 3, 4
 
@@ -29,7 +29,7 @@ class Progress:
     def __init__(self, total: int | None, stream: TextIO):
         """``total`` None: not known beforehand (a JSON file read incrementally): the count and rate only."""
         self.total, self.stream = total, stream
-        self.shown = stream.isatty() and (total is None or total >= CHUNK)
+        self.shown = stream.isatty() and (total is None or total >= SHOWN_FROM)
         self.started = time.monotonic()
 
     def update(self, done: int) -> None:

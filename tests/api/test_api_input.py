@@ -147,12 +147,12 @@ def test_batch_keeps_every_item(client):
 
 
 def test_the_full_form_written_a_chunk_at_a_time_is_one_document_in_order(client, monkeypatch):
-    """Past a chunk's end (service/api/circuit_views.py CHUNK, made small here) the answer is still one JSON
+    """Past a chunk's end (service/contract/batch.py CHUNK, made small here) the answer is still one JSON
     document with every item in order, its length said, and a bad item on either side of a boundary in its
     place."""
-    from service.api import circuit_views
+    from service.contract import batch
 
-    monkeypatch.setattr(circuit_views, "CHUNK", 3)
+    monkeypatch.setattr(batch, "CHUNK", 3)
     circuits = [EXAMPLE["circuit"]] * 8
     circuits[2] = circuits[3] = {"id": "no-such-circuit"}
     r = client.post("/v1/circuits/check-batch?form=full", json={"supply": EXAMPLE["supply"], "circuits": circuits})

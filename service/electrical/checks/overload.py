@@ -8,6 +8,9 @@ whenever In <= Iz (their I2 is at most 1.45 In) and through Cc for BS 3036.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+from typing import Any
+
 import numpy as np
 
 from service.electrical.cables import capacity
@@ -19,6 +22,7 @@ from service.electrical.devices.response import DeviceResponse
 from service.electrical.errors import ElectricalError
 from service.electrical.network.faults import FaultLoop
 from service.electrical.results import verdicts
+from service.electrical.results.shapes import figure
 
 BASES = {
     "general": "BS 7671:2018 433.1.1, Ib <= In <= Iz",
@@ -128,6 +132,29 @@ def _from_memory(factors: np.ndarray, confidence: np.ndarray) -> np.ndarray:
         ],
         dtype=bool,
     )
+
+
+@dataclass
+class Factor:
+    """One correction factor and where it comes from."""
+
+    factor: float = figure(nullable=False)
+    basis: str = figure(nullable=False)
+
+
+@dataclass
+class OverloadResult:
+    """Overload (433.1): Ib <= In <= Iz."""
+
+    design_current_a: float | None = figure("Ib")
+    rating_a: float | None = figure("In")
+    it_a: float | None = figure("tabulated capacity")
+    iz_a: float | None = figure("It x Ca x Cg x Ci x Cc, times the cables in parallel")
+    factors: dict[str, Any] | None = figure("the correction factors applied, by name", values=Factor)
+    capacity_confidence: str | None = figure("how sure the tabulated capacity is")
+    capacity_basis: str | None = figure("where It comes from")
+    verdict: str = figure(nullable=False, choices=verdicts.VERDICTS)
+    basis: str = figure("the clause the verdict rests on", nullable=False)
 
 
 @check_step("overload", unit="A")

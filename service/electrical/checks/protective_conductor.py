@@ -6,6 +6,8 @@ energy is the device's let-through I^2 t where given, else I^2 x 0.1 s on the sa
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from service.electrical.cables import protective
@@ -15,6 +17,7 @@ from service.electrical.column_tools import nan_to, one_of, select
 from service.electrical.devices.response import DeviceResponse
 from service.electrical.network.faults import FaultLoop
 from service.electrical.results import verdicts
+from service.electrical.results.shapes import figure
 
 BASES = {
     "adiabatic": "BS 7671:2018 543.1.3, S >= sqrt(I^2 t) / k",
@@ -43,6 +46,24 @@ CAUTION_ENERGY = (
     "Below 0.1 s the cpc check uses I^2 x 0.1 s, a conservative stand-in for the device's let-through energy "
     "(give let_through_curve or let_through_a2s to use the maker's data)."
 )
+
+
+@dataclass
+class ProtectiveConductorResult:
+    """The protective conductor's figures (543.1): the size it needs against the size it has."""
+
+    k: float | None = figure("the k used: tabulated where the case is a table row, else the formula")
+    k_formula: float | None = figure("IEC 60364-5-54 Annex A")
+    k_basis: str | None = figure("where k comes from")
+    min_csa_mm2: float | None = figure("sqrt(I^2 t) / k, the smallest cpc the fault allows", csv=(9, "min_cpc_csa_mm2"))
+    csa_mm2: float | None = figure("the cpc in the circuit", csv=(10, "cpc_csa_mm2"))
+    next_standard_csa_mm2: float | None = figure("the smallest standard size at or above min_csa_mm2")
+    selection_csa_mm2: float | None = figure("BS 7671 Table 54.7")
+    energy_a2s: float | None = figure("the larger of the energies at the smallest and the largest earth fault")
+    energy_basis: str | None = figure("how the energy was found", choices=protective.ENERGY_METHODS)
+    energy_data: str | None = figure("which standard limit, if any")
+    verdict: str = figure(nullable=False, choices=verdicts.VERDICTS)
+    basis: str = figure("the clause the verdict rests on", nullable=False)
 
 
 @check_step("protective-conductor", unit="mm2")

@@ -11,6 +11,8 @@ or three-phase, the largest). The rules are in :mod:`service.electrical.devices.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from service.electrical.checks.base import CheckColumns, Earlier, check_step
@@ -18,9 +20,10 @@ from service.electrical.circuit_arrays import CircuitColumns
 from service.electrical.column_tools import select
 from service.electrical.devices import selectivity
 from service.electrical.devices.response import DeviceResponse
-from service.electrical.devices.selectivity import Selective
+from service.electrical.devices.selectivity import SELECTIVE, Selective
 from service.electrical.network.faults import FaultLoop
 from service.electrical.results import verdicts
+from service.electrical.results.shapes import figure
 
 NO_UPSTREAM = "the device feeding the board is not known: give it (an installation's board device, or its feed)"
 BASIS = "BS 7671:2018 536.4: a fault on this circuit clears without operating the device that feeds its board"
@@ -53,6 +56,23 @@ def _flags(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
         [c.selectivity_required or wanted[id(s)] for s, c in zip(cols.supplies, cols.circuits, strict=True)], dtype=bool
     )
     return has_upstream, required
+
+
+@dataclass
+class SelectivityResult:
+    """The circuit's device against the device feeding its board (536.4)."""
+
+    with_: str | None = figure("the upstream device's id", key="with")
+    up_to_a: float | None = figure("only the downstream device operates up to this current; null: at any or none")
+    max_fault_current_a: float | None = figure("the largest fault at the downstream device (the board's PFC)")
+    basis: str | None = figure("how the pair's limit is known")
+    residual: str | None = figure("where both devices have an RCD", choices=SELECTIVE)
+    residual_basis: str | None = figure("how the RCDs' selectivity is known")
+    verdict: str = figure(
+        "total, partial (up to up_to_a), none, or not-verified; the check says pass or fail",
+        nullable=False,
+        choices=SELECTIVE,
+    )
 
 
 @check_step("selectivity", unit="A")

@@ -9,6 +9,8 @@ Value and limit are energies (A^2 s): the larger of the two ends against k^2 S^2
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from service.electrical.cables import protective
@@ -19,6 +21,7 @@ from service.electrical.devices.characteristic import AT_MOST, BEYOND_DATA, boun
 from service.electrical.devices.response import DeviceResponse, FaultEnergy
 from service.electrical.network.faults import FaultLoop
 from service.electrical.results import verdicts
+from service.electrical.results.shapes import figure
 
 BASIS = "BS 7671:2018 434.5.2, t <= k^2 S^2 / I^2 at the largest and the smallest short-circuit current"
 MAX_TIME_S = protective.ADIABATIC_MAX_S
@@ -108,6 +111,29 @@ def _detail(cols: CircuitColumns, loop: FaultLoop, far: FaultEnergy, near: Fault
         "verdict": verdict,
         "basis": np.full(cols.n, BASIS, dtype=object),
     }
+
+
+@dataclass
+class ShortCircuitResult:
+    """The live conductors against a fault between them (434.5.2): energies against k^2 S^2."""
+
+    k: float | None = figure("k of the line conductor (BS 7671 Table 43.1)")
+    csa_mm2: float | None = figure("the line conductor, all cables in parallel together")
+    withstand_a2s: float | None = figure("k^2 S^2")
+    line_neutral_loop_ohm: float | None = figure("at the origin")
+    line_neutral_loop_basis: str | None = figure("where the line-neutral loop comes from")
+    max_current_a: float | None = figure("the largest short-circuit current, at the origin of the circuit")
+    max_energy_a2s: float | None = figure("what the device lets through at it")
+    max_energy_basis: str | None = figure("how that energy is known")
+    min_current_a: float | None = figure("the smallest, a line-neutral fault at the far end (Cmin, conductors hot)")
+    min_time_s: float | None = figure("the device's time at it")
+    min_time_bound: str | None = figure("how that time is known from the device's data")
+    allowed_time_s: float | None = figure("the smaller of 5 s and k^2 S^2 / I^2 at the smallest current")
+    min_energy_a2s: float | None = figure("what the device lets through at the smallest current")
+    min_energy_basis: str | None = figure("how that energy is known")
+    let_through_data: str | None = figure("which standard limit, if any")
+    verdict: str = figure(nullable=False, choices=verdicts.VERDICTS)
+    basis: str = figure("the clause the verdict rests on", nullable=False)
 
 
 @check_step("short-circuit", unit="A2s")

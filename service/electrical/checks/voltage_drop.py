@@ -10,6 +10,8 @@ limit of its use, which the final circuits below can only add to.
 
 from __future__ import annotations
 
+from dataclasses import dataclass
+
 import numpy as np
 
 from service.electrical.cables import capacity
@@ -20,6 +22,7 @@ from service.electrical.devices.response import DeviceResponse
 from service.electrical.errors import ElectricalError
 from service.electrical.network.faults import FaultLoop
 from service.electrical.results import verdicts
+from service.electrical.results.shapes import figure
 
 BASES = {
     "final": "BS 7671:2018 525, Appendix 4 (6.4): the drop from the origin within the limit for the use",
@@ -62,6 +65,22 @@ def _limits(cols: CircuitColumns) -> tuple[np.ndarray, np.ndarray]:
         limit[where], basis[where] = value, text
     own = ~np.isnan(cols.drop_limit_percent)
     return np.where(own, cols.drop_limit_percent, limit), np.where(own, "set for the circuit", basis).astype(object)
+
+
+@dataclass
+class VoltageDropResult:
+    """The drop from the origin to the load against its limit (525)."""
+
+    mv_per_a_m: float | None = figure("the cable's voltage drop per ampere and metre (Appendix 4 tables, or given)")
+    mv_basis: str | None = figure("where mV/A/m comes from")
+    drop_v: float | None = figure("mV/A/m x Ib x L / 1000 (a ring: a quarter of the loop)")
+    circuit_percent: float | None = figure("of the nominal voltage (U0 single-phase, U0 x √3 three-phase)")
+    upstream_percent: float = figure("the drop from the origin to the board", nullable=False)
+    from_origin_percent: float | None = figure("upstream_percent + circuit_percent")
+    limit_percent: float | None = figure("Appendix 4 Table 4Ab, or the request's limit")
+    limit_basis: str | None = figure("where the limit comes from")
+    verdict: str = figure(nullable=False, choices=verdicts.VERDICTS)
+    basis: str = figure("the clause the verdict rests on", nullable=False)
 
 
 @check_step("voltage-drop", unit="%")

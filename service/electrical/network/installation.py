@@ -45,7 +45,6 @@ HOW = {
     "angle": "at the least modulus any supply angle from 0 to 90 degrees allows (supply.x_over_r not given)",
     "x-over-r": "as complex numbers, with the supply's X/R as given",
 }
-CHUNK = 2000  # circuits per pipeline run where progress is reported
 FEED_UNREAD = "the feed could not be read: see its problem"
 FEED_NEEDS_CONDUCTORS = "a circuit that feeds a board needs its conductors: the loops below it follow from them"
 
@@ -209,12 +208,18 @@ def _walk(inst: Installation, tree: Tree, loops: dict[int, bv.FeedLoop], failed:
 
 
 def _run(
-    circuits: list[list[Circuit]], supplies: dict[int, Supply], unreachable: dict[int, str], scope, exact, progress
+    circuits: list[list[Circuit]],
+    supplies: dict[int, Supply],
+    unreachable: dict[int, str],
+    scope,
+    exact,
+    progress,
+    chunk,
 ) -> list[list[CircuitResult | CircuitFailure]]:
-    """Every circuit of every reachable board through the pipeline as one set of arrays (a chunk at a time where
-    ``progress`` wants to hear of it), in board order."""
+    """Every circuit of every reachable board through the pipeline as one set of arrays (``chunk`` circuits a run
+    where ``progress`` wants to hear of them), in board order."""
     where = [(b, c) for b in sorted(supplies) for c, item in enumerate(circuits[b]) if not isinstance(item, Unread)]
-    step = CHUNK if progress else max(len(where), 1)
+    step = chunk if progress and chunk else max(len(where), 1)
     done: list[Any] = []
     for start in range(0, len(where), step):
         part = where[start : start + step]
@@ -236,16 +241,17 @@ def check_installation(
     scope: Sequence[str] | None = None,
     exact: bool = False,
     progress: Callable[[int], None] | None = None,
+    chunk: int | None = None,
 ) -> InstallationResult:
     """Check every board and circuit of ``inst`` (see the module's text); ``scope`` and ``exact`` as for circuits;
-    ``progress`` is told how many circuits are done, a chunk at a time."""
+    ``progress`` is told how many circuits are done, ``chunk`` circuits at a time (all at once where not given)."""
     tree = tree_of(inst)
     _check_diversity(inst)
     demand, feed_current = bv.demands(inst, tree)
     circuits = _as_checked(inst, feed_current)
     loops, failed = _feed_loops(inst, tree, circuits)
     values, supplies, unreachable = _walk(inst, tree, loops, failed)
-    results = _run(circuits, supplies, unreachable, scope, exact, progress)
+    results = _run(circuits, supplies, unreachable, scope, exact, progress, chunk)
     for (b, c), (_, note) in feed_current.items():
         if note and isinstance(results[b][c], CircuitResult):
             results[b][c].cautions.append(note)

@@ -8,12 +8,20 @@ columns; renaming an output is a change to this class and to the stage that comp
 from __future__ import annotations
 
 from collections.abc import Mapping, Sequence
-from dataclasses import dataclass, field, fields
+from dataclasses import dataclass, fields
 from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
+from service.electrical.checks import CHECKS
+from service.electrical.checks.overload import OverloadResult
+from service.electrical.checks.protective_conductor import ProtectiveConductorResult
+from service.electrical.checks.selectivity import SelectivityResult
+from service.electrical.checks.short_circuit import ShortCircuitResult
+from service.electrical.checks.voltage_drop import VoltageDropResult
+from service.electrical.devices.characteristic import BOUNDS
 from service.electrical.results import precision, verdicts
+from service.electrical.results.shapes import figure
 from service.electrical.results.verdicts import Verdict
 from service.electrical.rules import requirements
 
@@ -23,6 +31,7 @@ if TYPE_CHECKING:
     from service.electrical.devices.response import DeviceResponse
     from service.electrical.network.faults import FaultLoop
 
+DISCONNECTED_BY = ("overcurrent-device", "rcd")
 GENERAL_CAUTIONS = (
     "This result supports a competent person; it does not replace one. A competent person must verify the design.",
     "The current edition of BS 7671 / IEC 60364, local codes and licensed practice prevail over this result.",
@@ -45,50 +54,117 @@ class Checked:
 class Check:
     """One check of one circuit: verdict, value against limit in ``unit``, margin, the clause, a note."""
 
-    check: str
-    verdict: Verdict
-    value: float | None
-    limit: float | None
-    unit: str
-    margin_percent: float | None
-    basis: str
-    note: str | None = None
+    SCHEMA_NAME = "CheckResult"
+    check: str = figure("the check's name", nullable=False, choices=CHECKS)
+    verdict: Verdict = figure(nullable=False, choices=verdicts.VERDICTS)
+    value: float | None = figure("what the circuit has, in unit")
+    limit: float | None = figure("what the rule allows or asks, in unit")
+    unit: str = figure("of value and limit", nullable=False)
+    margin_percent: float | None = figure("(limit - value) / limit x 100; for the cpc, (size - minimum) / size x 100")
+    basis: str = figure("the clause or table the verdict rests on", nullable=False)
+    note: str | None = figure("why the verdict is what it is, where it is not plain", default=None)
+
+
+@dataclass
+class DeviceSummary:
+    """Who the device is and where its data come from."""
+
+    device_id: str = figure(nullable=False)
+    label: str = figure(nullable=False)
+    source: str = figure(nullable=False)
+    confidence: str = figure(nullable=False)
+    notes: list[str] = figure(nullable=False)
+
+
+@dataclass
+class VerdictScope:
+    """What the overall verdict covers."""
+
+    covered: list[str] = figure(nullable=False, choices=CHECKS)
+    left_out: list[str] = figure(nullable=False, choices=CHECKS)
+    not_assessed: list[str] = figure(
+        "what the service does not judge at all (the same on every result): a pass never covers these", nullable=False
+    )
 
 
 @dataclass
 class CircuitResult:
-    id: str | None
-    r1_plus_r2_ohm: float | None
-    zs_ohm: float
-    earth_fault_current_a: float
-    earth_fault_current_nominal_a: float
-    prospective_fault_current_ka: float
-    prospective_fault_current_basis: str
-    device: dict[str, Any]
-    disconnection_time_s: float | None
-    disconnection_time_bound: str
-    disconnection_region: str
-    disconnected_by: str | None
-    max_disconnection_time_s: float | None
-    max_disconnection_basis: str
-    operating_current_a: float | None
-    operating_current_bound: str
-    max_zs_ohm: float | None
-    zs_margin_percent: float | None
-    rcd_max_zs_ohm: float | None
-    line_neutral_loop_ohm: float | None
-    min_short_circuit_current_a: float | None
-    protective_conductor: dict[str, Any]
-    three_phase_fault_current_ka: float | None
-    voltage_drop_from_origin_percent: float | None
-    short_circuit: dict[str, Any]
-    overload: dict[str, Any]
-    voltage_drop: dict[str, Any]
-    selectivity: dict[str, Any]
-    checks: list[Check]
-    verdict: Verdict
-    verdict_scope: dict[str, list[str]]
-    cautions: list[str] = field(default_factory=list)
+    """The result of one circuit's check: every figure, every check and the overall verdict (circuits/check).
+
+    ``lean``: a column of the lean table (``cell`` as it is, ``text`` as a position in its texts); ``csv``: a
+    column of the CLI's CSV answer, at its place."""
+
+    id: str | None = figure("the circuit's id, as given")
+    r1_plus_r2_ohm: float | None = figure(
+        "line and cpc resistance at the conductors' operating temperature", lean="cell", csv=(1, "r1_plus_r2_ohm")
+    )
+    zs_ohm: float = figure("Ze + R1+R2", nullable=False, lean="cell", csv=(2, "zs_ohm"))
+    earth_fault_current_a: float = figure(
+        "U0 x Cmin / Zs, Cmin 0.95", nullable=False, lean="cell", csv=(5, "earth_fault_current_a")
+    )
+    earth_fault_current_nominal_a: float = figure("U0 / Zs", nullable=False)
+    prospective_fault_current_ka: float | None = figure(
+        "the larger of line-neutral and line-earth at the origin (434.1); null where it cannot be known (TT)",
+        lean="cell",
+    )
+    prospective_fault_current_basis: str = figure(
+        "how the prospective fault current was found", nullable=False, lean="text"
+    )
+    line_neutral_loop_ohm: float | None = figure("at the origin, as used for the smallest short circuit", lean="cell")
+    min_short_circuit_current_a: float | None = figure(
+        "a line-neutral fault at the far end, Cmin, conductors hot", lean="cell"
+    )
+    device: dict[str, Any] = figure(nullable=False, shape=DeviceSummary)
+    disconnection_time_s: float | None = figure(
+        "null where no disconnection is shown", lean="cell", csv=(6, "disconnection_time_s")
+    )
+    disconnection_time_bound: str = figure(
+        "how the time is known from the device's data",
+        nullable=False,
+        choices=BOUNDS,
+        lean="cell",
+        csv=(7, "disconnection_time_bound"),
+    )
+    disconnection_region: str = figure("the region of the device's characteristic the fault falls in", nullable=False)
+    disconnected_by: str | None = figure("which device clears the fault", choices=DISCONNECTED_BY, lean="cell")
+    max_disconnection_time_s: float | None = figure(
+        "Table 41.1, or 5 s", lean="cell", csv=(8, "max_disconnection_time_s")
+    )
+    max_disconnection_basis: str = figure("the clause the permitted time rests on", nullable=False, lean="text")
+    operating_current_a: float | None = figure("Ia for the required time", lean="cell")
+    operating_current_bound: str = figure("how Ia is known from the device's data", nullable=False, choices=BOUNDS)
+    max_zs_ohm: float | None = figure(
+        "U0 x Cmin / Ia of the overcurrent device; null where its data show no Ia for the time",
+        lean="cell",
+        csv=(3, "max_zs_ohm"),
+    )
+    zs_margin_percent: float | None = figure(
+        "(max_zs_ohm - zs_ohm) / max_zs_ohm x 100", lean="cell", csv=(4, "zs_margin_percent")
+    )
+    rcd_max_zs_ohm: float | None = figure(
+        "where an RCD is fitted: 50 V / IΔn, the largest Zs (TN) or RA (TT) it protects", lean="cell"
+    )
+    protective_conductor: dict[str, Any] = figure(nullable=False, shape=ProtectiveConductorResult)
+    short_circuit: dict[str, Any] = figure(nullable=False, shape=ShortCircuitResult)
+    overload: dict[str, Any] = figure(nullable=False, shape=OverloadResult)
+    three_phase_fault_current_ka: float | None = figure(
+        "symmetrical, at the origin of the circuit; null where unknown", lean="cell"
+    )
+    voltage_drop_from_origin_percent: float | None = figure(
+        "the board's drop from the origin plus the circuit's", lean="cell"
+    )
+    voltage_drop: dict[str, Any] = figure(nullable=False, shape=VoltageDropResult)
+    selectivity: dict[str, Any] | None = figure(
+        "against the device feeding the circuit's board; null where that is not known", shape=SelectivityResult
+    )
+    checks: list[Check] = figure(nullable=False)
+    verdict: Verdict = figure(
+        "fail if a check in scope fails, else not-verified if one could not be made, else pass",
+        nullable=False,
+        choices=verdicts.VERDICTS,
+    )
+    verdict_scope: dict[str, list[str]] = figure(nullable=False, shape=VerdictScope)
+    cautions: list[str] = figure(nullable=False, default_factory=list)
 
     def check(self, name: str) -> Check | None:
         """The check called ``name``, or None where it does not apply to this circuit."""

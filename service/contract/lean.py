@@ -1,32 +1,24 @@
-"""The lean answer of a batch: the core's table (results.lean_table) with its texts and devices said once."""
+"""The lean answer of a batch: the table of :mod:`service.contract.lean_table`, its texts and devices said once."""
 
 from __future__ import annotations
 
 from collections import Counter
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from typing import Any
 
 from marshmallow import Schema, fields, validate
 
-from service.api import deadline, metrics
+from service.contract import batch
 from service.contract.item_lists import ItemProblem
-from service.contract.problems import ProblemSchema, failed_item, invalid_item
+from service.contract.lean_table import Interned, add_problem, check_table, column_names, empty_columns, extend
+from service.contract.problems import ProblemSchema
 from service.contract.result_schemas import BatchSummarySchema, DeviceSummarySchema, edition_answer
 from service.electrical.checks import CHECKS, UNITS
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.results import verdicts
 from service.electrical.results.circuit_result import GENERAL_CAUTIONS
-from service.electrical.results.lean_table import (
-    Interned,
-    add_problem,
-    check_table,
-    column_names,
-    empty_columns,
-    extend,
-)
 from service.electrical.rules import requirements
 
-CHUNK = 2000
 FORMS = ("lean", "full")
 
 
@@ -76,22 +68,29 @@ class LeanBatchSchema(Schema):
     edition = edition_answer()
 
 
-def lean_answer(supply: Any, items: Sequence[Any], scope: Sequence[str] | None, edition: str) -> dict[str, Any]:
-    """The lean answer for the items of a batch (a chunk at a time through the core)."""
+def lean_answer(
+    supply: Any,
+    items: Sequence[Any],
+    scope: Sequence[str] | None,
+    edition: str,
+    between: Callable[[], None] | None = None,
+    counted: Callable[[list[str]], None] | None = None,
+) -> dict[str, Any]:
+    """The lean answer for the items of a batch, a chunk at a time through the core (:func:`batch.chunks`);
+    ``between`` is called before each chunk, ``counted`` told the verdicts."""
     names = column_names(CHECKS)
     table, texts, devices = empty_columns(names), Interned(), Interned()
     problems: list[dict[str, Any]] = []
-    for start in range(0, len(items), CHUNK):
-        deadline.check()
-        chunk = items[start : start + CHUNK]
+    for start, chunk in batch.chunks(items, between):
         places = [start + i for i, item in enumerate(chunk) if not isinstance(item, ItemProblem)]
         part = check_table(supply, [items[i] for i in places], texts, devices, scope) if places else None
         if part is not None and part.columns is not None:
             part.columns["index"] = [places[i] for i in part.good]
         _merge(table, part, places, chunk, start, problems)
-    counted = [v for v in table["verdict"] if v != "invalid"]
-    metrics.count_verdicts(counted)
-    summary = verdicts.summary(Counter(counted), len(items))
+    counts = [v for v in table["verdict"] if v != "invalid"]
+    if counted is not None:
+        counted(counts)
+    summary = verdicts.summary(Counter(counts), len(items))
     steps = [{"check": name, "unit": UNITS[name]} for name in CHECKS]
     return {
         "form": "lean",
@@ -133,6 +132,5 @@ def _take(table, part, rows_at, first: int, count: int) -> None:
 
 
 def _problem(index: int, item: Any, failure: CircuitFailure | None) -> dict[str, Any]:
-    if isinstance(item, ItemProblem):
-        return invalid_item(index, item.id, item.messages, f"/circuits/{index}")
-    return failed_item(index, item.id, failure, {"supply": "/supply", "circuit": f"/circuits/{index}"})
+    problem = batch.request_problem(index, item)
+    return problem if problem is not None else batch.request_failure(index, item, failure)

@@ -21,28 +21,12 @@ from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.inputs import Circuit, Supply
 from service.electrical.pipeline import Checked, checked_run
 from service.electrical.results import verdicts
-from service.electrical.results.circuit_result import check_numbers, lists_of, verdict_scopes
+from service.electrical.results.circuit_result import CircuitResult, check_numbers, lists_of, verdict_scopes
+from service.electrical.results.shapes import lean_figures
 
-# the circuit's own figures, as the full result names them (texts among them are given as text positions)
-FIGURES = (
-    "r1_plus_r2_ohm",
-    "zs_ohm",
-    "earth_fault_current_a",
-    "prospective_fault_current_ka",
-    "line_neutral_loop_ohm",
-    "min_short_circuit_current_a",
-    "three_phase_fault_current_ka",
-    "disconnection_time_s",
-    "disconnection_time_bound",
-    "disconnected_by",
-    "max_disconnection_time_s",
-    "operating_current_a",
-    "max_zs_ohm",
-    "zs_margin_percent",
-    "rcd_max_zs_ohm",
-    "voltage_drop_from_origin_percent",
-)
-TEXT_FIGURES = ("prospective_fault_current_basis", "max_disconnection_basis")
+# the circuit's own figures, as its shape declares them (lean="cell"; "text": given as text positions)
+FIGURES = lean_figures(CircuitResult, "cell")
+TEXT_FIGURES = lean_figures(CircuitResult, "text")
 CHECK_FIELDS = ("verdict", "value", "limit", "margin_percent", "basis", "note")
 
 

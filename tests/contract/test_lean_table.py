@@ -1,15 +1,8 @@
 """The lean table: every figure and check as the full results give it, each text and device said once."""
 
+from service.contract.lean_table import Interned, add_problem, check_table, column_names, empty_columns, extend
 from service.electrical.checks import CHECKS
 from service.electrical.results.circuit_result import assemble
-from service.electrical.results.lean_table import (
-    Interned,
-    add_problem,
-    check_table,
-    column_names,
-    empty_columns,
-    extend,
-)
 from tests.electrical.pipeline import B32, BAKERY, KIOSK, RCBO_B16, TWIN_2_5, circuit, run
 
 
@@ -47,7 +40,7 @@ def test_a_problem_row_keeps_the_place_of_its_item():
 def test_caution_patterns_are_the_distinct_rows_whatever_the_width():
     import numpy as np
 
-    from service.electrical.results.lean_table import _patterns
+    from service.contract.lean_table import _patterns
 
     rng = np.random.default_rng(5)
     for width in (1, 3, 62, 63, 70):
