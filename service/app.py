@@ -18,7 +18,6 @@ from typing import Any
 import flask
 import flask_smorest
 from flask_smorest.utils import prepare_response
-from werkzeug.exceptions import HTTPException
 from werkzeug.routing import BaseConverter
 
 from service.api import (
@@ -93,29 +92,6 @@ class Api(flask_smorest.Api):
         )
 
 
-# stable names for client generators (a generated client's functions are named by them)
-OPERATION_IDS = {
-    ("post", "/v1/circuits/check"): "checkCircuit",
-    ("post", "/v1/circuits/picture"): "drawCircuit",
-    ("post", "/v1/circuits/check-batch"): "checkCircuits",
-    ("post", "/v1/installations/check"): "checkInstallation",
-    ("post", "/v1/installations/report"): "reportInstallation",
-    ("post", "/v1/fault-current"): "faultCurrent",
-    ("post", "/v1/disconnection-time"): "disconnectionTime",
-    ("post", "/v1/max-zs"): "maxZs",
-    ("post", "/v1/protective-conductor"): "protectiveConductor",
-    ("post", "/v1/circuits/size"): "sizeCircuit",
-    ("post", "/v1/circuits/max-length"): "longestRun",
-    ("post", "/v1/test-results/verify"): "verifyTestResults",
-    ("get", "/v1/devices"): "listDevices",
-    ("get", "/v1/devices/{device_id}/{rating_a}/characteristic"): "deviceCharacteristic",
-    ("get", "/v1/cables"): "listCables",
-    ("get", "/healthz"): "health",
-    ("get", "/readyz"): "readiness",
-    ("get", "/metrics"): "metrics",
-}
-
-
 def spec_dict(api: Api) -> dict[str, Any]:
     """The OpenAPI document, with the problem+json answers every operation can give."""
     spec = copy.deepcopy(api.spec.to_dict())  # apispec hands out its own path objects: never edit them
@@ -134,7 +110,6 @@ def spec_dict(api: Api) -> dict[str, Any]:
         for method, operation in operations.items():
             if method not in ("get", "post"):
                 continue
-            operation["operationId"] = OPERATION_IDS[(method, path)]
             # /v1 takes the key, or nothing where the deployment requires none (loopback, FAULTPATH_REQUIRE_KEYS=off)
             operation["security"] = [{"ApiKey": []}, {}] if path.startswith("/v1/") else []
             responses = operation.setdefault("responses", {})
@@ -142,25 +117,6 @@ def spec_dict(api: Api) -> dict[str, Any]:
                 if path in ("/healthz", "/readyz", "/metrics") and status in (401, 429):
                     continue
                 responses.setdefault(str(status), {"description": HTTPStatus(status).phrase, **problem})
-            if path == "/v1/circuits/check-batch":
-                responses["200"]["content"]["application/json"]["schema"] = {
-                    "oneOf": [{"$ref": "#/components/schemas/LeanBatch"}, {"$ref": "#/components/schemas/BatchResult"}]
-                }
-                responses["200"]["content"]["application/x-ndjson"] = {
-                    "schema": {
-                        "description": (
-                            "one JSON object per line: a BatchItem per circuit, in order, "
-                            'then {"summary": BatchSummary}'
-                        ),
-                        "type": "string",
-                    }
-                }
-            if path.endswith("/characteristic"):
-                responses["200"]["content"]["image/svg+xml"] = {
-                    "schema": {"type": "string", "description": "the curve as a picture"}
-                }
-            if method == "get" and "{" in path:
-                responses.setdefault("404", {"description": "Not Found", **problem})
     return spec
 
 
@@ -226,8 +182,8 @@ def create_app(config: dict[str, Any] | None = None) -> flask.Flask:
     _install_guards(app, settings)
     _install_rate_limit(app, settings)
     metrics.install(app)
-    app.register_error_handler(errors.CoreInputError, errors.handle_http_exception)
-    app.register_error_handler(Exception, _unexpected)
+    for exception, handler in errors.HANDLERS:
+        app.register_error_handler(exception, handler)
     return app
 
 
@@ -260,12 +216,6 @@ def _install_rate_limit(app: flask.Flask, settings: Settings) -> None:
         default_limits_exempt_when=lambda: flask.request.path.startswith(PUBLIC_PATHS),
     )
     app.extensions["faultpath_limiter"] = limiter
-
-
-def _unexpected(exc: Exception):
-    if isinstance(exc, HTTPException):
-        return errors.handle_http_exception(exc)
-    return errors.internal_error(exc)
 
 
 def open_paths(settings: Settings) -> tuple[str, ...]:

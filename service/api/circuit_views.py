@@ -6,7 +6,7 @@ import flask
 
 from service.api import deadline, metrics
 from service.api.base import Blueprint
-from service.api.errors import CoreInputError, json_response
+from service.api.errors import json_response, problem_roots
 from service.api.helpers import svg_response
 from service.contract import batch
 from service.contract.circuit_schemas import BatchRequestSchema, CheckRequestSchema
@@ -25,6 +25,20 @@ blp = Blueprint(
 
 SINGLE = {"supply": "/supply", "circuit": "/circuit"}
 NDJSON = "application/x-ndjson"
+# check-batch answers in one of two JSON forms (?form=), or as NDJSON (Accept)
+ANSWER_FORMS = {
+    "application/json": {
+        "schema": {"oneOf": [LeanBatchSchema, {"$ref": "#/components/schemas/BatchResult"}]}  # form=full: BatchResult
+    },
+    NDJSON: {
+        "schema": {
+            "description": (
+                'one JSON object per line: a BatchItem per circuit, in order, then {"summary": BatchSummary}'
+            ),
+            "type": "string",
+        }
+    },
+}
 
 
 def _checked_one(body):
@@ -32,13 +46,15 @@ def _checked_one(body):
     coalescer = flask.current_app.extensions["faultpath_coalescer"]
     result = coalescer.check(body["supply"], body["circuit"], body.get("checks"))
     if isinstance(result, CircuitFailure):
-        raise CoreInputError.of(result, SINGLE)
+        raise result.as_error()  # a 422 naming the field (api/errors.py core_problem, below the roots SINGLE)
     return result
 
 
 @blp.route("/check", methods=["POST"])
+@blp.doc(operationId="checkCircuit")  # a stable name for client generators
 @blp.arguments(CheckRequestSchema())
 @blp.response(200, CheckAnswerSchema)
+@problem_roots(SINGLE)
 def check(body):
     """Check one circuit
 
@@ -51,6 +67,7 @@ def check(body):
 
 
 @blp.route("/picture", methods=["POST"])
+@blp.doc(operationId="drawCircuit")  # a stable name for client generators
 @blp.arguments(CheckRequestSchema())
 @blp.doc(
     responses={
@@ -60,6 +77,7 @@ def check(body):
         }
     }
 )
+@problem_roots(SINGLE)
 def picture(body):
     """The time-current picture of one checked circuit (SVG)
 
@@ -79,9 +97,11 @@ def picture(body):
 
 
 @blp.route("/check-batch", methods=["POST"])
+@blp.doc(operationId="checkCircuits")  # a stable name for client generators
 @blp.arguments(FormSchema(), location="query")
 @blp.arguments(BatchRequestSchema())
 @blp.response(200, LeanBatchSchema)
+@blp.doc(responses={200: {"content": ANSWER_FORMS}})
 def check_batch(query, body):
     """Check many circuits sharing a supply
 

@@ -3,11 +3,10 @@
 from __future__ import annotations
 
 import flask
-from marshmallow import Schema, fields
 
 from service.api.base import Blueprint
 from service.api.helpers import SVG, svg_response
-from service.contract.result_schemas import DeviceSummarySchema
+from service.contract.catalogue_schemas import CatalogueSchema, CharacteristicSchema
 from service.electrical.devices.catalogue import catalogue, device_by_id
 from service.electrical.errors import ElectricalError
 from service.picture import characteristic_svg
@@ -17,59 +16,8 @@ blp = Blueprint(
 )
 
 
-class RatingRangeSchema(Schema):
-    min_a = fields.Float(required=True)
-    max_a = fields.Float(required=True)
-
-
-class ProvenanceSchema(Schema):
-    title = fields.String(required=True)
-    source = fields.String(required=True)
-    edition = fields.String()
-    confidence = fields.String()
-    notes = fields.String()
-
-
-class DeviceFamilySchema(Schema):
-    device_id = fields.String(required=True)
-    kind = fields.String(required=True)
-    standard = fields.String(required=True)
-    type = fields.String(allow_none=True, required=True)
-    title = fields.String(required=True)
-    ratings_a = fields.List(fields.Float(), required=True)
-    any_rating = fields.Nested(RatingRangeSchema, allow_none=True, required=True)
-    residual = fields.Boolean(required=True)
-    data = fields.Nested(ProvenanceSchema, required=True)
-    estimates = fields.Nested(ProvenanceSchema, allow_none=True)
-
-
-class CatalogueSchema(Schema):
-    devices = fields.List(fields.Nested(DeviceFamilySchema), required=True)
-
-
-class PointSchema(Schema):
-    current_a = fields.Float(required=True)
-    time_s = fields.Float(required=True)
-    estimated = fields.Boolean(required=True)
-
-
-class RegionSchema(Schema):
-    from_current_a = fields.Float(required=True)
-    region = fields.String(required=True)
-
-
-class CharacteristicSchema(Schema):
-    device = fields.Nested(DeviceSummarySchema, required=True)
-    rating_a = fields.Float(required=True)
-    points = fields.List(
-        fields.Nested(PointSchema),
-        required=True,
-        metadata={"description": "maximum operating times, straight lines on log-log axes between them"},
-    )
-    regions = fields.List(fields.Nested(RegionSchema), required=True)
-
-
 @blp.route("", methods=["GET"])
+@blp.doc(operationId="listDevices")  # a stable name for client generators
 @blp.response(200, CatalogueSchema)
 def list_devices():
     """The built-in devices: standard, type, ratings, and each data table's source and confidence"""
@@ -77,8 +25,10 @@ def list_devices():
 
 
 @blp.route("/<string:device_id>/<number:rating_a>/characteristic", methods=["GET"])
+@blp.doc(operationId="deviceCharacteristic")  # a stable name for client generators
 @blp.response(200, CharacteristicSchema)
 @blp.alt_response(404, description="No such device or rating")
+@blp.doc(responses={200: {"content": {SVG: {"schema": {"type": "string", "description": "the curve as a picture"}}}}})
 def characteristic(device_id, rating_a):
     """The time-current points of one device at one rating; as a picture with `Accept: image/svg+xml`"""
     try:

@@ -7,9 +7,10 @@ returns only the id.
 
 from __future__ import annotations
 
+import functools
 import logging
 import uuid
-from collections.abc import Mapping
+from collections.abc import Callable, Mapping
 from http import HTTPStatus
 from typing import Any
 
@@ -53,6 +54,41 @@ class CoreInputError(HTTPException):
     ) -> CoreInputError:
         """The 422 for a core error, its path turned into a pointer by :func:`pointer_of`."""
         return cls(core_errors(err, roots, base))
+
+
+def problem_roots(roots: Mapping[str, str]) -> Callable[[Callable[..., Any]], Callable[..., Any]]:
+    """Declare on a view where the core's paths lie in its request body (``{"supply": "/supply", "circuit": ""}``),
+    for :func:`core_problem`; a view that declares nothing has the core's paths from the body's root."""
+
+    def declare(view: Callable[..., Any]) -> Callable[..., Any]:
+        @functools.wraps(view)
+        def with_roots(*args: Any, **kwargs: Any) -> Any:
+            flask.g.problem_roots = roots
+            return view(*args, **kwargs)
+
+        return with_roots
+
+    return declare
+
+
+def core_problem(err: ElectricalError) -> flask.Response:
+    """The one place a core error raised in a view becomes a problem: a 422 naming the field at fault, its path a
+    pointer below the roots the view declared (:func:`problem_roots`)."""
+    return handle_http_exception(CoreInputError.of(err, flask.g.get("problem_roots")))
+
+
+def unexpected(exc: Exception) -> flask.Response:
+    """Any other exception: an HTTP error as its status says, anything else a 500 with an error id."""
+    if isinstance(exc, HTTPException):
+        return handle_http_exception(exc)
+    return internal_error(exc)
+
+
+# the exceptions a view may raise, each with the one function that answers it (registered by create_app)
+HANDLERS: tuple[tuple[type[Exception], Callable[[Any], flask.Response]], ...] = (
+    (ElectricalError, core_problem),
+    (Exception, unexpected),
+)
 
 
 DOCS_HINT = "/openapi.json lists every operation."

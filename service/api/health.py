@@ -3,10 +3,11 @@
 from __future__ import annotations
 
 import flask
-from marshmallow import Schema, fields
+from marshmallow import fields
 
 from service.api import metrics
 from service.api.base import Blueprint
+from service.contract.fields import ContractSchema
 from service.electrical.devices.catalogue import catalogue
 from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Supply
 from service.electrical.pipeline import check_circuit
@@ -14,7 +15,7 @@ from service.electrical.pipeline import check_circuit
 blp = Blueprint("health", __name__, description="Liveness, readiness and metrics")
 
 
-class StatusSchema(Schema):
+class StatusSchema(ContractSchema):
     status = fields.String(required=True)
 
 
@@ -33,6 +34,7 @@ def self_check() -> None:
 
 
 @blp.route("/healthz", methods=["GET"])
+@blp.doc(operationId="health")  # a stable name for client generators
 @blp.response(200, StatusSchema)
 def healthz():
     """The process is alive"""
@@ -40,6 +42,7 @@ def healthz():
 
 
 @blp.route("/readyz", methods=["GET"])
+@blp.doc(operationId="readiness")  # a stable name for client generators
 @blp.response(200, StatusSchema)
 @blp.alt_response(503, description="Not ready")
 def readyz():
@@ -52,6 +55,7 @@ def readyz():
 
 
 @blp.route("/metrics", methods=["GET"])
+@blp.doc(operationId="metrics")  # a stable name for client generators
 @blp.doc(
     responses={
         "200": {"description": "Prometheus text exposition", "content": {"text/plain": {"schema": {"type": "string"}}}}

@@ -6,7 +6,7 @@ import flask
 
 from service.api import deadline, metrics
 from service.api.base import Blueprint
-from service.api.errors import CoreInputError, json_response
+from service.api.errors import json_response
 from service.contract import batch
 from service.contract.installation_schemas import (
     InstallationRequestSchema,
@@ -15,7 +15,6 @@ from service.contract.installation_schemas import (
     problem_messages,
     records,
 )
-from service.electrical.errors import ElectricalError
 from service.electrical.inputs import Installation
 from service.electrical.network.installation import InstallationResult, check_installation
 
@@ -35,14 +34,12 @@ def checked(body: dict) -> tuple[Installation, InstallationResult, dict]:
     limit = flask.current_app.config["FAULTPATH_BATCH_LIMIT"]
     if count > limit:
         flask.abort(413, description=f"an installation holds at most {limit} circuits")
-    try:
-        result = check_installation(inst, body.get("checks"), progress=deadline.check, chunk=batch.CHUNK)
-    except ElectricalError as err:
-        raise CoreInputError.of(err) from None
+    result = check_installation(inst, body.get("checks"), progress=deadline.check, chunk=batch.CHUNK)
     return inst, result, problems
 
 
 @blp.route("/check", methods=["POST"])
+@blp.doc(operationId="checkInstallation")  # a stable name for client generators
 @blp.arguments(InstallationRequestSchema())
 @blp.response(200, InstallationResultSchema)
 def check(body):
@@ -63,6 +60,7 @@ HTML = "text/html"
 
 
 @blp.route("/report", methods=["POST"])
+@blp.doc(operationId="reportInstallation")  # a stable name for client generators
 @blp.arguments(InstallationRequestSchema())
 @blp.doc(
     responses={

@@ -2,9 +2,9 @@
 
 from __future__ import annotations
 
-from marshmallow import Schema, post_load
+from marshmallow import post_load
 
-from service.contract.fields import Flag, Number, WholeNumber, choice
+from service.contract.fields import ContractSchema, Flag, Number, WholeNumber, choice
 from service.electrical.cables import capacity
 from service.electrical.inputs import CableRun, built
 from service.electrical.rules import requirements
@@ -12,7 +12,7 @@ from service.electrical.rules import requirements
 ALL_METHODS = sorted({m for cable in capacity.CABLES for m in capacity.methods(cable)})
 
 
-class InstallationSchema(Schema):
+class InstallationSchema(ContractSchema):
     cable = choice(
         capacity.CABLES,
         required=True,

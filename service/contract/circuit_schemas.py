@@ -9,12 +9,12 @@ from __future__ import annotations
 
 import dataclasses
 
-from marshmallow import Schema, ValidationError, fields, post_load, validate, validates_schema
+from marshmallow import ValidationError, fields, post_load, validate, validates_schema
 
 from service.contract import fastload
 from service.contract.cable_schemas import InstallationSchema
 from service.contract.fastload import Refused, fast_load
-from service.contract.fields import Flag, Number, Text, WholeNumber, choice
+from service.contract.fields import ContractSchema, Flag, Number, Text, WholeNumber, choice
 from service.contract.item_lists import PerItemList
 from service.contract.requirement_schemas import CircuitFactsSchema, JobSchema, curve_of, let_through_curve_field
 from service.electrical.cables import capacity, protective
@@ -23,7 +23,7 @@ from service.electrical.checks import CHECKS
 from service.electrical.circuit_arrays import PHASES
 from service.electrical.devices import catalogue, residual
 from service.electrical.devices.let_through import ENERGY_CLASSES
-from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply, built
+from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply, built, electrode_problem
 from service.electrical.rules import disconnection, requirements
 
 DEVICE_STANDARDS = catalogue.standards()
@@ -49,7 +49,7 @@ def check_phases(data) -> None:
         raise ValidationError("a three-phase circuit is on every phase: omit phase", "phase")
 
 
-class FastSchema(Schema):
+class FastSchema(ContractSchema):
     """A request schema loaded by the compiled fast path first (service.contract.fastload), marshmallow
     itself only when the fast path refuses: the same result, and marshmallow's messages on errors.
 
@@ -65,7 +65,7 @@ class FastSchema(Schema):
         return super().load(data, many=many, partial=partial, unknown=unknown)
 
 
-class CurvePointSchema(Schema):
+class CurvePointSchema(ContractSchema):
     current_a = Number(minimum=0.001, maximum=1e6, required=True)
     time_s = Number(minimum=0.0001, maximum=1e5, required=True, metadata={"description": "maximum operating time"})
 
@@ -82,7 +82,7 @@ def energy_class_field() -> WholeNumber:
     )
 
 
-class RcdSchema(Schema):
+class RcdSchema(ContractSchema):
     residual_current_ma = Number(minimum=1, maximum=3000, required=True, metadata={"description": "IΔn, mA"})
     delay = choice(residual.delays(), load_default="general", metadata={"description": "general, or S (time-delayed)"})
     type = choice(requirements.choices("rcd_types"), metadata={"description": "AC, A, F or B (531.3.3)"})
@@ -92,7 +92,7 @@ class RcdSchema(Schema):
         return built(Rcd, data)
 
 
-class DeviceSchema(Schema):
+class DeviceSchema(ContractSchema):
     standard = choice(
         DEVICE_STANDARDS, metadata={"description": "omit, and give curve_points, for a device of your own"}
     )
@@ -152,7 +152,7 @@ class DeviceSchema(Schema):
         return built(DeviceSpec, data)
 
 
-class ConductorsSchema(Schema):
+class ConductorsSchema(ContractSchema):
     material = choice(cond.MATERIALS, required=True)
     insulation = choice(cond.insulation_names(), required=True)
     line_csa_mm2 = Number(minimum=0.5, maximum=630, required=True)
@@ -192,7 +192,7 @@ class ConductorsSchema(Schema):
         return built(Conductors, data)
 
 
-class SupplySchema(Schema):
+class SupplySchema(ContractSchema):
     earthing = choice(disconnection.EARTHING, required=True)
     u0_v = Number(minimum=50, maximum=1000, required=True, metadata={"description": "nominal line to earth voltage"})
     ze_ohm = Number(
@@ -257,10 +257,8 @@ class SupplySchema(Schema):
 
     @validates_schema
     def electrode_within_ze(self, data, **kwargs):
-        if data.get("earthing") == "TT" and data.get("electrode_ohm", 0) > data.get("ze_ohm", float("inf")):
-            message = (
-                "in TT, ze_ohm is the whole external loop including the electrode: it cannot be below electrode_ohm"
-            )
+        message = electrode_problem(data.get("earthing"), data.get("ze_ohm"), data.get("electrode_ohm"))
+        if message is not None:  # the core's rule (inputs.electrode_problem), said at both fields
             raise ValidationError({"ze_ohm": [message], "electrode_ohm": [message]})
 
     @post_load

@@ -5,7 +5,7 @@ from __future__ import annotations
 import math
 import re
 
-from marshmallow import fields, validate
+from marshmallow import Schema, fields, validate
 
 
 class Number(fields.Float):
@@ -85,3 +85,80 @@ class Text(fields.String):
 def choice(values, **kwargs) -> fields.String:
     """A string from a fixed list (documented as an enum)."""
     return fields.String(validate=validate.OneOf(list(values)), **kwargs)
+
+
+# ------------------------------------------------------------------------------------------ the project's words
+# marshmallow's stock sentences, said in the project's words on the fields themselves: each message sits beside
+# the pointer of the field it is about, so it says what the field must be
+FIELD_WORDS: tuple[tuple[type[fields.Field], dict[str, str]], ...] = (
+    (fields.Boolean, {"invalid": "must be true or false"}),
+    (fields.Integer, {"invalid": "must be a whole number"}),
+    (fields.Float, {"invalid": "must be a number", "special": "must be a finite number"}),
+    (fields.String, {"invalid": "must be a string"}),
+    (fields.List, {"invalid": "must be a list"}),
+    (fields.Dict, {"invalid": "must be an object"}),
+    (fields.Nested, {"type": "must be an object"}),
+)
+EVERY_FIELD_WORDS = {
+    "required": "required: give this field",
+    "null": "may not be null: give a value, or leave the field out where it is optional",
+    "validator_failed": "not an allowed value",
+}
+
+
+def _range_words(v: validate.Range) -> str:
+    if v.min is not None and v.max is not None:
+        return "must be from {min} to {max}"
+    return "must be at least {min}" if v.min is not None else "must be at most {max}"
+
+
+def _length_words(v: validate.Length) -> str:
+    if v.equal is not None:
+        return "must hold exactly {equal} items or characters"
+    if v.min is not None and v.max is not None:
+        return "must hold from {min} to {max} items or characters"
+    return (
+        "must hold at least {min} items or characters"
+        if v.min is not None
+        else "must hold at most {max} items or characters"
+    )
+
+
+VALIDATOR_WORDS = (
+    (validate.Range, _range_words),
+    (validate.Length, _length_words),
+    (validate.OneOf, lambda v: "must be one of: {choices}"),
+    (validate.Equal, lambda v: "must be {other}"),
+)
+
+
+def in_our_words(field: fields.Field) -> None:
+    """Set the field's messages, and its validators', in the project's words (and those of the fields inside it)."""
+    field.error_messages = {**field.error_messages, **EVERY_FIELD_WORDS}
+    for kind, words in FIELD_WORDS:
+        if isinstance(field, kind):
+            field.error_messages.update((key, text) for key, text in words.items() if key in field.error_messages)
+    for validator in field.validators:
+        for kind, words_of in VALIDATOR_WORDS:
+            if isinstance(validator, kind) and validator.error in (None, getattr(kind, "default_message", None)):
+                validator.error = words_of(validator)
+    for inner in (
+        getattr(field, "inner", None),
+        getattr(field, "key_field", None),
+        getattr(field, "value_field", None),
+    ):
+        if isinstance(inner, fields.Field):
+            in_our_words(inner)
+
+
+class ContractSchema(Schema):
+    """Every request schema's base: an unknown field or a wrong type said in the project's words, and each field's
+    messages set as the field is bound (:func:`in_our_words`)."""
+
+    error_messages = {
+        "unknown": "not a field of this object: /openapi.json lists its fields",
+        "type": "must be an object",
+    }
+
+    def on_bind_field(self, field_name: str, field_obj: fields.Field) -> None:
+        in_our_words(field_obj)

@@ -4,11 +4,11 @@ from __future__ import annotations
 
 from typing import Any
 
-from marshmallow import Schema, fields, post_load, validate
+from marshmallow import fields, post_load, validate
 
 from service.contract import fastload
 from service.contract.circuit_schemas import CircuitSchema, DeviceSchema, ScopedSchema, SupplySchema
-from service.contract.fields import Flag, Number, Text, choice
+from service.contract.fields import ContractSchema, Flag, Number, Text, choice
 from service.contract.item_lists import ItemProblem, PerItemList
 from service.contract.problems import failed_item, flatten, invalid_item
 from service.contract.result_schemas import (
@@ -48,7 +48,7 @@ class BoardCircuitSchema(CircuitSchema):
     )
 
 
-class BoardSchema(Schema):
+class BoardSchema(ContractSchema):
     id = Text(max_length=200, required=True, validate=validate.Length(min=1, max=200))
     fed_from = Text(
         max_length=200,
@@ -80,7 +80,7 @@ class BoardSchema(Schema):
     )
 
 
-class SurgeProtectionSchema(Schema):
+class SurgeProtectionSchema(ContractSchema):
     fitted = Flag(required=True, metadata={"description": "an SPD protects the installation (443.4, 534)"})
     consequence = choice(
         requirements.choices("surge_consequences"),
@@ -112,7 +112,7 @@ class BoardCheckSchema(CheckResultSchema):
     check = fields.String(required=True, validate=validate.OneOf(BOARD_CHECKS + INSTALLATION_CHECKS))
 
 
-class BoardValuesSchema(Schema):
+class BoardValuesSchema(ContractSchema):
     """What the origin's values become at a board (figures null where not known or not reached)."""
 
     ze_ohm = nullable_number("the origin's plus the feeds' R1+R2, hot")
@@ -127,7 +127,7 @@ class BoardValuesSchema(Schema):
     impedance_basis = fields.String(required=True, metadata={"description": "how the impedances are combined"})
 
 
-class DemandSchema(Schema):
+class DemandSchema(ContractSchema):
     design_current_a = nullable_number("the largest phase's; null where the demand is incomplete")
     phase_current_a = fields.Dict(
         keys=fields.String(), values=fields.Float(), allow_none=True, required=True, metadata={"description": "L1-L3"}
@@ -139,7 +139,7 @@ class DemandSchema(Schema):
     neutral_current_a = nullable_number("from the phase currents, one power factor, no harmonics (common practice)")
 
 
-class RatingSchema(Schema):
+class RatingSchema(ContractSchema):
     conditional_short_circuit_ka = fields.Float(required=True)
     max_fault_current_ka = nullable_number()
     verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
@@ -173,7 +173,7 @@ class InstallationSummarySchema(BatchSummarySchema):
     boards = fields.Integer(required=True)
 
 
-class InstallationResultSchema(Schema):
+class InstallationResultSchema(ContractSchema):
     id = fields.String(allow_none=True, required=True)
     verdict = fields.String(required=True, validate=validate.OneOf(VERDICTS))
     boards = fields.List(fields.Nested(BoardResultSchema), required=True, metadata={"description": "top-down"})

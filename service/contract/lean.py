@@ -6,9 +6,10 @@ from collections import Counter
 from collections.abc import Callable, Sequence
 from typing import Any
 
-from marshmallow import Schema, fields, validate
+from marshmallow import fields, validate
 
 from service.contract import batch
+from service.contract.fields import ContractSchema
 from service.contract.item_lists import ItemProblem
 from service.contract.lean_table import Interned, add_problem, check_table, column_names, empty_columns, extend
 from service.contract.problems import ProblemSchema
@@ -22,7 +23,7 @@ from service.electrical.rules import requirements
 FORMS = ("lean", "full")
 
 
-class FormSchema(Schema):
+class FormSchema(ContractSchema):
     form = fields.String(
         load_default="lean",
         validate=validate.OneOf(FORMS),
@@ -30,18 +31,18 @@ class FormSchema(Schema):
     )
 
 
-class CheckUnitSchema(Schema):
+class CheckUnitSchema(ContractSchema):
     check = fields.String(required=True, validate=validate.OneOf(CHECKS))
     unit = fields.String(required=True, metadata={"description": "of its value and limit"})
 
 
-class ProblemItemSchema(Schema):
+class ProblemItemSchema(ContractSchema):
     index = fields.Integer(required=True)
     id = fields.String(allow_none=True, required=True)
     problem = fields.Nested(ProblemSchema, required=True)
 
 
-class LeanBatchSchema(Schema):
+class LeanBatchSchema(ContractSchema):
     form = fields.String(required=True, validate=validate.Equal("lean"))
     columns = fields.Dict(
         keys=fields.String(),

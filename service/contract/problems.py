@@ -4,26 +4,26 @@ of a field at fault, a core error or a schema's messages as ``errors: [{pointer,
 
 from __future__ import annotations
 
-import re
 from collections.abc import Mapping, Sequence
 from http import HTTPStatus
 from typing import Any
 
 import orjson
-from marshmallow import Schema, fields
+from marshmallow import fields
 
+from service.contract.fields import ContractSchema
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.errors import ElectricalError
 
 PROBLEM_TYPE = "application/problem+json"
 
 
-class FieldErrorSchema(Schema):
+class FieldErrorSchema(ContractSchema):
     pointer = fields.String(required=True, metadata={"description": "JSON pointer (RFC 6901) into the request body"})
     message = fields.String(required=True)
 
 
-class ProblemSchema(Schema):
+class ProblemSchema(ContractSchema):
     """RFC 9457 problem details with the fields at fault."""
 
     type = fields.String(required=True)
@@ -60,49 +60,6 @@ def core_errors(
     return [{"pointer": pointer_of(err.path, roots, base), "message": err.message}]
 
 
-# The wording of the libraries underneath, in the project's own voice (each message sits beside the pointer of
-# the field it is about, so it says what the field must be).
-VOICE = {
-    "Missing data for required field.": "required: give this field",
-    "Field may not be null.": "may not be null: give a value, or leave the field out where it is optional",
-    "Unknown field.": "not a field of this object: /openapi.json lists its fields",
-    "Not a valid string.": "must be a string",
-    "Not a valid integer.": "must be a whole number",
-    "Not a valid boolean.": "must be true or false",
-    "Not a valid list.": "must be a list",
-    "Not a valid mapping type.": "must be an object",
-    "Invalid input type.": "must be an object",
-    "Not a valid number.": "must be a number",
-    "Not a number.": "must be a number",
-    "Not a finite number.": "must be a finite number",
-    "Invalid value.": "not an allowed value",
-}
-VOICE_PATTERNS = (
-    (
-        re.compile(r"^Must be greater than or equal to (.+) and less than or equal to (.+)\.$"),
-        "must be from {0} to {1}",
-    ),
-    (re.compile(r"^Must be greater than or equal to (.+)\.$"), "must be at least {0}"),
-    (re.compile(r"^Must be less than or equal to (.+)\.$"), "must be at most {0}"),
-    (re.compile(r"^Must be one of: (.+)\.$"), "must be one of: {0}"),
-    (re.compile(r"^Length must be between (.+) and (.+)\.$"), "must hold from {0} to {1} items or characters"),
-    (re.compile(r"^Shorter than minimum length (.+)\.$"), "must hold at least {0} items or characters"),
-    (re.compile(r"^Longer than maximum length (.+)\.$"), "must hold at most {0} items or characters"),
-    (re.compile(r"^Must be equal to (.+)\.$"), "must be {0}"),
-)
-
-
-def voiced(message: str) -> str:
-    """A library's stock sentence in the project's words (the project's own messages pass unchanged)."""
-    if message in VOICE:
-        return VOICE[message]
-    for pattern, wording in VOICE_PATTERNS:
-        found = pattern.match(message)
-        if found:
-            return wording.format(*found.groups())
-    return message
-
-
 def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
     """marshmallow / webargs nested messages as a flat list of ``{pointer, message}``."""
     out: list[dict[str, str]] = []
@@ -117,9 +74,9 @@ def flatten(messages: Any, base: str = "") -> list[dict[str, str]]:
             if isinstance(item, (Mapping, list, tuple)):
                 out.extend(flatten(item, base))
             else:
-                out.append({"pointer": base, "message": voiced(str(item))})
+                out.append({"pointer": base, "message": str(item)})
     else:
-        out.append({"pointer": base, "message": voiced(str(messages))})
+        out.append({"pointer": base, "message": str(messages)})
     return out
 
 

@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import dataclasses
 
-from marshmallow import Schema, ValidationError, fields, post_load, validate
+from marshmallow import ValidationError, fields, post_load, validate
 
-from service.contract.fields import Flag, Number, WholeNumber, choice
+from service.contract.fields import ContractSchema, Flag, Number, WholeNumber, choice
 from service.electrical.devices import defaults as device_defaults
 from service.electrical.devices.catalogue import standards, types
 from service.electrical.errors import ElectricalError
@@ -14,7 +14,7 @@ from service.electrical.inputs import DeviceDefaults, EvCharge, built
 from service.electrical.rules import requirements
 
 
-class EvSchema(Schema):
+class EvSchema(ContractSchema):
     dc_fault_detection = Flag(
         metadata={"description": "d.c. fault detection (6 mA, an RDC-DD) in the charge point (722.531.3.101)"}
     )
@@ -28,7 +28,7 @@ class EvSchema(Schema):
         return built(EvCharge, data)
 
 
-class CircuitFactsSchema(Schema):
+class CircuitFactsSchema(ContractSchema):
     """What a circuit supplies and where (a base of the circuit schemas)."""
 
     equipment = choice(
@@ -74,7 +74,7 @@ def with_edition(data: dict) -> dict:
     return data
 
 
-class LetThroughPointSchema(Schema):
+class LetThroughPointSchema(ContractSchema):
     prospective_current_a = Number(minimum=1, maximum=1e6, required=True)
     i2t_a2s = Number(minimum=1, maximum=1e10, required=True, metadata={"description": "let-through energy, A2s"})
 
@@ -92,7 +92,7 @@ def curve_of(points) -> tuple[tuple[float, float], ...]:
     return tuple((p["prospective_current_a"], p["i2t_a2s"]) for p in points)
 
 
-class DeviceDefaultsSchema(Schema):
+class DeviceDefaultsSchema(ContractSchema):
     standard = choice(standards(), required=True)
     type = choice(types(), metadata={"description": "omit: every type of the standard"})
     breaking_capacity_ka = Number(minimum=0.1, maximum=200)
@@ -115,7 +115,7 @@ def device_defaults_field() -> fields.List:
     )  # fmt: skip
 
 
-class JobSchema(Schema):
+class JobSchema(ContractSchema):
     """What a request says once for the whole job, beside its supply: the edition, the premises, the maker's data.
     A base of every request that carries a supply; its edition and premises go onto the supply (the core reads them
     there) and its devices are completed from the defaults."""

@@ -4,8 +4,9 @@ parts are made from the core's dataclasses (:func:`service.contract.shapes.schem
 
 from __future__ import annotations
 
-from marshmallow import Schema, fields, validate
+from marshmallow import fields, validate
 
+from service.contract.fields import ContractSchema
 from service.contract.problems import ProblemSchema
 from service.contract.shapes import schema_of
 from service.electrical.checks.overload import Factor, OverloadResult
@@ -49,14 +50,14 @@ class CheckAnswerSchema(CircuitResultSchema):
     edition = edition_answer()
 
 
-class BatchItemSchema(Schema):
+class BatchItemSchema(ContractSchema):
     index = fields.Integer(required=True)
     id = fields.String(allow_none=True, required=True)
     result = fields.Nested(CircuitResultSchema, metadata={"description": "present when the item was checked"})
     problem = fields.Nested(ProblemSchema, metadata={"description": "present when the item could not be checked"})
 
 
-class BatchSummarySchema(Schema):
+class BatchSummarySchema(ContractSchema):
     circuits = fields.Integer(required=True)
     passed = fields.Integer(required=True, data_key=Verdict.PASS)
     failed = fields.Integer(required=True, data_key=Verdict.FAIL)
@@ -64,7 +65,7 @@ class BatchSummarySchema(Schema):
     invalid = fields.Integer(required=True)
 
 
-class BatchResultSchema(Schema):
+class BatchResultSchema(ContractSchema):
     results = fields.List(fields.Nested(BatchItemSchema), required=True)
     summary = fields.Nested(BatchSummarySchema, required=True)
     edition = edition_answer()

@@ -24,7 +24,7 @@ from service.electrical.devices import let_through, residual
 from service.electrical.devices.base import Device
 from service.electrical.devices.catalogue import resolve
 from service.electrical.errors import ElectricalError, InvalidInput
-from service.electrical.inputs import Circuit, Supply
+from service.electrical.inputs import Circuit, Supply, electrode_problem
 from service.electrical.network import voltage_factors
 from service.electrical.rules import disconnection, requirements
 
@@ -48,8 +48,9 @@ class CircuitFailure:
     def field(self) -> str:
         return ".".join(str(p) for p in self.path)
 
-
-TT_ZE_BELOW_RA = "in TT, ze_ohm is the whole external loop including the electrode: it cannot be below electrode_ohm"
+    def as_error(self) -> ElectricalError:
+        """The error that stopped the circuit, to raise where one circuit was asked for."""
+        return self.error(self.path, self.message)
 
 
 def _optional(values: Sequence[float | None]) -> np.ndarray:
@@ -305,8 +306,9 @@ def _rules_problem(supply: Supply, role: str, load: str | None, rating_a: float)
     for name in ("ze_ohm", "u0_v"):
         if not getattr(supply, name) > 0:
             return InvalidInput(("supply", name), "must be greater than zero")
-    if supply.earthing == "TT" and supply.electrode_ohm is not None and supply.electrode_ohm > supply.ze_ohm:
-        return InvalidInput(("supply", "ze_ohm"), TT_ZE_BELOW_RA)
+    electrode = electrode_problem(supply.earthing, supply.ze_ohm, supply.electrode_ohm)
+    if electrode is not None:
+        return InvalidInput(("supply", "ze_ohm"), electrode)
     try:
         disconnection.max_disconnection_time_s(
             supply.earthing, supply.u0_v, role, load, rating_a, supply.current_kind, False, supply.reduced_low_voltage

@@ -11,6 +11,17 @@ from dataclasses import dataclass
 from functools import cache, cached_property
 from typing import Any, TypeVar
 
+TT_ZE_BELOW_RA = "in TT, ze_ohm is the whole external loop including the electrode: it cannot be below electrode_ohm"
+
+
+def electrode_problem(earthing: str | None, ze_ohm: float | None, electrode_ohm: float | None) -> str | None:
+    """The supply's cross-field rule, said once for the schemas and the core: in TT the earth fault loop runs
+    through the installation's electrode, so the external loop Ze holds its resistance RA and cannot be below it
+    (common practice). None: no problem, or a value not given."""
+    if earthing == "TT" and electrode_ohm is not None and ze_ohm is not None and electrode_ohm > ze_ohm:
+        return TT_ZE_BELOW_RA
+    return None
+
 
 @dataclass(frozen=True)
 class Supply:

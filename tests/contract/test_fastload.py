@@ -8,12 +8,12 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from marshmallow import Schema, ValidationError, fields
 
-from service.api.measurement_views import VerifyItemSchema
 from service.contract import fastload
 from service.contract.circuit_schemas import CheckRequestSchema, CircuitSchema, SupplySchema
 from service.contract.fastload import Refused, fast_load
 from service.contract.fields import Number
 from service.contract.installation_schemas import BoardCircuitSchema
+from service.contract.measurement_schemas import VerifyItemSchema
 from tests.paths import EXAMPLES
 
 
