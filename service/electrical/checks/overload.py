@@ -150,6 +150,7 @@ class OverloadResult:
     rating_a: float | None = figure("In")
     it_a: float | None = figure("tabulated capacity")
     iz_a: float | None = figure("It x Ca x Cg x Ci x Cc, times the cables in parallel")
+    spare_capacity_a: float | None = figure("Iz - Ib: what the cable could still carry (negative: overloaded)")
     factors: dict[str, Any] | None = figure("the correction factors applied, by name", values=Factor)
     capacity_confidence: str | None = figure("how sure the tabulated capacity is")
     capacity_basis: str | None = figure("where It comes from")
@@ -181,6 +182,7 @@ def overload(cols: CircuitColumns, loop: FaultLoop, trip: DeviceResponse, earlie
         "rating_a": in_a,
         "it_a": it,
         "iz_a": iz,
+        "spare_capacity_a": iz - ib,
         "factors": factors,
         "capacity_confidence": confidence,
         "capacity_basis": it_basis,

@@ -5,6 +5,7 @@ Capacities: BS 7671 Table 4D5 (tests/data/capacity/flat-twin-earth-70c-copper.cs
 
 import dataclasses
 
+import numpy as np
 import pytest
 
 from service.electrical.inputs import CableRun, Conductors, DeviceSpec
@@ -34,6 +35,15 @@ def test_factors_reduce_iz():
     verdict, c = verdict_of(device=b25, conductors=TWIN_6, design_current_a=20, installation=hot)
     assert c.limit[0] == pytest.approx(47 * (40 / 40) ** 0.5 * 0.7 * ((70 - 40) / 40) ** 0.5, rel=1e-9)
     assert verdict == "pass"  # 25 <= 28.6 A
+
+
+def test_the_spare_capacity_is_iz_less_ib():
+    # Table 4D5: 6 mm2 clipped direct 47 A (from memory); Ib 20 A leaves 27 A; without Ib there is no spare to say
+    b32 = DeviceSpec(rating_a=32, standard="BS EN 60898", type="B", breaking_capacity_ka=6)
+    _, c = verdict_of(device=b32, conductors=TWIN_6, design_current_a=20, installation=CLIPPED)
+    assert c.detail[1]["spare_capacity_a"][0] == pytest.approx(47 - 20)
+    _, c = verdict_of(device=b32, conductors=TWIN_6, installation=CLIPPED)
+    assert np.isnan(c.detail[1]["spare_capacity_a"][0])
 
 
 def test_a_semi_enclosed_fuse_takes_0_725():
