@@ -300,16 +300,14 @@ def _install_guards(app: flask.Flask, settings: Settings) -> None:
         if too_many is not None:
             return too_many
         if flask.request.method in BODY_METHODS and flask.request.url_rule is not None:
-            if flask.request.mimetype != "application/json":
+            view = app.view_functions.get(flask.request.url_rule.endpoint)
+            types = getattr(view, "body_types", ("application/json",))
+            if flask.request.mimetype not in types:
+                said = " or ".join(types)
                 return errors.problem_response(
                     415,
-                    "Send the body as application/json.",
-                    [
-                        {
-                            "pointer": "",
-                            "message": f"content type {flask.request.mimetype or 'none'} is not application/json",
-                        }
-                    ],
+                    f"Send the body as {said}.",
+                    [{"pointer": "", "message": f"content type {flask.request.mimetype or 'none'} is not {said}"}],
                 )
         return None
 

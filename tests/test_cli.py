@@ -46,8 +46,34 @@ def test_csv_in_csv_out(tmp_path):
     rows = list(csv.DictReader(io.StringIO(out.read_text())))
     assert [row["verdict"] for row in rows] == ["pass", "invalid"]
     assert float(rows[0]["zs_ohm"]) == 0.5066  # Ze 0.28 + R1+R2 0.226584, to 4 decimals
-    assert rows[1]["problem"] == "/1/length_m: must be a number"
-    assert "cautions" in rows[0]
+    assert rows[1]["problem"] == "/3/length_m: must be a number"  # line 3 of the file: the header is line 1
+    assert [row["line"] for row in rows] == ["2", "3"] and "cautions" in rows[0]
+
+
+def test_a_spreadsheets_csv_utf8_with_a_byte_order_mark_is_read(tmp_path):
+    # common practice: spreadsheets save "CSV UTF-8" with a byte-order mark before the header
+    source = tmp_path / "board.csv"
+    source.write_bytes(b"\xef\xbb\xbf" + ("\r\n".join([HEADER, OVEN]) + "\r\n").encode())
+    r = run(str(source))
+    assert r.returncode == 0, r.stderr
+    assert json.loads(r.stdout)["results"][0]["line"] == 2
+
+
+def test_a_cell_past_the_header_is_refused_with_its_line(tmp_path):
+    source = tmp_path / "board.csv"
+    source.write_text("\n".join([HEADER, OVEN, "", OVEN + ",surplus"]) + "\n")  # a blank line 3 counts as a line
+    r = run(str(source))
+    assert r.returncode == 3
+    second = json.loads(r.stdout)["results"][1]
+    assert second["line"] == 4 and second["problem"]["errors"][0]["pointer"] == "/4"
+    assert "line 4 has 27 cells and the header 26" in second["problem"]["errors"][0]["message"]
+
+
+def test_a_repeated_column_refuses_the_file_naming_it(tmp_path):
+    source = tmp_path / "board.csv"
+    source.write_text("\n".join([HEADER + ",u0_v", OVEN + ",400"]) + "\n")
+    r = run(str(source))
+    assert r.returncode == 2 and b"line 1: the columns ['u0_v'] appear more than once" in r.stderr
 
 
 def test_the_csv_answer_carries_each_circuits_cautions_and_the_rules_it_fails(tmp_path):

@@ -1,4 +1,4 @@
-"""POST /v1/installations/check and /v1/installations/report: a whole installation in one call."""
+"""POST /v1/installations/check, /report and /test-sheet: a whole installation in one call."""
 
 from __future__ import annotations
 
@@ -15,6 +15,8 @@ from service.contract.installation_schemas import (
     problem_messages,
     records,
 )
+from service.contract.strictjson import strict_loads
+from service.contract.test_sheet import TestSheetSchema, sheet_csv, sheet_of
 from service.electrical.inputs import Installation
 from service.electrical.network.installation import InstallationResult, check_installation
 
@@ -85,3 +87,40 @@ def report(body):
     response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'; img-src data:"
     response.headers["Cache-Control"] = "no-store"
     return response
+
+
+CSV = "text/csv"
+SHEET_FORMS = {
+    CSV: {"schema": {"type": "string", "description": "a row a circuit: its limits, its measurements, its design"}},
+    HTML: {"schema": {"type": "string", "description": "the sheet to print and fill in by hand"}},
+}
+
+
+@blp.route("/test-sheet", methods=["POST"])
+@blp.doc(operationId="testSheet")  # a stable name for client generators
+@blp.arguments(InstallationRequestSchema())
+@blp.response(200, TestSheetSchema)
+@blp.doc(responses={200: {"content": SHEET_FORMS}})
+def test_sheet(body):
+    """The site test sheet of an installation (JSON, CSV or printable HTML by Accept)
+
+    The same body as installations/check. Per circuit, what a tester must find on site (`expected`: the largest
+    Zs and R1+R2 at the test temperature, a ring's end-to-end values, the RCD to test and its times, the
+    insulation test voltage and minimum) and the measured fields, empty. The JSON is the very body that
+    test-results/verify takes: fill in `measured` and send it back; the CSV, filled in a spreadsheet, is taken
+    by test-results/verify as `text/csv`. Both are judged against the same limits.
+    """
+    _, result, _ = checked(body)
+    sheet = sheet_of(strict_loads(flask.request.get_data(cache=True)), result)
+    form = flask.request.accept_mimetypes.best_match(["application/json", CSV, HTML])
+    if form == CSV:
+        response = flask.Response(sheet_csv(sheet), mimetype=CSV)
+        response.headers["Content-Disposition"] = 'attachment; filename="test-sheet.csv"'
+        return response
+    if form == HTML:
+        from service.report import test_sheet_html
+
+        response = flask.Response(test_sheet_html(sheet, result), mimetype=HTML)
+        response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'"
+        return response
+    return json_response(sheet)

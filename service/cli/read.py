@@ -18,6 +18,7 @@ from marshmallow import ValidationError
 
 from service.contract.circuit_schemas import CircuitSchema, SupplySchema
 from service.contract.fastload import Refused, fast_load
+from service.contract.fields import csv_cell
 from service.contract.item_lists import echoed
 from service.contract.problems import core_errors, flatten, pointer_of
 from service.contract.requirement_schemas import JobSchema, with_edition
@@ -103,13 +104,12 @@ class Row:
         self.index, self.id, self.base = index, ident, base
         self.supply, self.circuit, self.problem = supply, circuit, problem
         self.csv = False
+        self.line: int | None = None  # a CSV row: the line of the file it starts on (the header is line 1)
 
     def errors_of(self, failure: CircuitFailure) -> list[dict[str, str]]:
         """A core failure's pointer: into the JSON file, or the CSV row and column."""
         if self.csv:
-            return [
-                {"pointer": _as_column(pointer_of(failure.path, CSV_ROOTS), self.index), "message": failure.message}
-            ]
+            return [{"pointer": _as_column(pointer_of(failure.path, CSV_ROOTS), self.line), "message": failure.message}]
         return core_errors(failure, {"supply": "/supply", "circuit": self.base})
 
 
@@ -122,20 +122,6 @@ def _load(schema, raw, base: str):
         return schema.load(raw), None
     except ValidationError as err:
         return None, flatten(err.messages, base)
-
-
-def _cell(value: str, kind: str) -> Any:
-    """A CSV cell as JSON would carry it; a cell that does not parse stays text, so the schema says why."""
-    text = value.strip()
-    if kind == "text":
-        return text
-    if kind == "flag":
-        return {"true": True, "yes": True, "1": True, "false": False, "no": False, "0": False}.get(text.lower(), text)
-    try:
-        number = int(text) if kind == "integer" else float(text)
-    except ValueError:
-        return text
-    return number if number == number and abs(number) != float("inf") else text
 
 
 _POINTER_OF = {
@@ -152,33 +138,54 @@ CSV_ROOTS = {"supply": "/supply", "circuit": "/circuit"}
 _COLUMN_OF = {f"{_POINTER_OF[where]}/{name}": column for column, (where, name, _) in CSV_COLUMNS.items()}
 
 
-def _as_column(pointer: str, index: int) -> str:
-    """A schema pointer (/circuit/conductors/length_m) as the CSV row and column (/3/length_m)."""
+def _as_column(pointer: str, line: int) -> str:
+    """A schema pointer (/circuit/conductors/length_m) as the CSV line and column (/3/length_m: line 3 of the file)."""
     column = _COLUMN_OF.get(pointer)
     if column is None:  # a whole object, e.g. /circuit/conductors: name its first column
         column = next(
             (c for p, c in _COLUMN_OF.items() if p.startswith(pointer + "/")), pointer.rsplit("/", 1)[-1] or ""
         )
-    return f"/{index}/{column}"
+    return f"/{line}/{column}"
 
 
 def iter_csv(stream: TextIO) -> Iterator[Row]:
-    """The rows of a CSV schedule, one at a time (each row has its own supply)."""
-    reader = csv.DictReader(stream)
-    unknown = [c for c in (reader.fieldnames or []) if c not in CSV_COLUMNS]
+    """The rows of a CSV schedule, one at a time (each row has its own supply), each with the line of the file it
+    starts on (the header is line 1, as a person opening the file counts). A byte-order mark before the header (a
+    spreadsheet's "CSV UTF-8") is read past; a repeated column or a cell past the header is refused, never dropped."""
+    reader = csv.reader(stream)
+    header = next(reader, None)
+    if not header:
+        raise ScheduleError("the CSV file is empty: its first line is the header, naming the columns")
+    header[0] = header[0].removeprefix("\ufeff")
+    repeated = sorted({c for c in header if header.count(c) > 1})
+    if repeated:
+        raise ScheduleError(f"line 1: the columns {repeated} appear more than once; each column is named once")
+    unknown = [c for c in header if c not in CSV_COLUMNS]
     if unknown:
-        raise ScheduleError(f"unknown CSV columns {unknown}; the columns are {list(CSV_COLUMNS)}")
-    for index, record in enumerate(reader):
-        yield _csv_row(index, record)
+        raise ScheduleError(f"line 1: unknown CSV columns {unknown}; the columns are {list(CSV_COLUMNS)}")
+    index, line = 0, reader.line_num + 1
+    for cells in reader:
+        start, line = line, reader.line_num + 1
+        if not cells:  # a blank line
+            continue
+        yield _csv_row(index, start, header, cells)
+        index += 1
 
 
-def _csv_row(index: int, record: dict[str, str]) -> Row:
+def _csv_row(index: int, line: int, header: list[str], cells: list[str]) -> Row:
+    if len(cells) > len(header):
+        message = (
+            f"line {line} has {len(cells)} cells and the header {len(header)}: a cell past the header has no column"
+        )
+        row = Row(index, None, f"/{line}", problem=[{"pointer": f"/{line}", "message": message}])
+        row.line, row.csv = line, True
+        return row
     parts: dict[str, dict[str, Any]] = {where: {} for where in _POINTER_OF}
-    for column, value in record.items():
-        if column is None or value is None or value.strip() == "":
+    for column, value in zip(header, cells, strict=False):
+        if value.strip() == "":
             continue
         where, name, kind = CSV_COLUMNS[column]
-        parts[where][name] = _cell(value, kind)
+        parts[where][name] = csv_cell(value, kind)
     circuit = dict(parts["circuit"], device=dict(parts["device"]))
     if parts["rcd"]:
         circuit["device"]["rcd"] = parts["rcd"]
@@ -187,8 +194,8 @@ def _csv_row(index: int, record: dict[str, str]) -> Row:
             circuit[nested] = parts[nested]
     row = _validated(index, parts["supply"], circuit, "", "/supply", "/circuit", head=parts["head"])
     if row.problem:
-        row.problem = [{"pointer": _as_column(e["pointer"], index), "message": e["message"]} for e in row.problem]
-    row.base, row.csv = f"/{index}", True
+        row.problem = [{"pointer": _as_column(e["pointer"], line), "message": e["message"]} for e in row.problem]
+    row.base, row.csv, row.line = f"/{line}", True, line
     return row
 
 

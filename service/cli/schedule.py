@@ -38,6 +38,7 @@ from service.electrical.results.verdicts import Verdict
 FIGURE_COLUMNS = csv_figures(CircuitResult)
 RESULT_COLUMNS = (
     "index",
+    "line",
     "id",
     "verdict",
     *(column for column, _ in FIGURE_COLUMNS),
@@ -54,6 +55,9 @@ def run_chunks(rows: Iterable[Row], progress: Progress):
     done = 0
     for offset, chunk in batch.chunks(rows):
         records = batch.records(chunk, offset, _run, _unreadable, _failed)
+        for row, record in zip(chunk, records, strict=True):
+            if row.line is not None:  # a CSV row: the line of the file it starts on
+                record["line"] = row.line
         done += len(records)
         progress.update(done)
         yield records
@@ -97,7 +101,7 @@ def _figure(result: CircuitResult, path: tuple[str, ...]) -> Any:
 
 def write_csv_rows(writer: csv.DictWriter, records: list[dict[str, Any]]) -> None:
     for record in records:
-        row: dict[str, Any] = {"index": record["index"], "id": record["id"]}
+        row: dict[str, Any] = {"index": record["index"], "line": record.get("line"), "id": record["id"]}
         if "problem" in record:
             row["verdict"] = "invalid"
             row["problem"] = "; ".join(f"{e['pointer']}: {e['message']}" for e in record["problem"]["errors"])
@@ -122,7 +126,8 @@ def main(args: argparse.Namespace) -> int:
                 return _installation(strict_loads(stream.read()), path, args)
             if args.report:
                 raise ScheduleError("--report needs an installation file (the body of POST /v1/installations/check)")
-            text = None if kind == "json" else io.TextIOWrapper(stream, encoding="utf-8", newline="")
+            # utf-8-sig: a byte-order mark (a spreadsheet's "CSV UTF-8") is read past
+            text = None if kind == "json" else io.TextIOWrapper(stream, encoding="utf-8-sig", newline="")
             rows = {"csv": iter_csv, "ndjson": iter_ndjson}[kind](text) if text else iter_json(stream)
             return _checked(rows, args, _count(path, kind))
     except (OSError, UnicodeDecodeError, json.JSONDecodeError, ScheduleError) as err:

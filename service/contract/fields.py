@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import math
 import re
+from typing import Any
 
 from marshmallow import Schema, fields, validate
 
@@ -80,6 +81,20 @@ class Text(fields.String):
         if not safe_text(text):
             raise self.make_error("unsafe")
         return text
+
+
+def csv_cell(value: str, kind: str) -> Any:
+    """A CSV cell as JSON would carry it; a cell that does not parse stays text, so the schema says why."""
+    text = value.strip()
+    if kind == "text":
+        return text
+    if kind == "flag":
+        return {"true": True, "yes": True, "1": True, "false": False, "no": False, "0": False}.get(text.lower(), text)
+    try:
+        number = int(text) if kind == "integer" else float(text)
+    except ValueError:
+        return text
+    return number if number == number and abs(number) != float("inf") else text
 
 
 def choice(values, **kwargs) -> fields.String:

@@ -40,6 +40,9 @@ def _field(annotation: Any, declared: typing.Mapping[str, Any]) -> fields.Field:
         return fields.Nested(schema_of(shape or kind), **kwargs)
     if declared.get("values") is not None:
         return fields.Dict(keys=fields.String(), values=fields.Nested(schema_of(declared["values"])), **kwargs)
+    if origin is dict:
+        _, value = typing.get_args(kind)
+        return fields.Dict(keys=fields.String(), values=_scalar(value)(), **kwargs)
     if origin is list:
         (item,) = typing.get_args(kind)
         if dataclasses.is_dataclass(item):

@@ -17,6 +17,7 @@ from service.electrical.inputs import Circuit, Installation, Unread
 from service.electrical.network.installation import BoardResult, InstallationResult
 from service.electrical.results.circuit_result import GENERAL_CAUTIONS, CircuitResult
 from service.electrical.results.verdicts import Verdict
+from service.electrical.testing.ring import TOLERANCE_OHM as RING_TOLERANCE_OHM
 from service.picture import coordination_svg
 
 HERE = Path(__file__).parent
@@ -157,3 +158,22 @@ def _upstream_of(inst: Installation, result: InstallationResult, board: BoardRes
     parent = next(b for b in inst.boards if b.id == board.fed_from)
     feed = next((c for c in parent.circuits if c.feeds_board == board.id), None)
     return None if feed is None or isinstance(feed, Unread) else feed.device
+
+
+def test_sheet_html(sheet: Mapping[str, Any], result: InstallationResult) -> str:
+    """The site test sheet to print: per board, each circuit's limits and a cell for each reading."""
+    boards: dict[str, dict[str, Any]] = {}
+    for item in sheet["circuits"]:
+        if "expected" not in item:
+            continue
+        board = boards.setdefault(
+            item["board"], {"id": item["board"], "items": [], "ze": item["expected"]["design_ze_ohm"]}
+        )
+        board["items"].append(item)
+    first = next((item["expected"] for item in sheet["circuits"] if "expected" in item), {})
+    return ENV.get_template("test_sheet.html").render(
+        result=result,
+        boards=list(boards.values()),
+        temperature=first.get("test_temperature_c", 20),
+        tolerance=RING_TOLERANCE_OHM,
+    )

@@ -13,7 +13,6 @@ from service.contract.circuit_schemas import CheckRequestSchema, CircuitSchema, 
 from service.contract.fastload import Refused, fast_load
 from service.contract.fields import Number
 from service.contract.installation_schemas import BoardCircuitSchema
-from service.contract.measurement_schemas import VerifyItemSchema
 from tests.paths import EXAMPLES
 
 
@@ -27,7 +26,6 @@ SAMPLES = {
     + [{"earthing": "TT", "u0_v": 230, "ze_ohm": 21, "electrode_ohm": 20, "bonding_complete": True, "c_max": 1.05}],
     CircuitSchema: example("circuits-check-batch.json")["circuits"] + [example("circuits-check.json")["circuit"]],
     CheckRequestSchema: [example("circuits-check.json")],
-    VerifyItemSchema: example("test-results-verify.json")["circuits"],
     BoardCircuitSchema: [c for board in example("installations-check.json")["boards"] for c in board["circuits"]],
 }
 

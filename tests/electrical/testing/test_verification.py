@@ -9,7 +9,7 @@ import pytest
 
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply
-from service.electrical.verification import Measured, verify
+from service.electrical.testing.verification import Measured, verify
 
 BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)
 OVEN = Circuit(
@@ -117,7 +117,9 @@ def test_ring_continuity_readings():
     (out,) = verify(BAKERY, [(RING, good)])
     j = judged(out)
     assert [j[t].verdict for t in ("ring-r1-rn", "ring-r2", "ring-r1-plus-r2")] == ["pass"] * 3
-    assert j["ring-r2"].limit == pytest.approx(0.79) and j["ring-r1-plus-r2"].limit == pytest.approx(0.312)
+    # each rule judged on its difference against the 0.05 ohm it allows: |0.774 - 0.790|, |0.32 - 0.312|
+    assert j["ring-r2"].measured == pytest.approx(0.016) and j["ring-r2"].limit == 0.05
+    assert j["ring-r1-plus-r2"].measured == pytest.approx(0.008) and "0.312" in j["ring-r1-plus-r2"].note
     # a broken neutral leg reads high end to end
     (broken,) = verify(BAKERY, [(RING, Measured(ring_r1_ohm=0.474, ring_rn_ohm=0.61))])
     assert judged(broken)["ring-r1-rn"].verdict == "fail"
