@@ -25,7 +25,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parents[1]
 sys.path.insert(0, str(ROOT))
 
-from bench import budget  # noqa: E402
+from bench import budget, papers  # noqa: E402
 from bench.harness import (  # noqa: E402
     PY,
     Nginx,
@@ -338,6 +338,8 @@ def main() -> int:
     bench_engine()
     bench_start()
     bench_picture()
+    for cells in papers.report_rows():
+        row(*cells)
     figures = budget.in_fresh_process()
     for cells in figures["rows"]:
         row(*cells)

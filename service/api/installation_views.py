@@ -82,7 +82,7 @@ def report(body):
     from service.report import report_html
 
     inst, result, problems = checked(body)
-    html = report_html(inst, result, problem_messages(problems), tick=deadline.check)
+    html = report_html(inst, result, problem_messages(problems), tick=deadline.check, job=body.get("job"))
     response = flask.Response(html, mimetype=HTML)
     response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'; img-src data:"
     response.headers["Cache-Control"] = "no-store"

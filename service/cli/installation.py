@@ -56,7 +56,8 @@ def run(body: dict, path: Path, args, progress) -> int:
     if args.report:
         from service.report import report_html
 
-        Path(args.report).write_text(report_html(inst, result, problem_messages(problems)), encoding="utf-8")
+        html = report_html(inst, result, problem_messages(problems), job=loaded.get("job"))
+        Path(args.report).write_text(html, encoding="utf-8")
     counts = {k: v for k, v in result.summary.items()}
     print(" ".join(f"{k}={v}" for k, v in counts.items()), file=sys.stderr)
     return EXIT_FAIL if result.verdict == Verdict.FAIL else exit_status(counts)

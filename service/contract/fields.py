@@ -107,6 +107,7 @@ def choice(values, **kwargs) -> fields.String:
 # the pointer of the field it is about, so it says what the field must be
 FIELD_WORDS: tuple[tuple[type[fields.Field], dict[str, str]], ...] = (
     (fields.Boolean, {"invalid": "must be true or false"}),
+    (fields.Date, {"invalid": "must be a date, YYYY-MM-DD"}),
     (fields.Integer, {"invalid": "must be a whole number"}),
     (fields.Float, {"invalid": "must be a number", "special": "must be a finite number"}),
     (fields.String, {"invalid": "must be a string"}),

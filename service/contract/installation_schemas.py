@@ -95,8 +95,20 @@ class SurgeProtectionSchema(ContractSchema):
         return built(SurgeProtection, data)
 
 
+class JobDetailsSchema(ContractSchema):
+    """The job the installation is designed for, as the report's cover prints it (each optional)."""
+
+    name = Text(max_length=200, metadata={"description": "the job's name"})
+    address = Text(max_length=400, metadata={"description": "where the installation is"})
+    reference = Text(max_length=100, metadata={"description": "the job's reference in your system"})
+    designer = Text(max_length=200, metadata={"description": "who designed it"})
+    date = fields.Date(metadata={"description": "the date of the design (YYYY-MM-DD)"})
+    revision = Text(max_length=50, metadata={"description": "the design's revision"})
+
+
 class InstallationRequestSchema(ScopedSchema):
     id = Text(max_length=200, metadata={"description": "your reference, echoed in the answer"})
+    job = fields.Nested(JobDetailsSchema, metadata={"description": "the job, for the report's cover"})
     surge_protection = fields.Nested(
         SurgeProtectionSchema,
         metadata={"description": "protection against transient overvoltages (443.4); not stated: not-verified"},

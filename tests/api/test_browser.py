@@ -98,8 +98,21 @@ def test_the_form_shows_api_errors_next_to_their_fields(browser, base_url):
     assert not browser.find_element(By.ID, "result").is_displayed()
 
 
-def test_the_installation_report_prints_to_pdf_with_every_circuit(base_url, tmp_path):
-    """POST /v1/installations/report, printed by the headless browser (--print-to-pdf), read back with pypdf."""
+def three_level_estate() -> bytes:
+    """An invented three-phase estate of three levels: a main board, two distribution boards, four sub-boards."""
+    import json
+
+    from bench.payload import installation
+
+    body = installation(n_circuits=40, groups=2, per_group=2, seed=3)
+    body["job"] = {"name": "Quarry Road estate (invented)", "designer": "T. Ibsen (invented)", "revision": "C"}
+    return json.dumps(body).encode()
+
+
+@pytest.mark.parametrize("which", ["example", "three-level estate"])
+def test_the_installation_report_prints_to_pdf_with_every_circuit(base_url, tmp_path, which):
+    """POST /v1/installations/report, printed by the headless browser (--print-to-pdf) to A4 landscape, read back
+    with pypdf: the cover's figures, the edition, every board and circuit, and the notes."""
     import json
     import re
     import subprocess
@@ -110,7 +123,7 @@ def test_the_installation_report_prints_to_pdf_with_every_circuit(base_url, tmp_
 
     from tests.paths import EXAMPLES
 
-    body = (EXAMPLES / "installations-check.json").read_bytes()
+    body = (EXAMPLES / "installations-check.json").read_bytes() if which == "example" else three_level_estate()
     request = urllib.request.Request(
         f"{base_url}/v1/installations/report", data=body, headers={"Content-Type": "application/json"}
     )
@@ -126,9 +139,13 @@ def test_the_installation_report_prints_to_pdf_with_every_circuit(base_url, tmp_
     )  # fmt: skip
     reader = PdfReader(pdf)  # text without the printer's ligatures (ffi, fi) below
     text = re.sub(r"\s+", " ", unicodedata.normalize("NFKC", " ".join(p.extract_text() for p in reader.pages)))
-    boards = json.loads(body)["boards"]
-    assert len(reader.pages) >= 1 + len(boards)  # the summary, then each board from a new page
-    for board in boards:
+    sent = json.loads(body)
+    width, height = reader.pages[0].mediabox.width, reader.pages[0].mediabox.height
+    assert width > height  # A4 landscape
+    assert len(reader.pages) >= 2 + len(sent["boards"])  # the cover, each board from a new page, the notes
+    assert "BS 7671:2018+A4:2026" in text and sent["job"]["name"] in text and sent["job"]["revision"] in text
+    assert "Largest fault at the origin" in text and "Supply rated current" in text and "Notes" in text
+    for board in sent["boards"]:
         assert f"Board {board['id']}" in text
         for circuit in board["circuits"]:
             assert circuit["id"] in text, circuit["id"]
