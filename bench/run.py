@@ -338,7 +338,7 @@ def main() -> int:
     bench_engine()
     bench_start()
     bench_picture()
-    for cells in papers.report_rows():
+    for cells in papers.report_rows() + papers.design_rows():
         row(*cells)
     figures = budget.in_fresh_process()
     for cells in figures["rows"]:

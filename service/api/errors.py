@@ -15,6 +15,7 @@ from http import HTTPStatus
 from typing import Any
 
 import flask
+from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
 from service.contract.measurement_schemas import csv_pointer
@@ -85,9 +86,15 @@ def unexpected(exc: Exception) -> flask.Response:
     return internal_error(exc)
 
 
+def invalid_body(err: ValidationError) -> flask.Response:
+    """A body a view reads itself (installations/design) that does not validate: a 422 naming every field."""
+    return problem_response(422, "The request body did not validate.", flatten(err.messages))
+
+
 # the exceptions a view may raise, each with the one function that answers it (registered by create_app)
 HANDLERS: tuple[tuple[type[Exception], Callable[[Any], flask.Response]], ...] = (
     (ElectricalError, core_problem),
+    (ValidationError, invalid_body),
     (Exception, unexpected),
 )
 

@@ -1,4 +1,4 @@
-"""POST /v1/installations/check, /report and /test-sheet: a whole installation in one call."""
+"""POST /v1/installations/check, /report, /test-sheet and /design: a whole installation in one call."""
 
 from __future__ import annotations
 
@@ -8,6 +8,7 @@ from service.api import deadline, metrics
 from service.api.base import Blueprint
 from service.api.errors import json_response
 from service.contract import batch
+from service.contract.design_schemas import DesignAnswerSchema, DesignBodySchema, designed
 from service.contract.installation_schemas import (
     InstallationRequestSchema,
     InstallationResultSchema,
@@ -124,3 +125,21 @@ def test_sheet(body):
         response.headers["Content-Security-Policy"] = "default-src 'none'; style-src 'unsafe-inline'"
         return response
     return json_response(sheet)
+
+
+@blp.route("/design", methods=["POST"])
+@blp.doc(operationId="designInstallation")  # a stable name for client generators
+@blp.arguments(DesignBodySchema())
+@blp.response(200, DesignAnswerSchema)
+def design(body):
+    """Design an installation: every size and rating left out chosen, and the bill of quantities
+
+    The body of installations/check, where any circuit or sub-main may leave out `device.rating_a`,
+    `conductors.line_csa_mm2` and `conductors.cpc_csa_mm2`; with `prices` the cost is kept least, else the
+    material. The answer: `installation` (the completed body, which installations/check passes), `checked`
+    (that check), `choices` (per circuit, what was chosen and each smaller candidate with the check that ruled it
+    out), `traded` (where a larger sub-main let the circuits below stay smaller), `failures` (where no design
+    passes: the circuit, the check, what would) and `bill_of_quantities`.
+    """
+    answer = designed(strict_loads(flask.request.get_data(cache=True)), tick=deadline.check)
+    return json_response(answer)

@@ -226,7 +226,7 @@ def voltage_drop(
 def _candidates(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSpec, ib: float):
     """The circuits to try, one per tabulated size with a cpc (each with its installation and Ib, so the
     pipeline's overload check judges its capacity), and the size rows beside them."""
-    in_a = _rating(device, ib, demand.ring)
+    in_a = rating_for(device, ib, demand.ring)
     spec = dataclasses.replace(device, rating_a=in_a)
     problem = device_problem(spec)
     if problem is not None:  # the device, not a size: say so once
@@ -273,7 +273,7 @@ def _candidates(supply: Supply, demand: Demand, inst: CableRun, device: DeviceSp
     return in_a, insulation, circuits, rows
 
 
-def _rating(device: DeviceSpec, ib: float, ring: bool = False) -> float:
+def rating_for(device: DeviceSpec, ib: float, ring: bool = False) -> float:
     """The smallest standard rating at or above Ib; for a ring, the smallest the ring rule covers (30 or 32 A)."""
     if device.standard == adjustable.standard():
         raise InvalidInput(
