@@ -45,11 +45,16 @@ def main(argv: list[str] | None = None) -> int:
     p = sub.add_parser("openapi", help="write the OpenAPI contract generated from the code")
     p.add_argument("file", nargs="?", help="where to write it (default: standard output)")
     p.set_defaults(func=openapi)
+    from service.cli import design
     from service.cli.schedule import add_parser
 
     add_parser(sub)
+    design.add_parser(sub)
     args = parser.parse_args(argv)
-    if args.command == "check":  # the runtime policy, set once, as a worker sets it (service/serving/runtime.py)
+    if args.command in (
+        "check",
+        "design",
+    ):  # the runtime policy, set once, as a worker sets it (service/serving/runtime.py)
         from service.serving import runtime
 
         runtime.apply()

@@ -7,6 +7,8 @@ import subprocess
 import sys
 from pathlib import Path
 
+import pytest
+
 ROOT = Path(__file__).resolve().parents[1]
 HEADER = (
     "id,earthing,u0_v,ze_ohm,prospective_fault_current_ka,line_neutral_loop_ohm,role,load,design_current_a,"
@@ -163,3 +165,43 @@ def test_a_json_schedule_names_its_edition_and_premises_anywhere_at_its_top(tmp_
     bases = [c["basis"] for r in answer["results"] if "result" in r for c in r["result"]["checks"]]
     assert any(b.startswith("BS 7671:2018+A2:2022") for b in bases)
     assert not any(b.startswith("BS 7671:2018+A4:2026") for b in bases)
+
+
+def test_design_writes_the_completed_installation_the_bill_and_the_report(tmp_path):
+    body = json.loads(INSTALLATION.read_text())
+    for board in body["boards"]:
+        for circuit in board["circuits"]:
+            circuit["device"].pop("rating_a")
+            circuit["conductors"].pop("line_csa_mm2")
+            circuit["conductors"].pop("cpc_csa_mm2")
+    body["allowance_percent"] = 5
+    source, completed = tmp_path / "left-out.json", tmp_path / "completed.json"
+    source.write_text(json.dumps(body))
+    bill, report = tmp_path / "bill.csv", tmp_path / "design.html"
+    r = subprocess.run(
+        [sys.executable, "-m", "service", "design", str(source), "-o", str(completed), "--bill", str(bill),
+         "--report", str(report)],
+        cwd=ROOT, capture_output=True, timeout=120,
+    )  # fmt: skip
+    assert r.returncode == 0, r.stderr
+    assert run(str(completed)).returncode == 0  # the completed installation passes the check
+    rows = list(csv.DictReader(io.StringIO(bill.read_text())))
+    design = json.loads(completed.read_text())
+    metres = sum(c["conductors"]["length_m"] for b in design["boards"] for c in b["circuits"])
+    assert sum(float(r["quantity"]) for r in rows if r["item"] == "cable") == pytest.approx(metres * 1.05, abs=0.5)
+    assert sum(int(r["quantity"]) for r in rows if r["item"] == "device") == 8 + 1  # the circuits' and the main fuse
+    assert "Bill of quantities" in report.read_text()
+
+
+def test_design_says_where_no_design_passes(tmp_path):
+    body = json.loads(INSTALLATION.read_text())
+    lights = body["boards"][0]["circuits"][2]
+    lights["conductors"].pop("line_csa_mm2")
+    lights["conductors"].pop("cpc_csa_mm2")
+    lights["conductors"]["length_m"] = 1500
+    source = tmp_path / "far.json"
+    source.write_text(json.dumps(body))
+    r = subprocess.run(
+        [sys.executable, "-m", "service", "design", str(source)], cwd=ROOT, capture_output=True, timeout=120
+    )
+    assert r.returncode == 1 and b"no design passes: board MAIN, yard lights: voltage-drop" in r.stderr

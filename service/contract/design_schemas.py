@@ -5,6 +5,8 @@
 from __future__ import annotations
 
 import copy
+import csv
+import io
 from typing import Any
 
 from marshmallow import ValidationError, fields, validate
@@ -280,3 +282,28 @@ def _chosen_results(design: Any, result: Any) -> list[Any]:
 def _from_memory(outcome: Any) -> bool:
     """Whether the overload check said its capacity or a factor is from memory (its own caution)."""
     return NOTES["memory"] in getattr(outcome, "cautions", ())
+
+
+BILL_COLUMNS = ("item", "cable_or_standard", "type_or_material", "size_or_rating", "cpc_mm2", "rcd", "quantity",
+                "unit", "price", "cost")  # fmt: skip
+
+
+def bill_csv(bill: dict) -> str:
+    """The bill of quantities for a spreadsheet: a row a cable size (metres) and a row a device (count)."""
+    out = io.StringIO()
+    writer = csv.writer(out, lineterminator="\r\n")
+    writer.writerow(BILL_COLUMNS)
+    for line in bill["cables"]:
+        writer.writerow(["cable", line["cable"], line["material"], line["line_csa_mm2"], line["cpc_csa_mm2"], "",
+                         line["length_m"], "m", _blank(line["per_m"]), _blank(line["cost"])])  # fmt: skip
+    for line in bill["devices"]:
+        rcd = (line["rcd"] or "") + (" AFDD" if line["afdd"] else "")
+        writer.writerow(["device", line["standard"], line["type"] or "", line["rating_a"], "", rcd.strip(),
+                         line["count"], "each", _blank(line["each"]), _blank(line["cost"])])  # fmt: skip
+    if bill["total_cost"] is not None:
+        writer.writerow(["total", "", "", "", "", "", "", "", "", bill["total_cost"]])
+    return out.getvalue()
+
+
+def _blank(value):
+    return "" if value is None else value

@@ -188,10 +188,13 @@ def report_html(
     generated: dt.datetime | None = None,
     tick: Callable[[], None] = lambda: None,
     job: Mapping[str, Any] | None = None,
+    bill: Mapping[str, Any] | None = None,
+    traded: Sequence[str] = (),
 ) -> str:
     """The report as one HTML document; ``problems`` holds the messages of circuits the caller could not read;
     ``tick`` is called before each board and each picture (the caller's deadline may stop the work there); ``job``
-    the request's job (name, address, reference, designer, date, revision) for the cover."""
+    the request's job (name, address, reference, designer, date, revision) for the cover; ``bill`` and ``traded``
+    a design's bill of quantities and what it traded (installations/design), printed before the notes."""
     positions = {board.id: b for b, board in enumerate(inst.boards)}
     pictures, notes = Pictures(tick), Notes()
     sections = []
@@ -218,6 +221,8 @@ def report_html(
         generated=when,
         words=CHECK_WORDS,
         test_temperature=TEST_TEMPERATURE_C,
+        bill=bill,
+        traded=list(traded),
     )
 
 
