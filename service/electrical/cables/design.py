@@ -209,8 +209,8 @@ def design_installation(
     _start(inst, slots, ib)
     feeds = _feeds(inst)
     added: dict[tuple[int, int], list[str]] = {}
-    traded: list[str] = []
-    rounds, shared, current = 0, False, inst
+    trades: list[dict[str, Any]] = []
+    rounds, shared, current, before = 0, False, inst, {}
     while rounds < MAX_ROUNDS:
         rounds += 1
         current = completed(current, slots)
@@ -218,18 +218,26 @@ def design_installation(
         outcomes = outcomes_of(result, current)
         if rounds == 1:  # the devices the rules call for, from the first check: then checked with the sizes
             current, added = _required_devices(current, outcomes)
+        if before and search.kept_worse(slots, trades, before, outcomes):
+            before = {}  # a trade's smaller circuit shows less than it did: the trade is undone and checked again
+            continue
         if not search.failing(outcomes) and not (rounds == 1 and added):
             if shared:
                 break
             shared = True  # once feasible, share the drop; then check again
-            traded = share_drop(current, slots, feeds, outcomes, cost or search.material_mm2_m)
-            if not traded:
+            before = {key: search.standing(outcomes.get(key)) for key in slots}
+            trades = share_drop(current, slots, feeds, outcomes, cost or search.material_mm2_m)
+            if not trades:
                 break
             continue
         if not _round(current, slots, feeds, outcomes) and not (rounds == 1 and added):
             break
     feasible = not search.failing(outcomes)
-    return Design(current, result, slots, added, traded, feasible, rounds)
+    for slot in slots.values():  # a size the drop's sharing let a circuit keep is no longer ruled out
+        slot.ruled_out = [
+            r for r in slot.ruled_out if not (r["rating_a"] == slot.rating and r["line_csa_mm2"] >= slot.size[0])
+        ]
+    return Design(current, result, slots, added, [trade["said"] for trade in trades], feasible, rounds)
 
 
 # what would let a circuit pass where no size or rating the design may choose does, by the rule it fails

@@ -8,7 +8,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from service.electrical.cables import capacity as cap
-from service.electrical.cables.sizing import RULED_OUT_ORDER, ruled_out_by
+from service.electrical.cables.sizing import RULE_CHECKS, RULED_OUT_ORDER, ruled_out_by
 from service.electrical.inputs import Circuit
 from service.electrical.network.tree import tree_of
 from service.electrical.results.circuit_result import CircuitResult
@@ -149,14 +149,20 @@ def rating_up(slot: Slot, why: str) -> bool:
 
 
 def failing(outcomes: Mapping[tuple[int, int], Any]) -> list[tuple[tuple[int, int], CircuitResult]]:
-    """The circuits that fail a check, in the tree's order (a not-verified one is not the design's to mend: the
-    fact its check names is)."""
-    return [(k, o) for k, o in outcomes.items() if isinstance(o, CircuitResult) and o.verdict == Verdict.FAIL]
+    """The circuits that fail a check, or whose required selectivity is not shown, in the tree's order (any other
+    not-verified check is not the design's to mend: the fact it names is)."""
+    return [
+        (k, o)
+        for k, o in outcomes.items()
+        if isinstance(o, CircuitResult) and (o.verdict == Verdict.FAIL or selectivity_fails(o))
+    ]
 
 
 def selectivity_fails(outcome: CircuitResult) -> bool:
+    """Selectivity the board requires and the data do not show (it fails, or it cannot be shown: a larger device
+    above may show it)."""
     check = outcome.check("selectivity")
-    return check is not None and check.verdict == Verdict.FAIL and check.check in outcome.verdict_scope["covered"]
+    return check is not None and check.verdict != Verdict.PASS and check.check in outcome.verdict_scope["covered"]
 
 
 def material_mm2_m(circuit: Circuit, line: float, cpc: float) -> float:
@@ -194,9 +200,10 @@ def _shrunk(under: list, outcomes: Mapping, circuits: Mapping, gain: float) -> d
     return out
 
 
-def share_drop(inst: Any, slots: dict, feeds: dict, outcomes: Mapping, cost: Any) -> list[str]:
+def share_drop(inst: Any, slots: dict, feeds: dict, outcomes: Mapping, cost: Any) -> list[dict[str, Any]]:
     """Each feed tried up to three sizes up, top-down: the circuits below it whose size the voltage drop set may
-    then stay smaller; the change that saves the most is kept. Returns what was traded, in words."""
+    then stay smaller; the change that saves the most is kept. Returns each trade: the feed, the size it had, the
+    sizes the circuits below had, and what was traded, in words."""
     tree, said = tree_of(inst), []
     circuits = {key: inst.boards[key[0]].circuits[key[1]] for key in slots}
     for b in tree.order:
@@ -216,11 +223,11 @@ def share_drop(inst: Any, slots: dict, feeds: dict, outcomes: Mapping, cost: Any
             if base - total > best[0]:
                 best = (base - total, k, new)
         if best[1] is not None:
-            said.append(_traded(inst, b, feed, best, fc))
+            trade = {"feed": feeds[b], "was": feed.s, "shrunk": {key: slots[key].s for key in best[2]}}
+            trade["said"] = _traded(inst, b, feed, best, fc)
             for key, k in best[2].items():
                 slots[key].s = k
-                line = slots[key].size[0]
-                slots[key].ruled_out = [r for r in slots[key].ruled_out if r["line_csa_mm2"] < line]
+            said.append(trade)
     return said
 
 
@@ -230,6 +237,37 @@ def _traded(inst: Any, b: int, feed: Slot, best: tuple, circuit: Circuit) -> str
     feed.s = k
     return (
         f"Board {inst.boards[b].id}: its feed {circuit.id or ''} at {feed.size[0]:g} mm2 instead of {old:g} mm2 leaves "
-        f"more of the voltage drop to the {len(new)} circuit{'s' if len(new) != 1 else ''} below, which then stay "
-        f"smaller: {saving:,.0f} less in all"
+        f"more of the voltage drop to the circuits below, and {len(new)} of them "
+        f"{'stays' if len(new) == 1 else 'stay'} smaller: {saving:,.0f} less in all"
     )
+
+
+CABLE_CHECKS = tuple(RULE_CHECKS.get(name, name) for name in RULED_OUT_ORDER)
+RANK = {Verdict.PASS: 0, Verdict.NOT_VERIFIED: 1, Verdict.FAIL: 2}
+
+
+def standing(outcome: Any) -> dict[str, int]:
+    """How each check a size answers for stands (0 pass, 1 not-verified, 2 fail)."""
+    if not isinstance(outcome, CircuitResult):
+        return {}
+    return {c.check: RANK[c.verdict] for c in outcome.checks if c.check in CABLE_CHECKS}
+
+
+def kept_worse(slots: dict, trades: list[dict[str, Any]], before: dict, outcomes: Mapping) -> bool:
+    """After the drop was shared: a trade whose smaller circuits now stand worse than they did (a cpc that passed is
+    not-verified at the smaller size, say) is undone, the feed and the circuits below back to their sizes, and
+    dropped from ``trades``. Whether any was undone."""
+    undone = [
+        trade
+        for trade in trades
+        if any(
+            any(standing(outcomes.get(key)).get(name, 0) > rank for name, rank in before.get(key, {}).items())
+            for key in trade["shrunk"]
+        )
+    ]
+    for trade in undone:
+        slots[trade["feed"]].s = trade["was"]
+        for key, size in trade["shrunk"].items():
+            slots[key].s = size
+        trades.remove(trade)
+    return bool(undone)
