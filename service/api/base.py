@@ -23,10 +23,11 @@ class StrictParser(FlaskParser):
 
     def load_json(self, req, schema):
         """A CSV body where the schema reads one (a filled test sheet): the body it stands for; each item's line in
-        the file is kept for the problems' pointers (flask.g.csv_lines)."""
+        the file is kept for the problems' pointers (flask.g.body_pointer: a pointer into the body as it reads in
+        the file)."""
         if req.mimetype == "text/csv" and hasattr(schema, "reads_csv"):
             try:
-                body, flask.g.csv_lines = schema.reads_csv(req.get_data(cache=True).decode("utf-8-sig"))
+                body, flask.g.body_pointer = schema.reads_csv(req.get_data(cache=True).decode("utf-8-sig"))
             except UnicodeDecodeError:
                 abort(400, messages={"json": {"": ["the CSV body is not UTF-8"]}})
             except ValidationError as err:

@@ -18,7 +18,6 @@ import flask
 from marshmallow import ValidationError
 from werkzeug.exceptions import HTTPException
 
-from service.contract.measurement_schemas import csv_pointer
 from service.contract.problems import PROBLEM_TYPE, core_errors, flatten, json_bytes, problem_body
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.errors import ElectricalError
@@ -137,9 +136,9 @@ def handle_http_exception(error: HTTPException) -> flask.Response:
         errors = flatten(messages)
     else:
         errors = list(getattr(error, "errors", []) or [])
-    lines = flask.g.get("csv_lines") if flask.has_request_context() else None
-    if lines:  # a body read from CSV: its pointers as the lines and columns of the file
-        errors = [{**e, "pointer": csv_pointer(e["pointer"], lines)} for e in errors]
+    as_read = flask.g.get("body_pointer") if flask.has_request_context() else None
+    if as_read is not None:  # a body read from another form (a CSV file): its pointers as that form reads them
+        errors = [{**e, "pointer": as_read(e["pointer"])} for e in errors]
     headers = {k: v for k, v in error.get_headers() if k.lower() != "content-type"}
     headers.update((data.get("headers") or {}) if isinstance(data, Mapping) else {})
     status = error.code or 500

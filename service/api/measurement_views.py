@@ -9,7 +9,7 @@ import flask
 from service.api.base import Blueprint, body_types
 from service.api.errors import json_response
 from service.contract.item_lists import ItemProblem
-from service.contract.measurement_schemas import VerifyRequestSchema, VerifyResultSchema, csv_pointer
+from service.contract.measurement_schemas import VerifyRequestSchema, VerifyResultSchema
 from service.contract.problems import failed_item, invalid_item
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.results import verdicts
@@ -60,10 +60,10 @@ def verify_results(body):
         else:
             results.append({"index": index, "id": outcome.id, "result": outcome})
             counts[outcome.verdict] += 1
-    lines = flask.g.get("csv_lines")
-    if lines:  # read from a filled test sheet's CSV: the problems name its lines and columns
+    as_read = flask.g.get("body_pointer")
+    if as_read is not None:  # read from a filled test sheet's CSV: the problems name its lines and columns
         for record in results:
             for e in record.get("problem", {}).get("errors", []):
-                e["pointer"] = csv_pointer(e["pointer"], lines)
+                e["pointer"] = as_read(e["pointer"])
     summary = verdicts.summary(counts, len(items))
     return json_response({"results": results, "summary": summary, "edition": body["edition"]})

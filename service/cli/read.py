@@ -21,7 +21,7 @@ from service.contract.fastload import Refused, fast_load
 from service.contract.fields import csv_cell
 from service.contract.item_lists import echoed
 from service.contract.problems import core_errors, flatten, pointer_of
-from service.contract.requirement_schemas import JobSchema, with_edition
+from service.contract.requirement_schemas import HEAD, JobSchema, with_edition
 from service.contract.strictjson import strict_loads
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.devices import defaults as device_defaults
@@ -79,7 +79,6 @@ CSV_COLUMNS: dict[str, tuple[str, str, str]] = {
 
 SUPPLY_SCHEMA = SupplySchema()
 CIRCUIT_SCHEMA = CircuitSchema()
-HEAD_KEYS = tuple(JobSchema._declared_fields)  # edition, premises, device_defaults
 
 
 HEAD_SCHEMA = JobSchema()  # what a schedule says once: the edition, the premises, the maker's data
@@ -242,7 +241,7 @@ def rows_of(body: Any) -> Iterator[Row]:
     """The rows of a JSON schedule already parsed."""
     if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
         raise ScheduleError(SCHEDULE_SHAPE)
-    return iter_items(body["supply"], iter(body["circuits"]), {k: body[k] for k in HEAD_KEYS if k in body})
+    return iter_items(body["supply"], iter(body["circuits"]), {k: body[k] for k in HEAD if k in body})
 
 
 SCHEDULE_SHAPE = 'a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes'
@@ -282,7 +281,7 @@ def iter_json(stream: BinaryIO) -> Iterator[Row]:
     if supply is None:
         raise ScheduleError(SCHEDULE_SHAPE)
     head = {}
-    for key in _named(stream, HEAD_KEYS):  # a scan each, and only for a key the file names at all
+    for key in _named(stream, HEAD):  # a scan each, and only for a key the file names at all
         stream.seek(0)
         value = _incremental(lambda key=key: next(ijson.items(stream, key, use_float=True), _END))
         if value is not _END:
@@ -328,13 +327,13 @@ def iter_ndjson(stream: TextIO) -> Iterator[Row]:
     """The rows of an NDJSON schedule: a first line ``{"supply": {...}}``, then one circuit per line."""
     first = stream.readline()
     head = _line(first, 1)
-    if not isinstance(head, dict) or "supply" not in head or not set(head) <= {"supply", *HEAD_KEYS}:
+    if not isinstance(head, dict) or "supply" not in head or not set(head) <= {"supply", *HEAD}:
         raise ScheduleError(
             'an NDJSON schedule starts with a line {"supply": {...}} (with edition and premises if need be), then one '
             "circuit per line"
         )
     lines = (_line(line, n) for n, line in enumerate(stream, 2) if line.strip())
-    return iter_items(head["supply"], lines, {k: head[k] for k in HEAD_KEYS if k in head})
+    return iter_items(head["supply"], lines, {k: head[k] for k in HEAD if k in head})
 
 
 def _line(text: str, number: int) -> Any:

@@ -47,11 +47,17 @@ class PricesSchema(ContractSchema):
     devices = fields.List(fields.Nested(DevicePriceSchema), load_default=list, validate=validate.Length(max=2000))
 
 
-class DesignRequestSchema(InstallationRequestSchema):
+class DesignExtrasSchema(ContractSchema):
+    """What a design's body adds to installations/check's."""
+
     prices = fields.Nested(PricesSchema, metadata={"description": "with prices the design keeps the cost least"})
     allowance_percent = Number(
         minimum=0, maximum=100, load_default=0.0, metadata={"description": "added to every cable length in the bill"}
     )
+
+
+class DesignRequestSchema(InstallationRequestSchema, DesignExtrasSchema):
+    """The body as the design loads it, once a stand-in holds each value left out (:func:`stand_ins`)."""
 
 
 def stand_ins(raw: Any) -> tuple[Any, dict[tuple[int, int], Unknown]]:
@@ -220,7 +226,7 @@ def choices(design: Any) -> list[dict[str, Any]]:
     return out
 
 
-class DesignBodySchema(ContractSchema):
+class DesignBodySchema(DesignExtrasSchema):
     """The design's body as documented: installations/check's (InstallationRequest), where a circuit may leave out
     device.rating_a, conductors.line_csa_mm2 and conductors.cpc_csa_mm2, with prices and an allowance. It is read
     whole by :func:`designed`, which marks what was left out and loads the rest as installations/check does."""
@@ -234,17 +240,16 @@ class DesignBodySchema(ContractSchema):
         required=True,
         metadata={"description": "as installations/check's boards; a circuit may leave out its sizes and rating"},
     )
-    prices = fields.Nested(PricesSchema, metadata={"description": "with prices the design keeps the cost least"})
-    allowance_percent = Number(minimum=0, maximum=100, metadata={"description": "added to cable lengths in the bill"})
 
 
 def designed(raw: Any, tick: Any = None) -> dict[str, Any]:
-    """The whole answer of a design request (the API's and the CLI's)."""
+    """The whole answer of a design request (the API's and the CLI's); ``tick`` is called as each round's check goes
+    (the request's deadline may stop the work there)."""
 
     body, loaded, inst, unknowns = design_inputs(raw)
     prices = prices_of(loaded)
     cost = cost_of(prices) if prices else None
-    design = design_installation(inst, unknowns, cost, loaded.get("checks"))
+    design = design_installation(inst, unknowns, cost, loaded.get("checks"), tick)
     result = design.result  # the last round's check: the completed installation's, figures rounded
     cautions = list(result.cautions)
     if any(_from_memory(o) for o in _chosen_results(design, result)):

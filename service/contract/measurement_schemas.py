@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import csv
 import dataclasses
+import functools
 import io
 import json
 from typing import Any
@@ -13,7 +14,7 @@ from marshmallow import ValidationError, fields, post_load
 from service.contract.circuit_schemas import CircuitSchema, FastSchema, SupplySchema
 from service.contract.fields import ContractSchema, Flag, Number, Text, choice, csv_cell
 from service.contract.item_lists import PerItemList
-from service.contract.requirement_schemas import JobSchema, with_edition
+from service.contract.requirement_schemas import HEAD, JobSchema, with_edition
 from service.contract.result_schemas import BatchSummarySchema, edition_answer
 from service.contract.shapes import schema_of
 from service.contract.strictjson import strict_loads
@@ -79,9 +80,11 @@ class VerifyRequestSchema(FastSchema, JobSchema):
     circuits = PerItemList(fields.Nested(VerifyItemSchema), required=True)
 
     @staticmethod
-    def reads_csv(text: str) -> tuple[dict, list[int]]:
-        """A filled test sheet's CSV (text/csv) as the body it stands for, and each item's line in the file."""
-        return verify_body_of_csv(text)
+    def reads_csv(text: str) -> tuple[dict, Any]:
+        """A filled test sheet's CSV (text/csv) as the body it stands for, and how a pointer into that body reads
+        in the file (its line and column)."""
+        body, lines = verify_body_of_csv(text)
+        return body, functools.partial(csv_pointer, lines=lines)
 
     @post_load
     def onto_items(self, data, **kwargs):
@@ -122,7 +125,6 @@ class VerifyResultSchema(ContractSchema):
 # ------------------------------------------------------------------------------------------ a filled sheet as CSV
 # the test sheet's CSV (service.contract.test_sheet writes it): one row a circuit, its limits, a cell a measurement,
 # and its design (the circuit, its supply and the request's head as JSON)
-HEAD = ("edition", "premises", "device_defaults")
 LIMIT_COLUMNS = tuple(f.name for f in dataclasses.fields(SiteLimits))
 MEASURED_COLUMNS = tuple(f"measured_{f.name}" for f in dataclasses.fields(Measured))
 COLUMNS = ("board", "id", *LIMIT_COLUMNS, *MEASURED_COLUMNS, "design")

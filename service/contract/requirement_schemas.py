@@ -150,3 +150,6 @@ class JobSchema(ContractSchema):
             board["circuits"] = device_defaults.apply(board["circuits"], given)
             if board.get("device") is not None:
                 board["device"] = device_defaults.with_defaults(board["device"], given)
+
+
+HEAD = tuple(JobSchema._declared_fields)  # edition, premises, device_defaults: what a request says once at its head

@@ -19,8 +19,8 @@ from marshmallow import fields
 
 from service.contract.circuit_schemas import CircuitSchema, SupplySchema
 from service.contract.fields import ContractSchema, Text
-from service.contract.measurement_schemas import COLUMNS, HEAD, VerifyRequestSchema
-from service.contract.requirement_schemas import JobSchema
+from service.contract.measurement_schemas import COLUMNS, VerifyRequestSchema
+from service.contract.requirement_schemas import HEAD, JobSchema
 from service.contract.shapes import schema_of
 from service.electrical.network.installation import InstallationResult
 from service.electrical.results.circuit_result import CircuitResult

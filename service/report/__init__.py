@@ -15,14 +15,13 @@ from typing import Any
 from jinja2 import Environment, FileSystemLoader, select_autoescape
 from markupsafe import Markup
 
-from service.electrical.cables.conductors import operating_temperature_c
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.devices.catalogue import resolve
-from service.electrical.devices.limits import measured_limit_ohm
 from service.electrical.inputs import Circuit, Installation, Unread
 from service.electrical.network.installation import BoardResult, InstallationResult
 from service.electrical.results.circuit_result import GENERAL_CAUTIONS, CircuitResult
 from service.electrical.results.verdicts import Verdict
+from service.electrical.testing.judges import largest_zs_at
 from service.electrical.testing.ring import TOLERANCE_OHM as RING_TOLERANCE_OHM
 from service.report.loglog import pair_svg
 from service.report.words import CHECK_WORDS, Notes, number, plain
@@ -69,17 +68,6 @@ def _device(circuit: Circuit, result: CircuitResult) -> tuple[str, str]:
         else f"{number(rcd.residual_current_ma)} mA {rcd.type or 'type ?'}" + (" S" if rcd.delay == "S" else "")
     )
     return f"{result.device['label']}{capacity}", residual
-
-
-def _largest_measured_zs(circuit: Circuit, result: CircuitResult) -> float | None:
-    """The largest Zs a tester may read at 20 degC: the limit the max-zs check applied, scaled by the ratio of
-    resistances (BS 7671 Appendix 3 approach), as the test sheet gives it."""
-    check = result.check("max-zs")
-    if check is None or check.limit is None:
-        return None
-    insulation = circuit.conductors.insulation if circuit.conductors is not None else "thermoplastic-70"
-    limit, _ = measured_limit_ohm(check.limit, operating_temperature_c(insulation), TEST_TEMPERATURE_C)
-    return round(float(limit), 3)
 
 
 def _selectivity(result: CircuitResult) -> str:
@@ -129,7 +117,7 @@ def _row(item: Any, circuit: Any, problems: Sequence[str], notes: Notes) -> dict
         "cable": _cable(circuit),
         "device": device,
         "rcd": rcd,
-        "measured_zs": _largest_measured_zs(circuit, item),
+        "measured_zs": largest_zs_at(item, circuit, TEST_TEMPERATURE_C),  # as the test sheet gives it
         "selectivity": _selectivity(item),
         "look": look,
         "cautions": cautions,

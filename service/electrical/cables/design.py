@@ -25,7 +25,7 @@ from typing import Any
 from service.electrical.cables import capacity as cap
 from service.electrical.cables import design_search as search
 from service.electrical.cables.design_search import Slot, Unknown, share_drop
-from service.electrical.cables.sizing import cpc_for, rating_for
+from service.electrical.cables.sizing import REQUIREMENT_CHECKS, cpc_for, rating_for
 from service.electrical.devices import catalogue
 from service.electrical.errors import InvalidInput, NoRule
 from service.electrical.inputs import Circuit, Installation
@@ -36,7 +36,6 @@ from service.electrical.results.circuit_result import CircuitResult
 from service.electrical.rules import requirements
 
 MAX_ROUNDS = 12
-REQUIREMENT_CHECKS = ("additional-protection", "rcd-type", "arc-fault-detection", "ev-earthing")
 
 
 def _sizes(circuit: Circuit, unknown: Unknown, path: tuple) -> list[tuple[float, float]]:
@@ -70,8 +69,8 @@ def _ratings(circuit: Circuit, unknown: Unknown, ib: float | None, path: tuple) 
     return [r for r in catalogue.ratings_for(circuit.device.standard) if r >= first - 1e-9]
 
 
-def slots_of(inst: Installation, unknowns: Mapping[tuple[int, int], Unknown]) -> tuple[dict, dict]:
-    """Each circuit's slot (by board and circuit position), and each feed's design current (the board's demand)."""
+def slots_of(inst: Installation, unknowns: Mapping[tuple[int, int], Unknown]) -> dict[tuple[int, int], Slot]:
+    """Each circuit's slot, by board and circuit position (a feed's design current is its board's demand)."""
     tree = tree_of(inst)
     _, feed_current = bv.demands(inst, tree)
     slots = {}
@@ -83,7 +82,7 @@ def slots_of(inst: Installation, unknowns: Mapping[tuple[int, int], Unknown]) ->
         if not sizes:
             raise InvalidInput(path + ("installation", "cable"), "no size of this cable family has a cpc to give it")
         slots[(b, c)] = Slot(b, c, unknown, _ratings(circuit, unknown, ib, path), sizes)
-    return slots, {key: value[0] for key, value in feed_current.items()}
+    return slots
 
 
 def completed(inst: Installation, slots: Mapping[tuple[int, int], Slot]) -> Installation:
@@ -106,7 +105,7 @@ def completed(inst: Installation, slots: Mapping[tuple[int, int], Slot]) -> Inst
     return dataclasses.replace(inst, boards=tuple(boards)) if changed else inst
 
 
-def _start(inst: Installation, slots: Mapping[tuple[int, int], Slot], ib: Mapping) -> None:
+def _start(inst: Installation, slots: Mapping[tuple[int, int], Slot]) -> None:
     """Each slot's first size: the smallest whose tabulated It, derated for its run, reaches its rating (BS 7671
     433.1.1, Appendix 4), before anything is checked; the check then judges it like any other."""
     for (b, c), slot in slots.items():
@@ -116,9 +115,7 @@ def _start(inst: Installation, slots: Mapping[tuple[int, int], Slot], ib: Mappin
             continue
         insulation = cap.cable_table(run.cable)["insulation"]
         product, _ = cap.derating(run, insulation, circuit.device.standard, 0.0)
-        tabulated = {
-            row.csa_mm2: row.it_a for row in cap.capacities(run.cable, run.installation_method, circuit.phases)
-        }
+        tabulated = search.tabulated_it(circuit)
         parallel = circuit.conductors.parallel_cables
         for k, (line, _) in enumerate(slot.sizes):
             if tabulated.get(line, 0.0) * product * parallel >= slot.rating - 1e-9:
@@ -142,7 +139,6 @@ class Design:
     devices_added: dict[tuple[int, int], list[str]]
     traded: list[str]
     feasible: bool
-    rounds: int
 
 
 def _required_devices(inst: Installation, outcomes: Mapping) -> tuple[Installation, dict]:
@@ -202,11 +198,13 @@ def design_installation(
     unknowns: Mapping[tuple[int, int], Unknown],
     cost: Callable[[Circuit, float, float], float] | None = None,
     scope: Any = None,
+    progress: Callable[[int], None] | None = None,
 ) -> Design:
     """Choose every left-out rating and size (see the module's text). ``cost(circuit, line, cpc)`` prices a run;
-    without it the material (mm2 x m) is kept least. The installation check judges every round."""
-    slots, ib = slots_of(inst, unknowns)
-    _start(inst, slots, ib)
+    without it the material (mm2 x m) is kept least. The installation check judges every round (``progress`` is
+    told as it goes)."""
+    slots = slots_of(inst, unknowns)
+    _start(inst, slots)
     feeds = _feeds(inst)
     added: dict[tuple[int, int], list[str]] = {}
     trades: list[dict[str, Any]] = []
@@ -214,7 +212,7 @@ def design_installation(
     while rounds < MAX_ROUNDS:
         rounds += 1
         current = completed(current, slots)
-        result = check_installation(current, scope)
+        result = check_installation(current, scope, progress=progress, chunk=None)
         outcomes = outcomes_of(result, current)
         if rounds == 1:  # the devices the rules call for, from the first check: then checked with the sizes
             current, added = _required_devices(current, outcomes)
@@ -237,7 +235,7 @@ def design_installation(
         slot.ruled_out = [
             r for r in slot.ruled_out if not (r["rating_a"] == slot.rating and r["line_csa_mm2"] >= slot.size[0])
         ]
-    return Design(current, result, slots, added, [trade["said"] for trade in trades], feasible, rounds)
+    return Design(current, result, slots, added, [trade["said"] for trade in trades], feasible)
 
 
 # what would let a circuit pass where no size or rating the design may choose does, by the rule it fails

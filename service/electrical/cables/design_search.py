@@ -63,6 +63,12 @@ def mv_per_a_m(circuit: Circuit, line_csa_mm2: float) -> float | None:
     return float(value)
 
 
+def tabulated_it(circuit: Circuit) -> dict[float, float]:
+    """It by line size for the circuit's cable family, method and phases (BS 7671 Appendix 4 tables), A."""
+    run = circuit.installation
+    return {row.csa_mm2: row.it_a for row in cap.capacities(run.cable, run.installation_method, circuit.phases)}
+
+
 def _capacity_index(slot: Slot, outcome: CircuitResult, circuit: Circuit) -> int | None:
     """The smallest larger size whose tabulated It, derated as this run derates it, reaches what the overload check
     asked (In, or the ring rule's Iz): the check's own Iz / It gives the derating."""
@@ -70,8 +76,7 @@ def _capacity_index(slot: Slot, outcome: CircuitResult, circuit: Circuit) -> int
     if o["it_a"] in (None, 0) or o["iz_a"] is None or check is None or check.value is None:
         return None
     needed_it = check.value / (o["iz_a"] / o["it_a"])  # Iz >= In (or the ring rule's Iz), It x the derating
-    run = circuit.installation
-    tabulated = {row.csa_mm2: row.it_a for row in cap.capacities(run.cable, run.installation_method, circuit.phases)}
+    tabulated = tabulated_it(circuit)
     for k in range(slot.s + 1, len(slot.sizes)):
         if tabulated.get(slot.sizes[k][0], 0.0) >= needed_it - 1e-9:
             return k
@@ -224,19 +229,18 @@ def share_drop(inst: Any, slots: dict, feeds: dict, outcomes: Mapping, cost: Any
                 best = (base - total, k, new)
         if best[1] is not None:
             trade = {"feed": feeds[b], "was": feed.s, "shrunk": {key: slots[key].s for key in best[2]}}
-            trade["said"] = _traded(inst, b, feed, best, fc)
+            trade["said"] = _traded(inst, b, feed.size[0], feed.sizes[best[1]][0], best, fc)
+            feed.s = best[1]
             for key, k in best[2].items():
                 slots[key].s = k
             said.append(trade)
     return said
 
 
-def _traded(inst: Any, b: int, feed: Slot, best: tuple, circuit: Circuit) -> str:
-    saving, k, new = best
-    old = feed.size[0]
-    feed.s = k
+def _traded(inst: Any, b: int, old: float, line: float, best: tuple, circuit: Circuit) -> str:
+    saving, _, new = best
     return (
-        f"Board {inst.boards[b].id}: its feed {circuit.id or ''} at {feed.size[0]:g} mm2 instead of {old:g} mm2 leaves "
+        f"Board {inst.boards[b].id}: its feed {circuit.id or ''} at {line:g} mm2 instead of {old:g} mm2 leaves "
         f"more of the voltage drop to the circuits below, and {len(new)} of them "
         f"{'stays' if len(new) == 1 else 'stay'} smaller: {saving:,.0f} less in all"
     )

@@ -20,6 +20,7 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any
 
+from service.electrical.cables.conductors import operating_temperature_c
 from service.electrical.datafiles import core_table, device_table
 from service.electrical.devices import residual
 from service.electrical.devices.limits import measured_limit_ohm
@@ -46,6 +47,23 @@ class Context:
 
 
 NO_MAX_ZS = "no maximum Zs follows from the design data"
+ASSUMED_INSULATION = "thermoplastic-70"  # a circuit given only its R1+R2: the operating temperature taken for it
+
+
+def operating_c(circuit: Circuit) -> float:
+    """The conductors' operating temperature the design's limits were worked at, degC (BS 7671 Table 41 notes)."""
+    return float(operating_temperature_c(circuit.conductors.insulation if circuit.conductors else ASSUMED_INSULATION))
+
+
+def largest_zs_at(design: CircuitResult, circuit: Circuit, temperature_c: float) -> float | None:
+    """The largest Zs a tester may read with the conductors at ``temperature_c``: the limit the design's max-zs check
+    applied, scaled by the ratio of resistances (BS 7671 Appendix 3 approach); None where the design has none."""
+    check = design.check("max-zs")
+    if check is None or check.limit is None:
+        return None
+    return float(measured_limit_ohm(check.limit, operating_c(circuit), temperature_c)[0])
+
+
 STABLE_NOTE = "Above 200 ohm a loop reading may not be stable (note to BS 7671:2018 Table 41.5)."
 CONTINUITY_FACTOR = 1.5  # common practice: a TN loop reading this far above the design's points to the cpc path
 

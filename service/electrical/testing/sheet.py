@@ -15,7 +15,7 @@ from __future__ import annotations
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from service.electrical.cables.conductors import operating_temperature_c, temperature_multiplier
+from service.electrical.cables.conductors import temperature_multiplier
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.devices.limits import measured_limit_ohm
 from service.electrical.inputs import Circuit, Supply
@@ -23,7 +23,13 @@ from service.electrical.pipeline import check_circuits
 from service.electrical.results import precision
 from service.electrical.results.circuit_result import CircuitResult
 from service.electrical.results.shapes import figure
-from service.electrical.testing.judges import CONTINUITY_FACTOR, insulation_row, rcd_times_ms
+from service.electrical.testing.judges import (
+    CONTINUITY_FACTOR,
+    insulation_row,
+    largest_zs_at,
+    operating_c,
+    rcd_times_ms,
+)
 from service.electrical.testing.ring import TOLERANCE_OHM, end_to_end_ohm
 
 
@@ -58,13 +64,13 @@ class SiteLimits:
 
 def _limits(design: CircuitResult, supply: Supply, circuit: Circuit, temperature_c: float, voltage: str) -> SiteLimits:
     conductors = circuit.conductors
-    operating_c = operating_temperature_c(conductors.insulation if conductors is not None else "thermoplastic-70")
-    ratio = float(temperature_multiplier(temperature_c) / temperature_multiplier(operating_c))
+    op_c = operating_c(circuit)
+    ratio = float(temperature_multiplier(temperature_c) / temperature_multiplier(op_c))
     max_zs = design.check("max-zs").limit
-    zs, _ = measured_limit_ohm(max_zs, operating_c, temperature_c) if max_zs is not None else (None, None)
+    zs = largest_zs_at(design, circuit, temperature_c)
     r1r2 = design.r1_plus_r2_ohm
     expected_zs = None if supply.earthing == "TT" or r1r2 is None else supply.ze_ohm + r1r2 * ratio
-    room, _ = measured_limit_ohm(max_zs - supply.ze_ohm, operating_c, temperature_c) if max_zs else (None, None)
+    room, _ = measured_limit_ohm(max_zs - supply.ze_ohm, op_c, temperature_c) if max_zs else (None, None)
     ring = end_to_end_ohm(conductors, temperature_c) if conductors is not None and conductors.ring else (None,) * 3
     rcd, row = circuit.device.rcd, insulation_row(voltage)
     times = (rcd_times_ms(rcd.delay, 0), rcd_times_ms(rcd.delay, 2)) if rcd is not None else None
@@ -74,7 +80,7 @@ def _limits(design: CircuitResult, supply: Supply, circuit: Circuit, temperature
         "expected_zs_ohm": expected_zs,
         # the continuity judge's ceiling (testing.judges.judge_zs_continuity)
         "continuity_max_zs_ohm": None if expected_zs is None else CONTINUITY_FACTOR * expected_zs,
-        "max_zs_ohm": None if zs is None else float(zs),
+        "max_zs_ohm": zs,
         "expected_r1_plus_r2_ohm": None if r1r2 is None else r1r2 * ratio,
         "max_r1_plus_r2_ohm": None if room is None else float(room),
         "ring_r1_ohm": ring[0],

@@ -7,7 +7,7 @@ import dataclasses
 from collections import Counter
 from collections.abc import Sequence
 
-from service.electrical.cables.conductors import operating_temperature_c, temperature_multiplier
+from service.electrical.cables.conductors import temperature_multiplier
 from service.electrical.circuit_arrays import CircuitFailure
 from service.electrical.errors import InvalidInput
 from service.electrical.inputs import Circuit, Supply
@@ -59,8 +59,7 @@ def judge_rcd_requirement(ctx: Context) -> list[Judgement]:
 
 
 def _judge(design: CircuitResult, supply: Supply, circuit: Circuit, m: Measured) -> VerificationResult:
-    insulation = circuit.conductors.insulation if circuit.conductors is not None else "thermoplastic-70"
-    theta_op = operating_temperature_c(insulation)
+    theta_op = judges.operating_c(circuit)
     ratio = temperature_multiplier(m.temperature_c) / temperature_multiplier(theta_op)
     ctx = Context(design, supply, circuit, m, theta_op, ratio, design.check("max-zs").limit)
     out = [judgement for judge in JUDGES for judgement in judge(ctx)]
