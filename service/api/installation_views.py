@@ -111,8 +111,8 @@ def test_sheet(body):
     test-results/verify takes: fill in `measured` and send it back; the CSV, filled in a spreadsheet, is taken
     by test-results/verify as `text/csv`. Both are judged against the same limits.
     """
-    _, result, _ = checked(body)
-    sheet = sheet_of(strict_loads(flask.request.get_data(cache=True)), result)
+    inst, result, _ = checked(body)
+    sheet = sheet_of(strict_loads(flask.request.get_data(cache=True)), inst, result)
     form = flask.request.accept_mimetypes.best_match(["application/json", CSV, HTML])
     if form == CSV:
         response = flask.Response(sheet_csv(sheet), mimetype=CSV)

@@ -19,9 +19,10 @@ from marshmallow import fields
 
 from service.contract.circuit_schemas import CircuitSchema, SupplySchema
 from service.contract.fields import ContractSchema, Text
-from service.contract.measurement_schemas import COLUMNS, VerifyRequestSchema
+from service.contract.measurement_schemas import COLUMNS
 from service.contract.requirement_schemas import HEAD, JobSchema
 from service.contract.shapes import schema_of
+from service.electrical.inputs import Circuit, Installation
 from service.electrical.network.installation import InstallationResult
 from service.electrical.results.circuit_result import CircuitResult
 from service.electrical.testing.measured import Measured
@@ -137,13 +138,38 @@ class TestSheetSchema(JobSchema):
     circuits = fields.List(fields.Nested(SheetItemSchema), required=True)
 
 
-def sheet_of(raw: dict[str, Any], result: InstallationResult, temperature_c: float = 20.0) -> dict[str, Any]:
-    """The test sheet of a checked installation (``raw``: its body as sent): the verify body with each circuit's
-    limits, worked out from the sheet itself as verify loads it, so that a filled sheet is judged by the same."""
-    body = body_of(raw, sheet_items(raw, result, temperature_c))
-    loaded = VerifyRequestSchema().load(body)
-    readable = [item for item in loaded["circuits"] if isinstance(item, dict)]
-    limits = iter(
-        site_limits([item.get("supply") or loaded["supply"] for item in readable], [i["circuit"] for i in readable])
-    )
-    return with_limits(body, [next(limits) if isinstance(item, dict) else None for item in loaded["circuits"]])
+def sheet_of(
+    raw: dict[str, Any], inst: Installation, result: InstallationResult, temperature_c: float = 20.0
+) -> dict[str, Any]:
+    """The test sheet of a checked installation (``raw``: its body as sent, ``inst`` as loaded): the verify body with
+    each circuit's limits, worked out from the very circuit and supply verify will read from the sheet (the loaded
+    circuit without its place in the tree; a board's supply as the sheet writes it, loaded as verify loads it), so
+    that a filled sheet is judged by the same limits."""
+    items = sheet_items(raw, result, temperature_c)
+    body = body_of(raw, items)
+    supplies, circuits, loaded = [], [], {}
+    positions = {board.id: b for b, board in enumerate(inst.boards)}
+    for key, item in zip(_checked_keys(raw, result), items, strict=True):
+        if "supply" in item and item["board"] not in loaded:
+            edition = {"edition": inst.supply.edition, "premises": inst.supply.premises}  # the request's, loaded
+            loaded[item["board"]] = dataclasses.replace(SUPPLY.load(item["supply"]), **edition)
+        supplies.append(loaded.get(item["board"], inst.supply))
+        circuit = inst.boards[positions[item["board"]]].circuits[key[1]]
+        circuits.append(dataclasses.replace(circuit, **OWN_PLACE))
+    return with_limits(body, site_limits(supplies, circuits, temperature_c))
+
+
+SUPPLY = SupplySchema()
+# a circuit's place in the tree, which the sheet leaves out: verify sees the circuit without it
+OWN_PLACE = {f.name: f.default for f in dataclasses.fields(Circuit) if f.name in BOARD_ONLY}
+
+
+def _checked_keys(raw: dict[str, Any], result: InstallationResult) -> list[tuple[int, int]]:
+    """Board and circuit positions of the circuits on the sheet, in its order (as :func:`sheet_items` takes them)."""
+    boards = {board.id: board for board in result.boards}
+    return [
+        (b, c)
+        for b, board_raw in enumerate(raw["boards"])
+        for c, outcome in enumerate(boards[board_raw["id"]].circuits)
+        if isinstance(outcome, CircuitResult)
+    ]

@@ -162,3 +162,10 @@ def test_the_printable_sheet_lists_every_circuit(client, body):
 def test_a_csv_body_elsewhere_is_refused(client):
     r = client.post("/v1/circuits/check", data="a,b\n1,2\n", content_type="text/csv")
     assert r.status_code == 415 and "application/json" in r.get_json()["detail"]
+
+
+def test_a_body_that_names_no_edition_gets_its_sheet_under_the_default(client, body):
+    body.pop("edition")
+    sheet = sheet_of(client, body)
+    office = next(item for item in sheet["circuits"] if item["board"] == "OFFICE")
+    assert "edition" not in sheet and office["expected"]["max_zs_ohm"] is not None
