@@ -23,7 +23,6 @@ STYLE = {
     "point": "#111111",
     "grid": "#d9d9d9",
     "upstream": "#3b4f8c",
-    "level": "#5c5c5c",
     "face": "#fbfbf8",
 }
 _LOCK = threading.Lock()
@@ -79,23 +78,23 @@ def _axes(x_range: tuple[float, float], y_range: tuple[float, float]):
     return fig, ax
 
 
-def _curve(ax, device: Device, x_hi: float, prefix: str = "curve", colour: str | None = None, name: str = "") -> None:
+def _curve(ax, device: Device, x_hi: float) -> None:
     """A device's maximum operating times: published parts solid, estimated dashed, the 'at most' end dotted."""
     ch = device.characteristic
     currents, times = [float(c) for c in ch.current_a], [float(t) for t in ch.time_s]
     shown: set[str] = set()
     for k in range(len(currents) - 1):
         estimated = bool(ch.estimated[k] or ch.estimated[k + 1])
-        label = name + ("estimated (see device notes)" if estimated else "published limits")
+        label = "estimated (see device notes)" if estimated else "published limits"
         (line,) = ax.plot(
             currents[k : k + 2],
             times[k : k + 2],
-            color=STYLE["estimated"] if estimated and colour is None else colour or STYLE["curve"],
+            color=STYLE["estimated"] if estimated else STYLE["curve"],
             linestyle="--" if estimated else "-",
             linewidth=2.2,
             label=None if label in shown else label,
         )
-        line.set_gid(f"{prefix}-{k}")
+        line.set_gid(f"curve-{k}")
         shown.add(label)
     published = [(c, t) for c, t, e in zip(currents, times, ch.estimated, strict=True) if not e]
     if published:
@@ -105,19 +104,19 @@ def _curve(ax, device: Device, x_hi: float, prefix: str = "curve", colour: str |
             marker="s",
             markersize=5,
             linestyle="none",
-            color=colour or STYLE["curve"],
-            label=None if name else "published point",
+            color=STYLE["curve"],
+            label="published point",
         )
-        marks.set_gid(f"{prefix}-published-points" if name else "published-points")
+        marks.set_gid("published-points")
     (tail,) = ax.plot(
         [currents[-1], x_hi],
         [times[-1], times[-1]],
-        color=colour or STYLE["curve"],
+        color=STYLE["curve"],
         linestyle=":",
         linewidth=1.6,
-        label=f"{name}at most {times[-1]:g} s (end of the data)",
+        label=f"at most {times[-1]:g} s (end of the data)",
     )
-    tail.set_gid(f"{prefix}-end")
+    tail.set_gid("curve-end")
 
 
 def _operating_point(ax, current_a: float, time_s: float | None, bound: str | None, x_range, y_hi: float) -> None:
@@ -198,35 +197,3 @@ def characteristic_svg(
     if _finite(fault_current_a):
         _operating_point(ax, fault_current_a, time_s, bound, x_range, y_range[1])
     return _svg(fig, ax, device.label + (f": {verdict}" if verdict else ""))
-
-
-def coordination_svg(
-    downstream: Device,
-    upstream: Device,
-    fault_levels_a: dict[str, float | None],
-    limit_a: float | None = None,
-    title: str = "",
-) -> bytes:
-    """A circuit's device and the device feeding its board on the same axes, with the board's fault levels.
-
-    Both curves are maximum operating times (the upstream device may operate sooner: its minimum times are
-    the maker's), so the picture shows where the curves lie; the selectivity verdict rests on the basis the
-    result gives. ``fault_levels_a`` names each current marked as a vertical line; ``limit_a`` is the
-    current up to which selectivity is shown.
-    """
-    warm()
-    x_range, y_range = ranges([downstream, upstream], [*fault_levels_a.values(), limit_a], [1])
-    fig, ax = _axes(x_range, y_range)
-    _curve(ax, downstream, x_range[1], prefix="downstream", name=f"{downstream.label}: ")
-    _curve(ax, upstream, x_range[1], prefix="upstream", colour=STYLE["upstream"], name=f"{upstream.label}: ")
-    styles = iter(["-", "--", ":", "-."])
-    for k, (name, current) in enumerate(fault_levels_a.items()):
-        if _finite(current):
-            line = ax.axvline(
-                current, color=STYLE["level"], linestyle=next(styles), linewidth=1.2, label=f"{name} {current:,.0f} A"
-            )
-            line.set_gid(f"fault-level-{k}")
-    if _finite(limit_a):
-        line = ax.axvline(limit_a, color=STYLE["limit"], linewidth=1.6, label=f"selective up to {limit_a:,.0f} A")
-        line.set_gid("selectivity-limit")
-    return _svg(fig, ax, title or f"{downstream.label} under {upstream.label}")

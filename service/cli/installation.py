@@ -9,7 +9,6 @@ from __future__ import annotations
 
 import sys
 from pathlib import Path
-from typing import Any
 
 from marshmallow import ValidationError
 
@@ -22,10 +21,6 @@ from service.electrical.network.installation import check_installation
 from service.electrical.results.verdicts import Verdict
 
 SCHEMA = InstallationRequestSchema()
-
-
-def is_installation(body: Any) -> bool:
-    return isinstance(body, dict) and "boards" in body
 
 
 def _refused(path: Path, errors: list[dict[str, str]]) -> int:

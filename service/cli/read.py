@@ -237,13 +237,6 @@ def iter_items(supply_raw: Any, items: Iterator[Any], head: dict | None = None) 
         yield _validated(i, supply_raw, item, f"/circuits/{i}", "/supply", f"/circuits/{i}", supply)
 
 
-def rows_of(body: Any) -> Iterator[Row]:
-    """The rows of a JSON schedule already parsed."""
-    if not isinstance(body, dict) or not isinstance(body.get("circuits"), list) or "supply" not in body:
-        raise ScheduleError(SCHEDULE_SHAPE)
-    return iter_items(body["supply"], iter(body["circuits"]), {k: body[k] for k in HEAD if k in body})
-
-
 SCHEDULE_SHAPE = 'a JSON schedule is {"supply": {...}, "circuits": [...]}, as POST /v1/circuits/check-batch takes'
 
 

@@ -88,11 +88,6 @@ def special_locations() -> list[str]:
     return list(_table()["locations_not_modelled"])
 
 
-def location_not_modelled(location: str) -> str | None:
-    """The Part 7 section whose rules are not modelled for ``location`` (None where they are, or none apply)."""
-    return _table()["locations_not_modelled"].get(location)
-
-
 @dataclass
 class RequirementColumns:
     """What the rules beyond the calculations read, one row per distinct combination of facts among the circuits
