@@ -20,8 +20,8 @@ from service.contract.installation_schemas import (
 )
 from service.contract.problems import flatten
 from service.electrical.cables.design import design_installation, failures, outcomes_of
-from service.electrical.cables.design_search import Unknown, material_mm2_m
-from service.electrical.cables.quantities import bill_of_quantities
+from service.electrical.cables.design_search import Unknown
+from service.electrical.cables.quantities import bill_of_quantities, run_cost
 from service.electrical.checks.overload import NOTES
 
 LEFT_OUT = (("device", "rating_a"), ("conductors", "line_csa_mm2"), ("conductors", "cpc_csa_mm2"))
@@ -248,7 +248,7 @@ def designed(raw: Any, tick: Any = None) -> dict[str, Any]:
 
     body, loaded, inst, unknowns = design_inputs(raw)
     prices = prices_of(loaded)
-    cost = cost_of(prices) if prices else None
+    cost = run_cost(prices) if prices else None
     design = design_installation(inst, unknowns, cost, loaded.get("checks"), tick)
     result = design.result  # the last round's check: the completed installation's, figures rounded
     cautions = list(result.cautions)
@@ -265,18 +265,6 @@ def designed(raw: Any, tick: Any = None) -> dict[str, Any]:
         "cautions": cautions,
         "edition": result.edition,
     }
-
-
-def cost_of(prices: dict) -> Any:
-    """A run's cost from the prices (per metre of the cable at its size, times the route and the cables in
-    parallel); a size with no price costs its material, so that a priced size is never passed over for it."""
-
-    def cost(circuit: Any, line: float, cpc: float) -> float:
-        run, c = circuit.installation, circuit.conductors
-        per_m = prices["cables"].get((run.cable if run else None, line))
-        return material_mm2_m(circuit, line, cpc) * 1e6 if per_m is None else per_m * c.length_m * c.parallel_cables
-
-    return cost
 
 
 def _chosen_results(design: Any, result: Any) -> list[Any]:

@@ -7,6 +7,7 @@ from __future__ import annotations
 from collections.abc import Mapping
 from typing import Any
 
+from service.electrical.cables.design_search import material_mm2_m
 from service.electrical.inputs import Circuit, DeviceSpec, Installation
 
 
@@ -93,3 +94,15 @@ def _device_line(key: tuple, count: int, prices: Mapping) -> dict[str, Any]:
         "each": each,
         "cost": None if each is None else round(each * count, 2),
     }
+
+
+def run_cost(prices: Mapping[str, Any]) -> Any:
+    """A run's cost from the prices (per metre of the cable at its size, times the route and the cables in
+    parallel); a size with no price costs its material, so that a priced size is never passed over for it."""
+
+    def cost(circuit: Any, line: float, cpc: float) -> float:
+        run, c = circuit.installation, circuit.conductors
+        per_m = prices["cables"].get((run.cable if run else None, line))
+        return material_mm2_m(circuit, line, cpc) * 1e6 if per_m is None else per_m * c.length_m * c.parallel_cables
+
+    return cost

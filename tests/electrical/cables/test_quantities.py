@@ -3,7 +3,7 @@ counted by standard, type, rating and RCD, priced where prices are given (invent
 
 import pytest
 
-from service.electrical.cables.quantities import bill_of_quantities
+from service.electrical.cables.quantities import bill_of_quantities, run_cost
 from service.electrical.inputs import Board, CableRun, Circuit, Conductors, DeviceSpec, Installation, Rcd, Supply
 
 RUN = CableRun("flat-twin-earth-70c", "C")
@@ -30,3 +30,10 @@ def test_lengths_counts_and_prices():
     assert (plain["count"], plain["cost"]) == (2, 10.0) and (with_rcd["rcd"], with_rcd["count"]) == ("30 mA type A", 1)
     assert bill["unpriced_lines"] == 0 and bill["total_cost"] == pytest.approx(99 * 1.5 + 15.0)
     assert bill_of_quantities(Installation(SUPPLY, (board,)))["total_cost"] is None
+
+
+def test_a_run_costs_its_price_and_an_unpriced_size_is_kept_dearer_than_any_priced_one():
+    cost = run_cost({"cables": {("flat-twin-earth-70c", 2.5): 1.5}, "devices": {}})
+    run = circuit("b", 30, parallel=2)
+    assert cost(run, 2.5, 1.5) == pytest.approx(1.5 * 30 * 2)
+    assert cost(run, 4.0, 1.5) > 1e6  # not in the price list: the design keeps to the sizes it can price
