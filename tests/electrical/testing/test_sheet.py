@@ -3,12 +3,11 @@
 import pytest
 
 from service.electrical.circuit_arrays import CircuitFailure
-from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd
 from service.electrical.testing.sheet import SiteLimits, site_limits
+from tests.electrical.pipeline import BAKERY, KIOSK
 
-# Invented demo scenario: Larkspur Bakery (TN-C-S, Ze 0.28 ohm) and its TT garden kiosk
-BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)
-KIOSK = Supply(earthing="TT", u0_v=230, ze_ohm=21, electrode_ohm=20)
+# Invented demo scenario: Larkspur Bakery (TN-C-S, Ze 0.28 ohm) and its TT garden kiosk (tests/electrical/pipeline.py)
 HEATER = Circuit(
     id="heater",
     role="final",

@@ -8,10 +8,10 @@ import dataclasses
 import pytest
 
 from service.electrical.circuit_arrays import CircuitFailure
-from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd, Supply
+from service.electrical.inputs import Circuit, Conductors, DeviceSpec, Rcd
 from service.electrical.testing.verification import Measured, verify
+from tests.electrical.pipeline import BAKERY
 
-BAKERY = Supply(earthing="TN-C-S", u0_v=230, ze_ohm=0.28, prospective_fault_current_ka=2.1)
 OVEN = Circuit(
     id="oven",
     role="final",
